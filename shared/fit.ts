@@ -1,0 +1,92 @@
+/**
+ * Fit settings and results as exchanged between the engine, the job runner, the API and the client.
+ * zod schemas so the server and the client validate with the same objects.
+ */
+import { z } from 'zod';
+
+export const SAMPLERS = ['auto', 'rhmc', 'hitrun'] as const;
+
+export const FIT_LIMITS = {
+  chains: { min: 1, max: 8 },
+  warmup: { min: 50, max: 20_000 },
+  draws: { min: 50, max: 20_000 },
+  dimension: 500,
+} as const;
+
+export const fitSettingsSchema = z
+  .object({
+    chains: z.number().int().min(FIT_LIMITS.chains.min).max(FIT_LIMITS.chains.max).default(4),
+    warmup: z.number().int().min(FIT_LIMITS.warmup.min).max(FIT_LIMITS.warmup.max).default(1000),
+    draws: z.number().int().min(FIT_LIMITS.draws.min).max(FIT_LIMITS.draws.max).default(1000),
+    seed: z.number().int().min(0).max(2 ** 31 - 1).default(20261201),
+    sampler: z.enum(SAMPLERS).default('auto'),
+  })
+  .strict();
+export type FitSettings = z.infer<typeof fitSettingsSchema>;
+
+export const quantitySummarySchema = z.object({
+  name: z.string(),
+  kind: z.enum(['unknown', 'derived']),
+  mean: z.number(),
+  sd: z.number(),
+  q5: z.number(),
+  q50: z.number(),
+  q95: z.number(),
+  rhat: z.number(),
+  essBulk: z.number(),
+  essTail: z.number(),
+  mcseMean: z.number(),
+  mcseQ5: z.number(),
+  mcseQ50: z.number(),
+  mcseQ95: z.number(),
+});
+export type QuantitySummary = z.infer<typeof quantitySummarySchema>;
+
+export const VERDICT_LEVELS = ['trustworthy', 'run-longer', 'do-not-use'] as const;
+export type VerdictLevel = (typeof VERDICT_LEVELS)[number];
+
+export const verdictSchema = z.object({
+  level: z.enum(VERDICT_LEVELS),
+  /** One plain-language sentence. */
+  reason: z.string(),
+  /** Every rule that was checked, with its outcome, so the user sees why. */
+  rules: z.array(z.object({ rule: z.string(), passed: z.boolean(), detail: z.string() })),
+});
+export type Verdict = z.infer<typeof verdictSchema>;
+
+export const runDiagnosticsSchema = z.object({
+  divergences: z.number().int(),
+  acceptance: z.number(),
+  stepSize: z.number(),
+  maxRhat: z.number(),
+  minEssBulk: z.number(),
+  minEssTail: z.number(),
+  /** Energy fraction of missing information per chain (absent for samplers without energy). */
+  efmi: z.array(z.number()).optional(),
+  /** Mean number of metric factorisations per integrator step (RHMC only). */
+  factorizationsPerStep: z.number().optional(),
+  /** Sampler actually used and why (when settings.sampler was 'auto'). */
+  samplerUsed: z.enum(['rhmc', 'hitrun']),
+  samplerReason: z.string(),
+});
+export type RunDiagnostics = z.infer<typeof runDiagnosticsSchema>;
+
+export const fitSummarySchema = z.object({
+  quantities: z.array(quantitySummarySchema),
+  diagnostics: runDiagnosticsSchema,
+  verdict: verdictSchema,
+  settings: fitSettingsSchema,
+  seconds: z.number(),
+  /** Maximum a posteriori point, when computed. */
+  mode: z.record(z.string(), z.number()).optional(),
+});
+export type FitSummary = z.infer<typeof fitSummarySchema>;
+
+export const fitProgressSchema = z.object({
+  chain: z.number().int(),
+  phase: z.enum(['warmup', 'sampling', 'done']),
+  iteration: z.number().int(),
+  total: z.number().int(),
+  itersPerSecond: z.number(),
+});
+export type FitProgress = z.infer<typeof fitProgressSchema>;
