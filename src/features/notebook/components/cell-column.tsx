@@ -1,0 +1,108 @@
+import { useCallback, useEffect, useRef, type KeyboardEvent, type ReactNode } from 'react';
+import { CELL_KIND_LABELS, NB_CELL_KINDS, type NbCellKind } from '@shared/api/notebook';
+
+/**
+ * Keyboard of the notebook (documented in the README's user guide):
+ * - Mod-Enter (Ctrl-Enter, or ⌘-Enter on a Mac): run the current cell — a fit cell starts its fit,
+ *   a model cell re-checks its program, a notes cell leaves editing.
+ * - Alt-ArrowUp / Alt-ArrowDown: move to the previous / next cell.
+ * Alt-arrows are free in the model editor (which moves lines with Alt-Shift-arrows only in our setup)
+ * and in text areas, so moving between cells works from anywhere inside a cell.
+ */
+export const NOTEBOOK_KEYS = {
+  run: 'Mod-Enter',
+  previous: 'Alt-ArrowUp',
+  next: 'Alt-ArrowDown',
+} as const;
+
+export function isRunKey(e: Pick<KeyboardEvent, 'key' | 'ctrlKey' | 'metaKey' | 'altKey' | 'shiftKey'>): boolean {
+  return e.key === 'Enter' && (e.ctrlKey || e.metaKey) && !e.altKey && !e.shiftKey;
+}
+
+export function moveKey(e: Pick<KeyboardEvent, 'key' | 'ctrlKey' | 'metaKey' | 'altKey' | 'shiftKey'>): -1 | 1 | 0 {
+  if (!e.altKey || e.ctrlKey || e.metaKey || e.shiftKey) return 0;
+  if (e.key === 'ArrowUp') return -1;
+  if (e.key === 'ArrowDown') return 1;
+  return 0;
+}
+
+export interface CellColumnProps<C extends { id: string }> {
+  cells: C[];
+  activeId: string | null;
+  onActivate: (id: string) => void;
+  renderCell: (cell: C, index: number) => ReactNode;
+  /** Add a cell of this kind at this 0-based position; omit for read-only notebooks. */
+  onAdd?: (kind: NbCellKind, position: number) => void;
+  onRun?: (id: string) => void;
+}
+
+/** The column of cells with the "add" line between them and the notebook's keyboard. */
+export function CellColumn<C extends { id: string }>({ cells, activeId, onActivate, renderCell, onAdd, onRun }: CellColumnProps<C>) {
+  const ref = useRef<HTMLDivElement>(null);
+
+  const focusCell = useCallback((id: string) => {
+    const el = ref.current?.querySelector<HTMLElement>(`[data-cell-id="${CSS.escape(id)}"]`);
+    el?.focus({ preventScroll: false });
+    el?.scrollIntoView?.({ block: 'nearest' });
+  }, []);
+
+  const onKeyDown = (e: KeyboardEvent<HTMLDivElement>) => {
+    const current = activeId ?? cells[0]?.id ?? null;
+    if (current === null) return;
+    if (isRunKey(e) && onRun) {
+      e.preventDefault();
+      onRun(current);
+      return;
+    }
+    const step = moveKey(e);
+    if (step !== 0) {
+      const idx = cells.findIndex((c) => c.id === current);
+      const next = cells[Math.min(cells.length - 1, Math.max(0, idx + step))];
+      if (next && next.id !== current) {
+        e.preventDefault();
+        onActivate(next.id);
+        focusCell(next.id);
+      }
+    }
+  };
+
+  // Keep the active cell in view when it changes from outside (e.g. after adding a cell).
+  const lastActive = useRef(activeId);
+  useEffect(() => {
+    if (activeId && activeId !== lastActive.current) {
+      const el = ref.current?.querySelector<HTMLElement>(`[data-cell-id="${CSS.escape(activeId)}"]`);
+      el?.scrollIntoView?.({ block: 'nearest' });
+    }
+    lastActive.current = activeId;
+  }, [activeId]);
+
+  return (
+    <div ref={ref} className="flex flex-col" onKeyDown={onKeyDown} data-testid="cell-column">
+      {onAdd && <AddLine position={0} onAdd={onAdd} always={cells.length === 0} />}
+      {cells.map((cell, i) => (
+        <div key={cell.id}>
+          {renderCell(cell, i)}
+          {onAdd && <AddLine position={i + 1} onAdd={onAdd} always={false} />}
+        </div>
+      ))}
+      {!onAdd && cells.length === 0 && <p className="sl-cell-sub py-8 text-center">This notebook has no cells yet.</p>}
+    </div>
+  );
+}
+
+function AddLine({ position, onAdd, always }: { position: number; onAdd: (kind: NbCellKind, position: number) => void; always: boolean }) {
+  return (
+    <div className="sl-gap" data-always={always} role="group" aria-label={`Add a cell at position ${position + 1}`}>
+      <div className="sl-gap-menu">
+        <span className="sl-cell-sub" aria-hidden>
+          add
+        </span>
+        {NB_CELL_KINDS.map((k) => (
+          <button key={k} type="button" className="sl-btn" onClick={() => onAdd(k, position)} aria-label={`Add ${CELL_KIND_LABELS[k].toLowerCase()} cell here`}>
+            {CELL_KIND_LABELS[k].toLowerCase()}
+          </button>
+        ))}
+      </div>
+    </div>
+  );
+}

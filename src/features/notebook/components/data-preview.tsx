@@ -1,0 +1,93 @@
+import { useMemo, useState } from 'react';
+import type { Dataset, PreviewValue } from '@shared/api/notebook';
+import { formatEstimate } from '@/lib/format';
+
+export type SortDir = 'asc' | 'desc';
+
+/** Sort preview rows by one column: numbers numerically, labels alphabetically, missing always last. */
+export function sortRows(rows: readonly PreviewValue[][], col: number, dir: SortDir): PreviewValue[][] {
+  const sign = dir === 'asc' ? 1 : -1;
+  return rows
+    .map((r, i) => ({ r, i }))
+    .sort((p, q) => {
+      const a = p.r[col];
+      const b = q.r[col];
+      if (a === null || a === undefined) return b === null || b === undefined ? p.i - q.i : 1;
+      if (b === null || b === undefined) return -1;
+      let c: number;
+      if (typeof a === 'number' && typeof b === 'number') c = a - b;
+      else c = String(a).localeCompare(String(b), undefined, { numeric: true });
+      return c !== 0 ? sign * c : p.i - q.i;
+    })
+    .map((x) => x.r);
+}
+
+const TYPE_WORDS = { numeric: 'number', integer: 'whole', category: 'category' } as const;
+
+export interface DataPreviewProps {
+  dataset: Dataset;
+  rows: PreviewValue[][];
+}
+
+/** Preview of a dataset: column types and missing counts, a sortable table, the row count. */
+export function DataPreview({ dataset, rows }: DataPreviewProps) {
+  const [sort, setSort] = useState<{ col: number; dir: SortDir } | null>(null);
+  const sorted = useMemo(() => (sort ? sortRows(rows, sort.col, sort.dir) : rows), [rows, sort]);
+  const missingTotal = dataset.columns.reduce((s, c) => s + c.missing, 0);
+
+  const toggle = (col: number) =>
+    setSort((s) => (s && s.col === col ? (s.dir === 'asc' ? { col, dir: 'desc' } : null) : { col, dir: 'asc' }));
+
+  return (
+    <div className="flex flex-col gap-2" data-testid="data-preview">
+      <p className="text-sm">
+        Table <strong className="sl-mono">{dataset.name}</strong> · <span className="sl-num" data-testid="row-count">{dataset.rows}</span> rows ·{' '}
+        {dataset.columns.length} columns ·{' '}
+        {missingTotal === 0 ? 'no missing values' : <span data-testid="missing-report">{missingTotal} missing value{missingTotal === 1 ? '' : 's'} ({dataset.columns.filter((c) => c.missing > 0).map((c) => `${c.name}: ${c.missing}`).join(', ')})</span>}
+      </p>
+      <div className="overflow-auto" style={{ maxHeight: '22rem' }}>
+        <table className="sl-table">
+          <thead>
+            <tr>
+              {dataset.columns.map((c, i) => {
+                const active = sort?.col === i;
+                return (
+                  <th key={c.name} scope="col" aria-sort={active ? (sort!.dir === 'asc' ? 'ascending' : 'descending') : 'none'} style={{ textAlign: c.type === 'category' ? 'left' : 'right' }}>
+                    <button type="button" className="sl-sort" onClick={() => toggle(i)} title={`Sort by ${c.name}`}>
+                      <span className="sl-mono" style={{ color: 'var(--sl-ink)' }}>{c.name}</span>
+                      <span aria-hidden>{active ? (sort!.dir === 'asc' ? ' ↑' : ' ↓') : ''}</span>
+                    </button>
+                    <div className="sl-type" title={c.levels ? `levels: ${c.levels.join(', ')}` : undefined}>
+                      {TYPE_WORDS[c.type]}
+                      {c.type === 'category' && c.levels ? ` · ${c.levels.length}` : ''}
+                      {c.missing > 0 ? ` · ${c.missing} missing` : ''}
+                    </div>
+                  </th>
+                );
+              })}
+            </tr>
+          </thead>
+          <tbody>
+            {sorted.map((r, i) => (
+              <tr key={i}>
+                {r.map((v, j) => {
+                  const col = dataset.columns[j];
+                  return (
+                    <td key={j} className={col?.type === 'category' ? 'sl-mono' : 'sl-num'} style={col?.type === 'category' ? { textAlign: 'left' } : undefined}>
+                      {v === null ? <span style={{ color: 'var(--sl-ink-soft)' }}>·</span> : typeof v === 'number' ? (col?.type === 'integer' ? String(v) : formatEstimate(v, 4)) : v}
+                    </td>
+                  );
+                })}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
+      {rows.length < dataset.rows && (
+        <p className="sl-hint">
+          Showing the first {rows.length} of {dataset.rows} rows{sort ? ' (sorting applies to the rows shown)' : ''}.
+        </p>
+      )}
+    </div>
+  );
+}

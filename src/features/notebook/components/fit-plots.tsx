@@ -1,0 +1,111 @@
+import { useMemo, useState } from 'react';
+import type { RunDraws } from '@shared/api/notebook';
+import { densitySpec, pairSpec, rankSpec, regionSpec, traceSpec } from '@/lib/plot/specs';
+import { rankHistogram, thinIndices } from '@/lib/plot/thin';
+import { buildRegionView } from '@/lib/plot/region-view';
+import { PlotFrame } from './plot-frame';
+
+export const PLOT_KINDS = ['region', 'trace', 'density', 'rank', 'pair'] as const;
+export type PlotKind = (typeof PLOT_KINDS)[number];
+const PLOT_WORDS: Record<PlotKind, string> = {
+  region: 'Feasible region',
+  trace: 'Trace',
+  density: 'Density',
+  rank: 'Ranks',
+  pair: 'Pair',
+};
+
+/** Points per chain drawn in traces and clouds (summaries always use every draw). */
+const MAX_PER_CHAIN = 1000;
+
+export function FitPlots({ draws }: { draws: RunDraws }) {
+  const hasRegion = draws.region !== null && draws.unknownCount >= 2 && (draws.region.A.length > 0 || draws.region.E.length > 0);
+  const kinds = PLOT_KINDS.filter((k) => k !== 'region' || hasRegion);
+  const [kind, setKind] = useState<PlotKind>(kinds[0]);
+  const [q, setQ] = useState(0);
+  const [pair, setPair] = useState<[number, number]>([0, Math.min(1, draws.names.length - 1)]);
+  const chains = draws.chains.length;
+
+  const spec = useMemo(() => {
+    const values = (idx: number) => draws.chains.map((c) => c.values[idx] ?? []);
+    switch (kind) {
+      case 'trace': {
+        const rows = draws.chains.flatMap((c) => thinIndices(c.values[q]?.length ?? 0, MAX_PER_CHAIN).map((t) => ({ chain: c.chain, iter: t * draws.thin + 1, value: c.values[q][t] })));
+        return traceSpec(draws.names[q], rows, chains);
+      }
+      case 'density': {
+        const rows = draws.chains.flatMap((c) => thinIndices(c.values[q]?.length ?? 0, MAX_PER_CHAIN).map((t) => ({ chain: c.chain, value: c.values[q][t] })));
+        return densitySpec(draws.names[q], rows, chains);
+      }
+      case 'rank': {
+        const bins = 20;
+        const hist = rankHistogram(values(q), bins);
+        const total = draws.chains.reduce((s, c) => s + (c.values[q]?.length ?? 0), 0);
+        return rankSpec(draws.names[q], hist, chains, total / (chains * bins));
+      }
+      case 'pair': {
+        const [i, j] = pair;
+        const rows = draws.chains.flatMap((c) => thinIndices(c.values[i]?.length ?? 0, MAX_PER_CHAIN).map((t) => ({ x: c.values[i][t], y: c.values[j][t], chain: c.chain, divergent: c.divergent[t] ?? 0 })));
+        return pairSpec(draws.names[i], draws.names[j], rows, chains);
+      }
+      case 'region': {
+        const [i, j] = pair;
+        const view = buildRegionView(draws, draws.region!, Math.min(i, draws.unknownCount - 1), Math.min(j, draws.unknownCount - 1));
+        return regionSpec({ xName: draws.names[i], yName: draws.names[j], ...view });
+      }
+    }
+  }, [kind, q, pair, draws, chains]);
+
+  const pairChoices = kind === 'region' ? draws.names.slice(0, draws.unknownCount) : draws.names;
+  const pairSame = pair[0] === pair[1];
+
+  return (
+    <div className="flex flex-col gap-3" data-testid="fit-plots">
+      <div className="sl-tabs" role="tablist" aria-label="Plots">
+        {kinds.map((k) => (
+          <button key={k} type="button" role="tab" className="sl-tab" aria-selected={k === kind} onClick={() => setKind(k)}>
+            {PLOT_WORDS[k]}
+          </button>
+        ))}
+      </div>
+      <div className="flex flex-wrap items-end gap-3 text-sm">
+        {kind === 'pair' || kind === 'region' ? (
+          <>
+            <label className="flex items-center gap-2">
+              <span className="sl-cell-sub">across</span>
+              <select className="sl-input" style={{ width: 'auto' }} value={pair[0]} onChange={(e) => setPair([Number(e.target.value), pair[1]])} aria-label="Horizontal quantity">
+                {pairChoices.map((n, k) => <option key={n} value={k}>{n}</option>)}
+              </select>
+            </label>
+            <label className="flex items-center gap-2">
+              <span className="sl-cell-sub">up</span>
+              <select className="sl-input" style={{ width: 'auto' }} value={pair[1]} onChange={(e) => setPair([pair[0], Number(e.target.value)])} aria-label="Vertical quantity">
+                {pairChoices.map((n, k) => <option key={n} value={k}>{n}</option>)}
+              </select>
+            </label>
+          </>
+        ) : (
+          <label className="flex items-center gap-2">
+            <span className="sl-cell-sub">quantity</span>
+            <select className="sl-input" style={{ width: 'auto' }} value={q} onChange={(e) => setQ(Number(e.target.value))} aria-label="Quantity">
+              {draws.names.map((n, k) => <option key={n} value={k}>{n}</option>)}
+            </select>
+          </label>
+        )}
+      </div>
+      {kind === 'region' && (
+        <p className="sl-hint" style={{ maxWidth: '44rem' }}>
+          The slice of the constraint region through the posterior mean: every other unknown is held at its mean, each
+          constraint becomes a line in this plane, and the tinted side is where all of them hold. Draws vary in the other
+          unknowns too, so a few may sit outside this one slice.
+        </p>
+      )}
+      {(kind === 'pair' || kind === 'region') && pairSame ? (
+        <p className="sl-cell-sub">Choose two different quantities.</p>
+      ) : (
+        <PlotFrame spec={spec} label={`${PLOT_WORDS[kind]} plot`} />
+      )}
+      {draws.thin > 1 && <p className="sl-hint">Plotted from every {draws.thin}th draw; the summary uses them all.</p>}
+    </div>
+  );
+}

@@ -1,0 +1,155 @@
+import { useEffect, useState, type FormEvent } from 'react';
+import { FIT_LIMITS, SAMPLERS, fitSettingsSchema, type FitSettings } from '@shared/fit';
+
+const DEFAULTS: FitSettings = fitSettingsSchema.parse({});
+
+const SAMPLER_WORDS: Record<(typeof SAMPLERS)[number], string> = {
+  auto: 'automatic (chosen from the model’s structure)',
+  rhmc: 'barrier-metric Riemannian HMC',
+  hitrun: 'hit-and-run (cross-check)',
+};
+
+type Draft = Record<'chains' | 'warmup' | 'draws' | 'seed', string> & { sampler: FitSettings['sampler'] };
+
+const toDraft = (s: FitSettings): Draft => ({
+  chains: String(s.chains),
+  warmup: String(s.warmup),
+  draws: String(s.draws),
+  seed: String(s.seed),
+  sampler: s.sampler,
+});
+
+/** Parse the form's text fields with the shared schema; field messages keyed by field name. */
+export function parseFitDraft(d: Draft): { ok: true; settings: FitSettings } | { ok: false; errors: Partial<Record<keyof Draft, string>> } {
+  const num = (s: string) => (s.trim() === '' || !/^-?\d+(\.\d+)?$/.test(s.trim()) ? NaN : Number(s));
+  const candidate = { chains: num(d.chains), warmup: num(d.warmup), draws: num(d.draws), seed: num(d.seed), sampler: d.sampler };
+  const r = fitSettingsSchema.safeParse(candidate);
+  if (r.success) return { ok: true, settings: r.data };
+  const errors: Partial<Record<keyof Draft, string>> = {};
+  for (const issue of r.error.issues) {
+    const key = issue.path[0] as keyof Draft;
+    if (errors[key]) continue;
+    const raw = (d as Record<string, string>)[key as string];
+    if (Number.isNaN((candidate as Record<string, unknown>)[key as string])) errors[key] = raw.trim() === '' ? 'Required' : `"${raw}" is not a whole number`;
+    else if (issue.code === 'too_small') errors[key] = `At least ${String(issue.minimum)}`;
+    else if (issue.code === 'too_big') errors[key] = `At most ${Number(issue.maximum).toLocaleString('en')}`;
+    else if (issue.code === 'invalid_type' && issue.expected === 'int') errors[key] = 'Must be a whole number';
+    else errors[key] = issue.message;
+  }
+  return { ok: false, errors };
+}
+
+export interface FitSettingsFormProps {
+  value: FitSettings;
+  readOnly: boolean;
+  running: boolean;
+  /** Called with valid settings when the draft changes (for autosave) and on Run. */
+  onChange?: (settings: FitSettings) => void;
+  onRun?: (settings: FitSettings) => void;
+  onCancel?: () => void;
+}
+
+const FIELDS = [
+  { key: 'chains', label: 'Chains', limits: FIT_LIMITS.chains, hint: 'run in parallel' },
+  { key: 'warmup', label: 'Warm-up iterations', limits: FIT_LIMITS.warmup, hint: 'per chain, discarded' },
+  { key: 'draws', label: 'Draws', limits: FIT_LIMITS.draws, hint: 'kept per chain' },
+] as const;
+
+/** The fit cell's settings: defaults and limits shown, validated with the shared schema. */
+export function FitSettingsForm({ value, readOnly, running, onChange, onRun, onCancel }: FitSettingsFormProps) {
+  const [draft, setDraft] = useState<Draft>(() => toDraft(value));
+  const [errors, setErrors] = useState<Partial<Record<keyof Draft, string>>>({});
+
+  // Follow outside changes (another person's save) unless the draft differs on purpose.
+  const valueKey = JSON.stringify(value);
+  useEffect(() => {
+    setDraft(toDraft(value));
+    setErrors({});
+  }, [valueKey]); // eslint-disable-line react-hooks/exhaustive-deps
+
+  const update = (patch: Partial<Draft>) => {
+    const next = { ...draft, ...patch };
+    setDraft(next);
+    const r = parseFitDraft(next);
+    if (r.ok) {
+      setErrors({});
+      onChange?.(r.settings);
+    } else setErrors(r.errors);
+  };
+
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    const r = parseFitDraft(draft);
+    if (!r.ok) {
+      setErrors(r.errors);
+      return;
+    }
+    onRun?.(r.settings);
+  };
+
+  const disabled = readOnly || running;
+  return (
+    <form onSubmit={submit} className="flex flex-col gap-3" aria-label="Fit settings" noValidate>
+      <div className="grid gap-3" style={{ gridTemplateColumns: 'repeat(auto-fit, minmax(9rem, 1fr))' }}>
+        {FIELDS.map((f) => (
+          <div className="sl-field" key={f.key}>
+            <label htmlFor={`fit-${f.key}`}>{f.label}</label>
+            <input
+              id={`fit-${f.key}`}
+              className="sl-input"
+              inputMode="numeric"
+              value={draft[f.key]}
+              disabled={disabled}
+              aria-invalid={errors[f.key] ? true : undefined}
+              aria-describedby={`fit-${f.key}-hint`}
+              onChange={(e) => update({ [f.key]: e.target.value } as Partial<Draft>)}
+            />
+            {errors[f.key] ? (
+              <div className="sl-field-error" role="alert">{errors[f.key]}</div>
+            ) : (
+              <div className="sl-hint" id={`fit-${f.key}-hint`}>
+                {f.limits.min}–{f.limits.max.toLocaleString('en')}, default {DEFAULTS[f.key]} · {f.hint}
+              </div>
+            )}
+          </div>
+        ))}
+        <div className="sl-field">
+          <label htmlFor="fit-seed">Seed</label>
+          <input
+            id="fit-seed"
+            className="sl-input"
+            inputMode="numeric"
+            value={draft.seed}
+            disabled={disabled}
+            aria-invalid={errors.seed ? true : undefined}
+            onChange={(e) => update({ seed: e.target.value })}
+          />
+          {errors.seed ? <div className="sl-field-error" role="alert">{errors.seed}</div> : <div className="sl-hint">same seed, same draws</div>}
+        </div>
+      </div>
+      <div className="sl-field">
+        <label htmlFor="fit-sampler">Sampler</label>
+        <select id="fit-sampler" className="sl-input" style={{ fontFamily: 'inherit' }} value={draft.sampler} disabled={disabled} onChange={(e) => update({ sampler: e.target.value as Draft['sampler'] })}>
+          {SAMPLERS.map((s) => (
+            <option key={s} value={s}>
+              {SAMPLER_WORDS[s]}
+            </option>
+          ))}
+        </select>
+      </div>
+      {!readOnly && (
+        <div className="flex items-center gap-2">
+          <button type="submit" className="sl-btn sl-btn-primary" disabled={running || Object.keys(errors).length > 0}>
+            Run fit
+          </button>
+          {running && onCancel && (
+            <button type="button" className="sl-btn sl-btn-outline" onClick={onCancel}>
+              Cancel
+            </button>
+          )}
+          <span className="sl-hint">Ctrl/⌘-Enter runs the current cell</span>
+        </div>
+      )}
+    </form>
+  );
+}
