@@ -26,7 +26,9 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
   const [pair, setPair] = useState<[number, number]>([0, Math.min(1, draws.names.length - 1)]);
   const chains = draws.chains.length;
 
+  const pairSame = pair[0] === pair[1];
   const spec = useMemo(() => {
+    if ((kind === 'pair' || kind === 'region') && pair[0] === pair[1]) return null;
     const values = (idx: number) => draws.chains.map((c) => c.values[idx] ?? []);
     switch (kind) {
       case 'trace': {
@@ -57,7 +59,6 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
   }, [kind, q, pair, draws, chains]);
 
   const pairChoices = kind === 'region' ? draws.names.slice(0, draws.unknownCount) : draws.names;
-  const pairSame = pair[0] === pair[1];
 
   return (
     <div className="flex flex-col gap-3" data-testid="fit-plots">
@@ -100,7 +101,7 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
           unknowns too, so a few may sit outside this one slice.
         </p>
       )}
-      {(kind === 'pair' || kind === 'region') && pairSame ? (
+      {spec === null || pairSame ? (
         <p className="sl-cell-sub">Choose two different quantities.</p>
       ) : (
         <PlotFrame spec={spec} label={`${PLOT_WORDS[kind]} plot`} />
