@@ -3,15 +3,15 @@
  * One accent ("room left / feasible"), one warning colour (failed diagnostics only), ink on paper.
  */
 export const PALETTE = {
-  paper: '#fbf8f1',
-  ink: '#22282b',
-  inkSoft: '#5b6468',
-  rule: '#d9d2c3',
+  paper: '#f6f3ea',
+  ink: '#1c2631',
+  inkSoft: '#46525e',
+  rule: '#e3ddcd',
   /** Room left / feasible. */
-  accent: '#1f7a64',
-  accentTint: '#1f7a6424',
+  accent: '#0d7a5f',
+  accentTint: '#0d7a5f24',
   /** Failed diagnostics only. */
-  warning: '#c4391d',
+  warning: '#c23a1e',
 } as const;
 
 /**

@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'react';
 import type { Dataset, PreviewValue } from '@shared/api/notebook';
-import { formatEstimate } from '@/lib/format';
+import { formatEstimate } from '@/lib/estimates';
 
 export type SortDir = 'asc' | 'desc';
 

@@ -1,6 +1,6 @@
 import type { QuantitySummary } from '@shared/fit';
 import { essFails, rhatFails, RHAT_LIMIT, ESS_PER_CHAIN } from '@/lib/diagnostic-thresholds';
-import { formatEss, formatEstimate, formatRhat } from '@/lib/format';
+import { formatEss, formatEstimate, formatRhat } from '@/lib/estimates';
 
 export interface SummaryTableProps {
   quantities: QuantitySummary[];

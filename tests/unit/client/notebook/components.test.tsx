@@ -288,3 +288,74 @@ describe('comments', () => {
     expect(screen.queryByRole('button', { name: 'resolve' })).toBeNull();
   });
 });
+
+import { ModelSidePanel } from '../../../../src/features/notebook/components/model-side-panel';
+import { CompareCell } from '../../../../src/features/notebook/components/compare-cell';
+import { DataUpload, tableNameFromFile } from '../../../../src/features/notebook/components/data-upload';
+
+describe('model side panel', () => {
+  it('lists unknowns with shapes, constraint counts and the region status', () => {
+    render(
+      <ModelSidePanel
+        checking={false}
+        check={{
+          ok: true,
+          unknowns: [{ name: 'mu', shape: [6] }, { name: 'sigma', shape: [] }],
+          derived: ['gain'],
+          tables: ['trial'],
+          constraints: { inequalities: 6, equalities: 0 },
+          messages: [],
+          region: { status: 'interior', message: 'A strictly interior point exists.' },
+        }}
+      />,
+    );
+    const panel = screen.getByTestId('model-side-panel');
+    expect(panel.textContent).toContain('[6]');
+    expect(panel.textContent).toContain('scalar');
+    expect(panel.textContent).toContain('7 coordinates in all');
+    expect(screen.getByTestId('region-status').textContent).toBe('interior found');
+  });
+  it('an empty region is flagged with the message naming the constraints', () => {
+    render(
+      <ModelSidePanel
+        checking={false}
+        check={{ ok: false, unknowns: [{ name: 'a', shape: [] }], derived: [], tables: [], constraints: { inequalities: 2, equalities: 0 }, messages: [], region: { status: 'empty', message: 'line 3 and line 4 cannot both hold' } }}
+      />,
+    );
+    expect(screen.getByTestId('region-status').querySelector('[data-tone="warning"]')).toBeTruthy();
+    expect(screen.getByText('line 3 and line 4 cannot both hold')).toBeTruthy();
+  });
+});
+
+describe('compare cell', () => {
+  it('says honestly that evidence is not available and shows no numbers', () => {
+    const onChange = vi.fn();
+    render(<CompareCell models={[{ id: 'm1', label: 'Model (monotone)' }, { id: 'm2', label: 'Model (free)' }]} selected={['m1']} readOnly={false} onChange={onChange} />);
+    const cell = screen.getByTestId('compare-cell');
+    expect(cell.textContent).toContain('Evidence not available yet');
+    expect(cell.textContent).not.toMatch(/\d/);
+    fireEvent.click(screen.getByLabelText('Model (free)'));
+    expect(onChange).toHaveBeenCalledWith(['m1', 'm2']);
+  });
+});
+
+describe('data upload', () => {
+  it('suggests a table name the model language accepts', () => {
+    expect(tableNameFromFile('Orchard plots 2026.csv')).toBe('Orchard_plots_2026');
+    expect(tableNameFromFile('2026-yield.csv')).toBe('t_2026_yield');
+  });
+  it('refuses a bad table name before uploading', () => {
+    const onUpload = vi.fn();
+    render(<DataUpload busy={false} error={null} onUpload={onUpload} />);
+    const file = new File(['a,b\n1,2\n'], 'plots.csv', { type: 'text/csv' });
+    fireEvent.change(screen.getByLabelText(/^CSV file/), { target: { files: [file] } });
+    expect((screen.getByLabelText('Table name') as HTMLInputElement).value).toBe('plots');
+    fireEvent.change(screen.getByLabelText('Table name'), { target: { value: '9 lives' } });
+    fireEvent.submit(screen.getByRole('form', { name: 'Upload a CSV file' }));
+    expect(onUpload).not.toHaveBeenCalled();
+    expect(screen.getByTestId('upload-error').textContent).toMatch(/Table name/);
+    fireEvent.change(screen.getByLabelText('Table name'), { target: { value: 'plots' } });
+    fireEvent.submit(screen.getByRole('form', { name: 'Upload a CSV file' }));
+    expect(onUpload).toHaveBeenCalledWith(file, 'plots');
+  });
+});

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatEss, formatEstimate, formatRhat, formatSeconds } from '../../../../src/lib/format';
+import { formatEss, formatEstimate, formatRhat, formatSeconds } from '../../../../src/lib/estimates';
 import { essFails, rhatFails } from '../../../../src/lib/diagnostic-thresholds';
 
 describe('formatting', () => {

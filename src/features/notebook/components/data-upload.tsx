@@ -1,0 +1,70 @@
+import { useRef, useState, type FormEvent } from 'react';
+import { DATASET_MAX_BYTES, tableNameSchema } from '@shared/api/notebook';
+
+/** Suggest a table name from a file name: "Orchard plots 2026.csv" → "Orchard_plots_2026". */
+export function tableNameFromFile(fileName: string): string {
+  const base = fileName.replace(/\.[^.]*$/, '').replace(/[^A-Za-z0-9_]+/g, '_').replace(/^_+|_+$/g, '');
+  const named = /^[A-Za-z]/.test(base) ? base : `t_${base}`;
+  return named.slice(0, 40) || 'data';
+}
+
+export interface DataUploadProps {
+  busy: boolean;
+  /** Server message on a refused file (names the row and column). */
+  error: string | null;
+  onUpload: (file: File, name: string) => void;
+}
+
+/** Choose a CSV file and the table name the model will bind with `table <name>`. */
+export function DataUpload({ busy, error, onUpload }: DataUploadProps) {
+  const fileRef = useRef<HTMLInputElement>(null);
+  const [file, setFile] = useState<File | null>(null);
+  const [name, setName] = useState('');
+  const [localError, setLocalError] = useState<string | null>(null);
+
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    if (!file) return setLocalError('Choose a CSV file first.');
+    if (file.size > DATASET_MAX_BYTES) return setLocalError(`The file is ${(file.size / 1048576).toFixed(1)} MB; the limit is ${DATASET_MAX_BYTES / 1048576} MB.`);
+    const r = tableNameSchema.safeParse(name);
+    if (!r.success) return setLocalError(`Table name: ${r.error.issues[0].message}`);
+    setLocalError(null);
+    onUpload(file, r.data);
+  };
+
+  const shown = localError ?? error;
+  return (
+    <form onSubmit={submit} className="flex flex-col gap-2" aria-label="Upload a CSV file">
+      <div className="flex flex-wrap items-end gap-3">
+        <div className="sl-field">
+          <label htmlFor="csv-file">CSV file (header row first, up to {DATASET_MAX_BYTES / 1048576} MB)</label>
+          <input
+            id="csv-file"
+            ref={fileRef}
+            type="file"
+            accept=".csv,text/csv"
+            className="text-sm"
+            onChange={(e) => {
+              const f = e.target.files?.[0] ?? null;
+              setFile(f);
+              if (f && !name) setName(tableNameFromFile(f.name));
+            }}
+          />
+        </div>
+        <div className="sl-field">
+          <label htmlFor="csv-name">Table name</label>
+          <input id="csv-name" className="sl-input" style={{ width: '12rem' }} value={name} onChange={(e) => setName(e.target.value)} />
+        </div>
+        <button type="submit" className="sl-btn sl-btn-primary" disabled={busy}>
+          {busy ? 'Reading…' : 'Upload'}
+        </button>
+      </div>
+      {shown && (
+        <p className="sl-field-error" role="alert" data-testid="upload-error">
+          {shown}
+        </p>
+      )}
+      <p className="sl-hint">Models bind this table with <span className="sl-mono">table {name || 'name'}</span>.</p>
+    </form>
+  );
+}

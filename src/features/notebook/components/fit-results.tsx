@@ -1,0 +1,44 @@
+import type { Run, RunDraws } from '@shared/api/notebook';
+import { formatEstimate, formatSeconds } from '@/lib/estimates';
+import { VerdictBanner } from './verdict-banner';
+import { SummaryTable } from './summary-table';
+import { FitPlots } from './fit-plots';
+
+export interface FitResultsProps {
+  run: Run;
+  draws: RunDraws | null;
+  drawsError?: string | null;
+  /** Links to the CSV exports (absent in views that cannot download). */
+  exports?: { draws: string; summary: string };
+}
+
+/** A finished run: verdict first, then the summary table, the run's diagnostics, exports and plots. */
+export function FitResults({ run, draws, drawsError, exports }: FitResultsProps) {
+  const s = run.summary;
+  if (!s) return null;
+  const d = s.diagnostics;
+  return (
+    <div className="flex flex-col gap-4" data-testid="fit-results">
+      <VerdictBanner verdict={s.verdict} />
+      <SummaryTable quantities={s.quantities} chains={s.settings.chains} />
+      <p className="sl-hint" data-testid="run-diagnostics">
+        {s.settings.chains} chains × {s.settings.draws} draws after {s.settings.warmup} warm-up · sampler {d.samplerUsed} ({d.samplerReason}) ·
+        divergences <span className={d.divergences > 0 ? 'sl-fail' : ''}>{d.divergences}</span> · acceptance {formatEstimate(d.acceptance, 2)} · step size{' '}
+        {formatEstimate(d.stepSize, 2)}
+        {d.efmi && d.efmi.length > 0 ? ` · E-FMI ${d.efmi.map((x) => formatEstimate(x, 2)).join(', ')}` : ''}
+        {d.factorizationsPerStep !== undefined ? ` · ${formatEstimate(d.factorizationsPerStep, 2)} factorisations per step` : ''} · {formatSeconds(s.seconds)}
+      </p>
+      {exports && (
+        <div className="flex flex-wrap gap-2">
+          <a className="sl-btn sl-btn-outline" href={exports.draws} download>
+            Draws CSV
+          </a>
+          <a className="sl-btn sl-btn-outline" href={exports.summary} download>
+            Summary CSV
+          </a>
+        </div>
+      )}
+      {draws ? <FitPlots draws={draws} /> : drawsError ? <p className="sl-cell-sub">Plots unavailable: {drawsError}</p> : <p className="sl-cell-sub">Loading draws for the plots…</p>}
+    </div>
+  );
+}
