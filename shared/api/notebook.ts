@@ -33,7 +33,7 @@ export const CELL_KIND_LABELS: Record<NbCellKind, string> = {
 };
 
 /** Largest text a cell may hold (model programs and notes). */
-export const CELL_SOURCE_MAX = 100_000;
+export const CELL_SOURCE_MAX = 50_000;
 export const cellSourceSchema = z.string().max(CELL_SOURCE_MAX, `At most ${CELL_SOURCE_MAX} characters`);
 
 /**
@@ -287,6 +287,17 @@ export type RunStatus = z.infer<typeof runStatusSchema>;
 
 /** Most runs queued or running at once in one workspace. */
 export const WORKSPACE_CONCURRENT_RUNS = 2;
+
+/**
+ * Limits of one run beyond FIT_LIMITS (chains, warm-up, draws, dimension in shared/fit.ts):
+ * wall time, and stored numbers (chains × draws × (unknowns + derived)) so draws stay exportable.
+ */
+export const RUN_LIMITS = {
+  wallSeconds: 900,
+  storedNumbers: 4_000_000,
+  /** A run whose worker vanished this many times is marked failed instead of queued again. */
+  maxAttempts: 3,
+} as const;
 
 export const createRunBody = z.strictObject({
   /** Settings to run with; when omitted the fit cell's saved settings are used. */

@@ -1,0 +1,46 @@
+/**
+ * Compact binary storage of one chain's draws: little-endian Float64, draw-major
+ * (drawCount × dimension), the unknowns' coordinates first and then the derived quantities.
+ * Per-draw flags (divergent) travel in the chain's stats as a run-length list to stay small.
+ */
+
+export function encodeDraws(unknowns: Float64Array, dimU: number, derived: Float64Array, dimD: number): { buffer: Buffer; drawCount: number; dimension: number } {
+  const n = dimU > 0 ? unknowns.length / dimU : dimD > 0 ? derived.length / dimD : 0;
+  const dim = dimU + dimD;
+  const buf = Buffer.alloc(n * dim * 8);
+  for (let t = 0; t < n; t++) {
+    for (let k = 0; k < dimU; k++) buf.writeDoubleLE(unknowns[t * dimU + k], (t * dim + k) * 8);
+    for (let k = 0; k < dimD; k++) buf.writeDoubleLE(derived[t * dimD + k], (t * dim + dimU + k) * 8);
+  }
+  return { buffer: buf, drawCount: n, dimension: dim };
+}
+
+/** Decode into draw-major rows of length `dimension`. */
+export function decodeDraws(buffer: Buffer, drawCount: number, dimension: number): Float64Array {
+  if (buffer.length !== drawCount * dimension * 8) {
+    throw new Error(`stored draws have ${buffer.length} bytes, expected ${drawCount * dimension * 8}`);
+  }
+  const out = new Float64Array(drawCount * dimension);
+  for (let i = 0; i < out.length; i++) out[i] = buffer.readDoubleLE(i * 8);
+  return out;
+}
+
+/** Indices of set flags as [start, length] runs: [0,0,1,1,0,1] → [[2,2],[5,1]]. */
+export function encodeFlags(flags: ArrayLike<number>): [number, number][] {
+  const runs: [number, number][] = [];
+  let t = 0;
+  while (t < flags.length) {
+    if (flags[t]) {
+      const start = t;
+      while (t < flags.length && flags[t]) t++;
+      runs.push([start, t - start]);
+    } else t++;
+  }
+  return runs;
+}
+
+export function decodeFlags(runs: readonly (readonly [number, number])[], length: number): Uint8Array {
+  const out = new Uint8Array(length);
+  for (const [start, len] of runs) out.fill(1, start, Math.min(length, start + len));
+  return out;
+}

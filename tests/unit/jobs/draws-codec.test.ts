@@ -1,0 +1,22 @@
+import { describe, expect, it } from 'vitest';
+import { decodeDraws, decodeFlags, encodeDraws, encodeFlags } from '../../../server/jobs/draws-codec';
+
+describe('draws codec', () => {
+  it('round-trips unknowns and derived draws exactly, draw-major', () => {
+    const u = new Float64Array([0.1, 0.2, Math.PI, -1e-300, 5, 6]); // 3 draws × 2 unknowns
+    const d = new Float64Array([10, 20, 30]); // 3 draws × 1 derived
+    const enc = encodeDraws(u, 2, d, 1);
+    expect(enc.drawCount).toBe(3);
+    expect(enc.dimension).toBe(3);
+    expect(enc.buffer.length).toBe(3 * 3 * 8);
+    expect(Array.from(decodeDraws(enc.buffer, 3, 3))).toEqual([0.1, 0.2, 10, Math.PI, -1e-300, 20, 5, 6, 30]);
+  });
+  it('refuses a buffer of the wrong size', () => {
+    expect(() => decodeDraws(Buffer.alloc(16), 3, 1)).toThrow(/expected 24/);
+  });
+  it('flags as runs', () => {
+    const f = [0, 0, 1, 1, 0, 1];
+    expect(encodeFlags(f)).toEqual([[2, 2], [5, 1]]);
+    expect(Array.from(decodeFlags(encodeFlags(f), 6))).toEqual(f);
+  });
+});
