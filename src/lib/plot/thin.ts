@@ -1,23 +1,8 @@
 /** Shaping draws for plots: even thinning, pooled ranks, rank histograms, kernel density. */
 
-/**
- * Indices of at most `max` items spread evenly over 0..n−1, always including the first and the last.
- * Thinning keeps a trace's shape and order; it is used for plotting only, never for summaries.
- */
-export function thinIndices(n: number, max: number): number[] {
-  if (n <= 0 || max <= 0) return [];
-  if (n <= max) return Array.from({ length: n }, (_, k) => k);
-  if (max === 1) return [0];
-  const out: number[] = [];
-  const step = (n - 1) / (max - 1);
-  let last = -1;
-  for (let k = 0; k < max; k++) {
-    const idx = Math.round(k * step);
-    if (idx !== last) out.push(idx);
-    last = idx;
-  }
-  return out;
-}
+import { thinIndices } from '@shared/thin-indices';
+
+export { thinIndices };
 
 export function thin<T>(values: ArrayLike<T>, max: number): T[] {
   return thinIndices(values.length, max).map((k) => values[k]);

@@ -6,8 +6,9 @@ import { CELL_KIND_LABELS, NB_CELL_KINDS, type NbCellKind } from '@shared/api/no
  * - Mod-Enter (Ctrl-Enter, or ⌘-Enter on a Mac): run the current cell — a fit cell starts its fit,
  *   a model cell re-checks its program, a notes cell leaves editing.
  * - Alt-ArrowUp / Alt-ArrowDown: move to the previous / next cell.
- * Alt-arrows are free in the model editor (which moves lines with Alt-Shift-arrows only in our setup)
- * and in text areas, so moving between cells works from anywhere inside a cell.
+ * Alt-arrows are taken before any editor inside the cell sees them (the capture phase), so moving
+ * between cells works from anywhere, the model editor included. Mod-Enter inside the model editor
+ * is handled by the editor itself (it runs the cell too); the column then leaves it alone.
  */
 export const NOTEBOOK_KEYS = {
   run: 'Mod-Enter',
@@ -48,18 +49,23 @@ export function CellColumn<C extends { id: string }>({ cells, activeId, onActiva
 
   const onKeyDown = (e: KeyboardEvent<HTMLDivElement>) => {
     const current = activeId ?? cells[0]?.id ?? null;
-    if (current === null) return;
+    if (current === null || e.defaultPrevented) return;
     if (isRunKey(e) && onRun) {
       e.preventDefault();
       onRun(current);
-      return;
     }
+  };
+
+  const onKeyDownCapture = (e: KeyboardEvent<HTMLDivElement>) => {
+    const current = activeId ?? cells[0]?.id ?? null;
+    if (current === null) return;
     const step = moveKey(e);
     if (step !== 0) {
       const idx = cells.findIndex((c) => c.id === current);
       const next = cells[Math.min(cells.length - 1, Math.max(0, idx + step))];
       if (next && next.id !== current) {
         e.preventDefault();
+        e.stopPropagation();
         onActivate(next.id);
         focusCell(next.id);
       }
@@ -77,7 +83,7 @@ export function CellColumn<C extends { id: string }>({ cells, activeId, onActiva
   }, [activeId]);
 
   return (
-    <div ref={ref} className="flex flex-col" onKeyDown={onKeyDown} data-testid="cell-column">
+    <div ref={ref} className="flex flex-col" onKeyDown={onKeyDown} onKeyDownCapture={onKeyDownCapture} data-testid="cell-column">
       {onAdd && <AddLine position={0} onAdd={onAdd} always={cells.length === 0} />}
       {cells.map((cell, i) => (
         <div key={cell.id}>
