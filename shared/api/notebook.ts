@@ -246,6 +246,8 @@ export const uploadDatasetFields = z.strictObject({ name: tableNameSchema });
 
 export const compileBody = z.strictObject({
   source: cellSourceSchema,
+  /** Bind tables from this notebook's data cells (otherwise the workspace's newest table of each name). */
+  notebookId: nbIdSchema.optional(),
   /** Check the constraint region as well (may take a moment on large models). */
   region: z.boolean().optional(),
 });
