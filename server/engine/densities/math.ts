@@ -147,18 +147,19 @@ export function logSumExp2(a: number, b: number): number {
 }
 
 /**
- * logSumExp2 with partials ∂/∂a = e^(a − v), ∂/∂b = e^(b − v) (the two softmax weights).
+ * logSumExp2 with partials ∂/∂a = e^(a − v) = logistic(a − b), ∂/∂b = logistic(b − a) (the two
+ * softmax weights, computed from the difference so they keep full relative accuracy).
  * When both are −Infinity (or either is +Infinity) the value is ±Infinity and the partials are 0.
  */
 export function logSumExp2Grad(a: number, b: number, out: Float64Array, offset: number): number {
   const v = logSumExp2(a, b);
-  if (v === Infinity || v === -Infinity) {
-    out[offset] = 0;
-    out[offset + 1] = 0;
+  if (v === Infinity || v === -Infinity || v !== v) {
+    out[offset] = v !== v ? NaN : 0;
+    out[offset + 1] = v !== v ? NaN : 0;
     return v;
   }
-  out[offset] = Math.exp(a - v);
-  out[offset + 1] = Math.exp(b - v);
+  out[offset] = logistic(a - b);
+  out[offset + 1] = logistic(b - a);
   return v;
 }
 
@@ -183,9 +184,10 @@ export function logSumExp(x: Float64Array, off: number, n: number): number {
 }
 
 /**
- * {@link logSumExp} with the softmax gradient: out[outOff + i] = exp(xᵢ − value).
- * When the value is ±Infinity or NaN the partials are set to 0 (+Infinity/NaN cases have no finite
- * gradient; the all −Infinity case has none either).
+ * {@link logSumExp} with the softmax gradient out[outOff + i] = exp(xᵢ − m) / Σⱼ exp(xⱼ − m)
+ * (m = max xⱼ; computed from the sum rather than from the rounded value, so the weights keep full
+ * relative accuracy and sum to 1 within rounding).
+ * When the value is ±Infinity the partials are 0; when it is NaN they are NaN.
  */
 export function logSumExpGrad(
   x: Float64Array,
@@ -194,11 +196,25 @@ export function logSumExpGrad(
   out: Float64Array,
   outOff: number,
 ): number {
-  const v = logSumExp(x, off, n);
-  if (v === Infinity || v === -Infinity || v !== v) {
-    for (let i = 0; i < n; i++) out[outOff + i] = 0;
-    return v;
+  let m = -Infinity;
+  let nan = false;
+  for (let i = 0; i < n; i++) {
+    const xi = x[off + i];
+    if (xi !== xi) nan = true;
+    else if (xi > m) m = xi;
   }
-  for (let i = 0; i < n; i++) out[outOff + i] = Math.exp(x[off + i] - v);
-  return v;
+  if (nan || m === -Infinity || m === Infinity) {
+    const fill = nan ? NaN : 0;
+    for (let i = 0; i < n; i++) out[outOff + i] = fill;
+    return nan ? NaN : m;
+  }
+  let s = 0;
+  for (let i = 0; i < n; i++) {
+    const e = Math.exp(x[off + i] - m);
+    out[outOff + i] = e;
+    s += e;
+  }
+  const inv = 1 / s;
+  for (let i = 0; i < n; i++) out[outOff + i] *= inv;
+  return m + Math.log(s);
 }
