@@ -303,7 +303,7 @@ export class CodeGen {
         this.rev(this.adj(x, s.a));
         return s;
       }
-      const L = v.len;
+      const L = e.args[0].type!.shape[0];
       if (!this.grad) return this.newScalar(`R.logSumExp(${arr}, ${off}, ${L})`);
       const k = this.tape(L);
       const s = this.newScalar(`R.logSumExpGrad(${arr}, ${off}, ${L}, P, ${k})`);
@@ -652,6 +652,34 @@ export class CodeGen {
     const args = e.args.map((a) => this.elem(a, ctx));
     const x = this.id('d');
     const anyParam = args.some((a) => a.param);
+    if (e.fn === 'ld_normal' && e.args[2].type!.shape.length === 0) {
+      // Normal kernel inlined when the scale is the same for every row: log σ and 1/σ are hoisted
+      // out of the loop. Same formula as the density library's normalLpdf (σ ≤ 0 gives NaN).
+      const sg = args[2].val;
+      const ls = this.id('ls');
+      const inv = this.id('iv');
+      ctx.pre.push(`const ${ls} = ${sg} > 0 && ${sg} < 1/0 ? Math.log(${sg}) + ${lit(0.5 * Math.log(2 * Math.PI))} : 0/0;`, `const ${inv} = 1 / ${sg};`);
+      const z = this.id('z');
+      this.emit(ctx, `const ${z} = (${args[0].val} - ${args[1].val}) * ${inv};`);
+      this.emit(ctx, `const ${x} = -0.5 * ${z} * ${z} - ${ls};`);
+      const wantGrad = withAdj && this.grad && anyParam;
+      const q = this.id('q');
+      if (wantGrad && (args[0].param || args[1].param)) this.emit(ctx, `const ${q}m = ${z} * ${inv};`);
+      if (wantGrad && args[2].param) this.emit(ctx, `const ${q}s = (${z} * ${z} - 1) * ${inv};`);
+      return {
+        lines: this.flushRow(ctx),
+        val: x,
+        back: (seed) => {
+          if (!wantGrad) return [];
+          const mul = (v: string) => (seed === '1' ? v : `${seed} * ${v}`);
+          return [
+            ...(args[0].param ? this.backVia(args[0], `-${mul(`${q}m`)}`) : []),
+            ...(args[1].param ? this.backVia(args[1], mul(`${q}m`)) : []),
+            ...(args[2].param ? this.backVia(args[2], mul(`${q}s`)) : []),
+          ];
+        },
+      };
+    }
     if (!withAdj || !this.grad || !anyParam) {
       this.emit(ctx, `const ${x} = R.${densityFn(e.fn, false)}(${args.map((a) => a.val).join(', ')});`);
       return { lines: this.flushRow(ctx), val: x, back: () => [] };
