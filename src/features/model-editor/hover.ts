@@ -1,12 +1,25 @@
 /** Hover text for built-in functions and statement keywords: signature, one-line doc, example. */
+import type { EditorState } from '@codemirror/state';
 import { hoverTooltip } from '@codemirror/view';
 import { FUNCTIONS, LANGUAGE_KEYWORDS } from '@shared/lang';
 
 const KEYWORDS = new Map(LANGUAGE_KEYWORDS.map((k) => [k.name, k]));
 
-export const modelHover = hoverTooltip((view, pos) => {
-  const line = view.state.doc.lineAt(pos);
+export interface HoverInfo {
+  from: number;
+  to: number;
+  /** Signature of a function, or the keyword with an ellipsis. */
+  title: string;
+  /** One-line doc and example. */
+  body: string;
+}
+
+/** What the hover shows at a document position, or null when the word there is not built in. */
+export function hoverInfo(state: EditorState, pos: number): HoverInfo | null {
+  const line = state.doc.lineAt(pos);
   const text = line.text;
+  const hash = text.indexOf('#');
+  if (hash >= 0 && pos - line.from > hash) return null;
   let start = pos - line.from;
   let end = start;
   while (start > 0 && /[A-Za-z0-9_]/.test(text[start - 1])) start--;
@@ -14,22 +27,29 @@ export const modelHover = hoverTooltip((view, pos) => {
   if (start === end) return null;
   const word = text.slice(start, end);
   const fn = FUNCTIONS.get(word);
+  if (fn) return { from: line.from + start, to: line.from + end, title: fn.signature, body: `${fn.doc} Example: ${fn.example}` };
   const kw = KEYWORDS.get(word);
-  if (!fn && !kw) return null;
+  if (kw) return { from: line.from + start, to: line.from + end, title: `${kw.name} …`, body: `${kw.doc} Example: ${kw.example}` };
+  return null;
+}
+
+export const modelHover = hoverTooltip((view, pos) => {
+  const info = hoverInfo(view.state, pos);
+  if (!info) return null;
   return {
-    pos: line.from + start,
-    end: line.from + end,
+    pos: info.from,
+    end: info.to,
     above: true,
     create: () => {
       const dom = document.createElement('div');
       dom.className = 'sl-hover';
       const head = document.createElement('div');
       head.className = 'sl-hover-signature';
-      head.textContent = fn ? fn.signature : `${kw!.name} …`;
-      const doc = document.createElement('div');
-      doc.className = 'sl-hover-doc';
-      doc.textContent = fn ? `${fn.doc} Example: ${fn.example}` : `${kw!.doc} Example: ${kw!.example}`;
-      dom.append(head, doc);
+      head.textContent = info.title;
+      const body = document.createElement('div');
+      body.className = 'sl-hover-doc';
+      body.textContent = info.body;
+      dom.append(head, body);
       return { dom };
     },
   };

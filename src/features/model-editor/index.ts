@@ -5,4 +5,4 @@ export { modelCompletionSource, declaredNames, type DeclaredName } from './compl
 export { modelLinter, messagesToDiagnostics, suggestedName } from './lint';
 export { schemaFacet } from './schema';
 export { modelTheme } from './theme';
-export { modelHover } from './hover';
+export { modelHover, hoverInfo, type HoverInfo } from './hover';

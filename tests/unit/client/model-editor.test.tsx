@@ -11,7 +11,7 @@ import { EditorState } from '@codemirror/state';
 import { EditorView, runScopeHandlers } from '@codemirror/view';
 import { act, cleanup, render, waitFor } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { ModelEditor, modelCompletionSource, schemaFacet } from '@/features/model-editor';
+import { hoverInfo, ModelEditor, modelCompletionSource, schemaFacet, suggestedName } from '@/features/model-editor';
 import type { DataSchema } from '@shared/lang';
 
 const SCHEMA: DataSchema = {
@@ -165,5 +165,25 @@ describe('ModelEditor props', () => {
     expect(view.contentDOM.getAttribute('contenteditable')).toBe('false');
     rerender(<ModelEditor value={SOURCE} schema={SCHEMA} readOnly={false} />);
     expect(view.state.readOnly).toBe(false);
+  });
+});
+
+describe('helpers', () => {
+  it('suggestedName takes the name out of the checker’s suggestion and ignores other advice', () => {
+    expect(suggestedName('did you mean `sigma`?')).toBe('sigma');
+    expect(suggestedName('orchard.block')).toBe('orchard.block');
+    expect(suggestedName('add the line: table orchard')).toBeUndefined();
+    expect(suggestedName(undefined)).toBeUndefined();
+  });
+
+  it('hoverInfo gives a function’s signature and doc, a keyword’s doc, nothing inside comments', () => {
+    const doc = 'term ld_beta(p, 2, 2) # ld_beta';
+    const state = EditorState.create({ doc });
+    const fn = hoverInfo(state, doc.indexOf('beta'));
+    expect(fn?.title).toBe('ld_beta(x, a, b) → scalar');
+    expect(state.sliceDoc(fn!.from, fn!.to)).toBe('ld_beta');
+    expect(hoverInfo(state, 1)?.title).toBe('term …');
+    expect(hoverInfo(state, doc.indexOf('p,'))).toBeNull();
+    expect(hoverInfo(state, doc.lastIndexOf('beta'))).toBeNull();
   });
 });
