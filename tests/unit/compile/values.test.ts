@@ -7,7 +7,7 @@
 import betaLogpdf from '@stdlib/stats-base-dists-beta-logpdf';
 import tLogpdf from '@stdlib/stats-base-dists-t-logpdf';
 import gammaln from '@stdlib/math-base-special-gammaln';
-import { jStat } from 'jstat';
+import { jStat } from './jstat';
 import { describe, expect, it } from 'vitest';
 import type { DataTables } from '../../../server/engine/types';
 import { compile, integer, numeric, table, value } from './helpers';

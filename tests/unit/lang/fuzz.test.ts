@@ -3,7 +3,7 @@
  * every message is well-formed, expr-eval's evaluate is never called, nothing from the text runs,
  * and when a soup happens to compile, no user text reaches the generated source.
  */
-import { Expression } from 'expr-eval';
+import * as exprEval from 'expr-eval';
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { checkProgram, type DataSchema } from '../../../shared/lang/index';
@@ -39,7 +39,9 @@ const structured = fc
   .map(([kw, ts]) => `table hive\nunknown w[2], s\n${kw} ${ts.join(' ')}`);
 
 describe('random token soups', () => {
-  const evaluateSpy = vi.spyOn(Expression.prototype, 'evaluate');
+  // expr-eval's type file declares Expression as an interface; the module exports the class.
+  const ExpressionClass = (exprEval as unknown as { Expression: { prototype: { evaluate(): unknown } } }).Expression;
+  const evaluateSpy = vi.spyOn(ExpressionClass.prototype, 'evaluate');
   const exitSpy = vi.spyOn(process, 'exit').mockImplementation((() => {
     throw new Error('process.exit called');
   }) as never);
