@@ -76,13 +76,13 @@ class Extractor {
   needsData = false;
   constructor(
     public data: DataValues | undefined,
-    public dummy: DataValues | undefined,
+    public dummy: () => DataValues | undefined,
     public text: string,
   ) {}
 
   value(e: Expr): Value {
     if (e.type!.dep === 1 && !this.data) this.needsData = true;
-    return evaluateValue(e, this.data ?? this.dummy);
+    return evaluateValue(e, this.data ?? (e.type!.dep === 1 ? this.dummy() : undefined));
   }
 
   aff(e: Expr): AffVal {
@@ -241,7 +241,9 @@ export function extractConstraintsFrom(program: Program, dim: number, data: Data
   const ineq: { c: Map<number, number>; k: number; label: string }[] = [];
   const eq: { c: Map<number, number>; k: number; label: string }[] = [];
   let needsData = false;
-  const dummy = data ? undefined : schema ? dummyData(schema) : undefined;
+  let dummyCache: DataValues | undefined;
+  // Placeholder data is only built when a constraint needs data values and none were given.
+  const dummy = () => (dummyCache ??= schema ? dummyData(schema) : undefined);
   for (const s of program.statements) {
     if (s.kind !== 'constrain' || s.expr.kind !== 'compare') continue;
     const e = s.expr;

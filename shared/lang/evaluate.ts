@@ -93,7 +93,7 @@ export function evaluateValue(e: Expr, data: DataValues | undefined, math: Recor
       if (ref.kind === 'const') return ref.value;
       if (ref.kind === 'let') return ev(ref.expr);
       if (ref.kind === 'column') {
-        const t = data?.[ref.table];
+        const t = data && Object.prototype.hasOwnProperty.call(data, ref.table) ? data[ref.table] : undefined;
         const col = t && Object.prototype.hasOwnProperty.call(t.columns, ref.column) ? t.columns[ref.column] : undefined;
         if (!col) throw new LangError(e.span, `the data for column \`${ref.column}\` of table \`${ref.table}\` is missing`);
         return col.values;
