@@ -81,8 +81,16 @@ function vec(v: Value): Float64Array {
  * Evaluate a checked expression whose dep < 2. `data` may be undefined when the expression only
  * uses constants. `math` lets the engine supply its own special functions.
  */
-export function evaluateValue(e: Expr, data: DataValues | undefined, math: Record<string, ScalarFn> = DEFAULT_MATH): Value {
-  const ev = (x: Expr) => evaluateValue(x, data, math);
+/** Supplies log-density values for constant arguments (the engine passes its density library). */
+export type DensityHook = (fn: string, args: Value[]) => number | undefined;
+
+export function evaluateValue(
+  e: Expr,
+  data: DataValues | undefined,
+  math: Record<string, ScalarFn> = DEFAULT_MATH,
+  densities?: DensityHook,
+): Value {
+  const ev = (x: Expr) => evaluateValue(x, data, math, densities);
   switch (e.kind) {
     case 'num':
       return e.value;
@@ -188,6 +196,8 @@ export function evaluateValue(e: Expr, data: DataValues | undefined, math: Recor
         for (let i = 0; i + 1 < v.length; i++) out[i] = v[i + 1] - v[i];
         return out;
       }
+      const d = densities?.(fn, args);
+      if (d !== undefined) return d;
       throw new LangError(e.fnSpan, `\`${fn}\` cannot be evaluated here`);
     }
     case 'compare':

@@ -24,7 +24,7 @@ export type {
 } from './ast';
 export { checkProgram, flatNames, type CheckResult } from './check';
 export type { LinearRows, ExtractResult } from './affine';
-export { evaluateValue, DEFAULT_MATH, isMat, type DataValues, type Mat, type Value, type ScalarFn } from './evaluate';
+export { evaluateValue, DEFAULT_MATH, isMat, type DataValues, type DensityHook, type Mat, type Value, type ScalarFn } from './evaluate';
 export {
   FUNCTION_SIGNATURES,
   FUNCTIONS,

@@ -15,7 +15,7 @@
  */
 import type { Expr, Program } from '../../../shared/lang/index';
 import { evaluateValue, isMat, LangError, type DataValues, type Value } from '../../../shared/lang/index';
-import { densityFn, densityInfo, engineMath, mathFn } from './runtime';
+import { constantDensity, densityFn, densityInfo, engineMath, mathFn } from './runtime';
 
 /** A number as a JavaScript literal (non-finite values as arithmetic). */
 export function lit(x: number): string {
@@ -100,7 +100,7 @@ export class CodeGen {
   value(e: Expr): Value {
     let v = this.constMemo.get(e);
     if (v === undefined) {
-      v = evaluateValue(e, this.data, this.math);
+      v = evaluateValue(e, this.data, this.math, constantDensity);
       this.constMemo.set(e, v);
     }
     return v;

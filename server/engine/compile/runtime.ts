@@ -50,6 +50,36 @@ export function mathFn(lang: string, grad: boolean): string {
   return grad ? m.gradFn : `${m.valueFn}Value`;
 }
 
+/**
+ * Log-densities of constant arguments for the front end's constant evaluator: scalar densities
+ * broadcast and summed, vector densities on whole vectors.
+ */
+export function constantDensity(fn: string, args: (number | Float64Array | { rows: number })[]): number | undefined {
+  const d = densityInfo(fn);
+  if (!d) return undefined;
+  const vecs = args.map((a) => (typeof a === 'number' ? a : a instanceof Float64Array ? a : undefined));
+  if (vecs.some((v) => v === undefined)) return undefined;
+  if (d.kind === 'vector') {
+    const x = vecs[0];
+    const K = x instanceof Float64Array ? x.length : 1;
+    const toVec = (v: number | Float64Array | undefined) => (v instanceof Float64Array ? v : new Float64Array(K).fill(v as number));
+    return d.value(toVec(x), 0, toVec(vecs[1]), 0, K);
+  }
+  let L = 0;
+  for (const v of vecs) if (v instanceof Float64Array) L = v.length;
+  if (L === 0) return d.value(...(vecs as number[]));
+  let s = 0;
+  const row: number[] = new Array(vecs.length);
+  for (let i = 0; i < L; i++) {
+    for (let k = 0; k < vecs.length; k++) {
+      const v = vecs[k]!;
+      row[k] = typeof v === 'number' ? v : v[i];
+    }
+    s += d.value(...row);
+  }
+  return s;
+}
+
 /** The engine's special functions for the front end's constant evaluator. */
 export function engineMath(): Record<string, (x: number) => number> {
   const out = Object.create(null) as Record<string, (x: number) => number>;

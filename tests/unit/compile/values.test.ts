@@ -10,6 +10,7 @@ import gammaln from '@stdlib/math-base-special-gammaln';
 import { jStat } from './jstat';
 import { describe, expect, it } from 'vitest';
 import type { DataTables } from '../../../server/engine/types';
+import { CompileError } from '../../../server/engine/compile/index';
 import { compile, integer, numeric, table, value } from './helpers';
 
 const xs = [-2.3, -0.7, 0, 0.4, 1.9, 3.5];
@@ -206,5 +207,36 @@ describe('derived quantities', () => {
     close(out[2], 2 * 1.5 - 3);
     close(out[3], 3 * 1.5 + 12);
     close(out[4], Math.exp(0.5) + Math.exp(1) + Math.exp(2) + Math.log(jStat.normal.pdf(1, 0, 1.5)));
+  });
+});
+
+describe('constant pieces and data errors', () => {
+  it('constant log-densities inside other functions are folded at compile time (jStat.normal.pdf)', () => {
+    const m = compile('unknown a\nterm exp(ld_normal(0.5, 0, 1)) + ld_normal(a, 0, 1)\nderive c = 2 * ld_normal(1, 0, 2)');
+    close(value(m, [0.3]), jStat.normal.pdf(0.5, 0, 1) + Math.log(jStat.normal.pdf(0.3, 0, 1)));
+    const out = new Float64Array(1);
+    m.derived!.evaluate(Float64Array.from([0.3]), out);
+    close(out[0], 2 * Math.log(jStat.normal.pdf(1, 0, 2)));
+  });
+  it('a gather index outside the vector in the data is a CompileError with line and column', () => {
+    const t = { obs: table({ y: numeric([1, 2, 3]), block: integer([1, 5, 2]) }) };
+    let err: unknown;
+    try {
+      compile('table obs\nunknown mu[3]\nterm ld_normal(y, mu[block], 1)', t);
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(CompileError);
+    const m = (err as CompileError).messages[0];
+    expect(m).toMatchObject({ line: 3, column: 22 });
+    expect(m.message).toContain('holds 5, outside 1…3');
+    let err2: unknown;
+    try {
+      compile('table obs\nunknown mu[3]\nterm ld_normal(mu, 0, 1)\nconstrain mu[block] >= 0', t);
+    } catch (e) {
+      err2 = e;
+    }
+    expect((err2 as CompileError).messages[0]).toMatchObject({ line: 4 });
+    expect((err2 as CompileError).messages[0].message).toContain('index 5 is outside 1…3');
   });
 });
