@@ -294,6 +294,7 @@ export function parseExpression(line: string, start: number, end: number, allowC
     // Only the parse step: the returned object's tokens are read, nothing is evaluated.
     instrs = (exprParser().parse(text) as unknown as { tokens: Instr[] }).tokens;
   } catch (e) {
+    if (e instanceof RangeError) throw new LangError(whole, 'this expression is nested too deeply');
     const msg = e instanceof Error ? e.message.replace(/^parse error \[\d+:\d+\]: /, '') : 'unreadable';
     throw new LangError(whole, `could not read this expression (${msg.slice(0, 80)})`);
   }
