@@ -62,6 +62,9 @@ export interface UnknownDecl {
   span: Span;
   /** Length for vectors; undefined for scalars. */
   length?: number;
+  /** When the length is written as a named constant (`unknown mu[K]`): its name and place. */
+  lengthName?: string;
+  lengthSpan?: Span;
 }
 
 export type Statement =

@@ -23,7 +23,22 @@ import { FUNCTIONS, KEYWORD_NAMES } from './functions';
 import { LangError, parseLine } from './parse';
 import { closest } from './suggest';
 
+/** A name the editor can offer for completion. */
+export interface SymbolInfo {
+  name: string;
+  kind: 'unknown' | 'const' | 'let' | 'derive' | 'table' | 'column';
+  /** For columns: the table they belong to. */
+  table?: string;
+  shape: Shape;
+  /** One line for the completion popup, e.g. "unknown, vector of 6" or "category column of trial (3 levels)". */
+  detail: string;
+  /** Line of the declaration (not for columns). */
+  line?: number;
+}
+
 export interface CheckResult {
+  /** Names declared or bound by the program (including columns of bound tables), for completion. */
+  symbols: SymbolInfo[];
   ok: boolean;
   messages: LangMessage[];
   unknowns: UnknownInfo[];
@@ -327,6 +342,20 @@ class Checker {
 
   /* ---------------------------------------------------------------- statements */
 
+  /** The value of a named whole-number constant used as a vector length. */
+  constLength(name: string, span: Span): number {
+    const sym = this.syms.get(name);
+    if (!sym || sym.kind !== 'const') {
+      const consts = [...this.syms].filter(([, v]) => v.kind === 'const').map(([k]) => k);
+      const near = closest(name, consts);
+      throw new LangError(span, `\`${name}\` is not a named constant; a length is a whole number or a const declared earlier`, near ? `did you mean \`${near}\`?` : undefined);
+    }
+    const v = sym.ref.value;
+    if (typeof v !== 'number' || !Number.isInteger(v) || v < 1 || v > 100000)
+      throw new LangError(span, `\`${name}\` must be a whole number between 1 and 100000 to be used as a length`);
+    return v;
+  }
+
   declare(name: string, span: Span, line: number, sym: Sym) {
     if (KEYWORD_NAMES.has(name)) throw new LangError(span, `\`${name}\` is a keyword and cannot be used as a name`);
     if (FUNCTIONS.has(name)) throw new LangError(span, `\`${name}\` is a function name and cannot be redeclared`);
@@ -366,6 +395,7 @@ class Checker {
       }
       case 'unknown':
         for (const d of s.decls) {
+          if (d.lengthName !== undefined) d.length = this.constLength(d.lengthName, d.lengthSpan!);
           const shape: Shape = d.length === undefined ? SCALAR : [d.length];
           const size = d.length ?? 1;
           const ref = { kind: 'unknown' as const, name: d.name, offset: this.offset, size, shape };
@@ -468,7 +498,27 @@ export function checkProgram(source: string, schema: DataSchema): CheckResult {
     c.msg(statements[statements.length - 1].line, { start: 0, end: 1 }, 'the model declares no unknowns', 'add a line such as: unknown mu', 'warning');
   }
   c.messages.sort((a, b) => a.line - b.line || a.column - b.column);
+  const symbols: SymbolInfo[] = [];
+  const describe = (shape: Shape) => (shape.length === 0 ? 'number' : shape.length === 1 ? `vector of ${shape[0]}` : `${shape[0]}×${shape[1]} matrix`);
+  for (const t of c.bound) {
+    const tbl = c.schemaTables.get(t)!;
+    symbols.push({ name: t, kind: 'table', shape: [], detail: `table, ${tbl.rows} rows` });
+    for (const [col, info] of c.columnsOf(t)) {
+      const lv = info.type === 'category' && info.levels !== undefined ? `, ${info.levels} levels` : '';
+      symbols.push({ name: col, kind: 'column', table: t, shape: [tbl.rows], detail: `${info.type} column of ${t}${lv}` });
+    }
+  }
+  for (const [name, sym] of c.syms) {
+    if (sym.kind === 'unknown') symbols.push({ name, kind: 'unknown', shape: sym.ref.shape, detail: `unknown, ${describe(sym.ref.shape)}`, line: sym.line });
+    else if (sym.kind === 'const') symbols.push({ name, kind: 'const', shape: sym.type.shape, detail: `const, ${describe(sym.type.shape)}`, line: sym.line });
+    else if (sym.kind === 'let') symbols.push({ name, kind: 'let', shape: sym.type.shape, detail: `let, ${describe(sym.type.shape)}`, line: sym.line });
+    else {
+      const d = c.derived.find((x) => x.name === name);
+      symbols.push({ name, kind: 'derive', shape: d?.shape ?? [], detail: 'derived quantity (output only)', line: sym.line });
+    }
+  }
   return {
+    symbols,
     ok: !c.messages.some((m) => m.severity === 'error'),
     messages: c.messages,
     unknowns: c.unknowns,

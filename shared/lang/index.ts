@@ -22,7 +22,7 @@ export type {
   Statement,
   UnknownInfo,
 } from './ast';
-export { checkProgram, flatNames, type CheckResult } from './check';
+export { checkProgram, flatNames, type CheckResult, type SymbolInfo } from './check';
 export type { LinearRows, ExtractResult } from './affine';
 export { evaluateValue, DEFAULT_MATH, isMat, type DataValues, type DensityHook, type Mat, type Value, type ScalarFn } from './evaluate';
 export {

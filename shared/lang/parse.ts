@@ -455,12 +455,18 @@ function parseUnknowns(code: string, after: number): UnknownDecl[] {
     if (toks[k]?.text === '[') {
       const lenTok = toks[k + 1];
       const close = toks[k + 2];
-      if (!lenTok || lenTok.kind !== 'num' || !/^[0-9]+$/.test(lenTok.text))
-        throw new LangError(lenTok ?? toks[k], 'the length of a vector unknown is a whole number, as in mu[4]');
+      if (!lenTok || (lenTok.kind !== 'id' && (lenTok.kind !== 'num' || !/^[0-9]+$/.test(lenTok.text))))
+        throw new LangError(lenTok ?? toks[k], 'the length of a vector unknown is a whole number or a named constant, as in mu[4]');
       if (!close || close.text !== ']') throw new LangError(close ?? lenTok, '`]` is missing after the length');
-      const len = Number(lenTok.text);
-      if (len < 1 || len > 100000) throw new LangError(lenTok, 'the length must be between 1 and 100000');
-      decl.length = len;
+      if (lenTok.kind === 'id') {
+        decl.lengthName = lenTok.text;
+        decl.lengthSpan = { start: lenTok.start, end: lenTok.end };
+        decl.length = 0; // resolved by the checker
+      } else {
+        const len = Number(lenTok.text);
+        if (len < 1 || len > 100000) throw new LangError(lenTok, 'the length must be between 1 and 100000');
+        decl.length = len;
+      }
       decl.span = { start: nameTok.start, end: close.end };
       k += 3;
     }

@@ -139,3 +139,25 @@ describe('editor lists', () => {
     }
   });
 });
+
+describe('named lengths and the symbol list', () => {
+  it('unknown vectors may take their length from a named constant', () => {
+    const r = checkProgram('const K = 4\nunknown w[K], s\nconstrain sum(w) == 1', {});
+    expect(r.ok).toBe(true);
+    expect(r.unknowns[0]).toEqual({ name: 'w', shape: [4], size: 4, offset: 0 });
+    expect(r.dim).toBe(5);
+    const bad = errors('const K = 2.5\nunknown w[K]', {});
+    expect(bad[0]).toMatchObject({ line: 2, column: 11, endColumn: 12 });
+    expect(errors('const K = 3\nunknown w[k]', {})[0].suggestion).toBe('did you mean `K`?');
+  });
+  it('lists unknowns, constants, lets, derived names, tables and their columns', () => {
+    const r = checkProgram(`${sketch}\nconst prior = 2\nlet spread = sigma * prior`, trial);
+    const byName = new Map(r.symbols.map((s) => [s.name, s]));
+    expect(byName.get('mu')).toMatchObject({ kind: 'unknown', shape: [6], detail: 'unknown, vector of 6', line: 2 });
+    expect(byName.get('level')).toMatchObject({ kind: 'column', table: 'trial', detail: 'category column of trial, 6 levels' });
+    expect(byName.get('trial')).toMatchObject({ kind: 'table', detail: 'table, 24 rows' });
+    expect(byName.get('prior')).toMatchObject({ kind: 'const', shape: [] });
+    expect(byName.get('spread')).toMatchObject({ kind: 'let', shape: [] });
+    expect(byName.get('gain')).toMatchObject({ kind: 'derive' });
+  });
+});
