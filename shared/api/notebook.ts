@@ -308,7 +308,8 @@ export const createRunBody = z.strictObject({
 
 export const runSchema = z.object({
   id: nbIdSchema,
-  cellId: nbIdSchema,
+  /** The fit cell that queued it (null once that cell is deleted). */
+  cellId: nbIdSchema.nullable(),
   notebookId: nbIdSchema,
   status: runStatusSchema,
   settings: fitSettingsSchema,

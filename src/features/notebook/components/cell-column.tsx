@@ -91,7 +91,11 @@ export function CellColumn<C extends { id: string }>({ cells, activeId, onActiva
           {onAdd && <AddLine position={i + 1} onAdd={onAdd} always={false} />}
         </div>
       ))}
-      {!onAdd && cells.length === 0 && <p className="sl-cell-sub py-8 text-center">This notebook has no cells yet.</p>}
+      {cells.length === 0 && (
+        <p className="sl-cell-sub py-8 text-center">
+          This notebook has no cells yet.{onAdd ? ' Add notes, data, a model and a fit with the line above.' : ''}
+        </p>
+      )}
     </div>
   );
 }

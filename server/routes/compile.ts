@@ -1,0 +1,37 @@
+/** The model check for the editor's side panel: POST /api/workspaces/:id/compile (editors). */
+import { Router } from 'express';
+import { and, desc, eq } from 'drizzle-orm';
+import { routes } from '../../shared/api/routes';
+import type { AppContext } from '../context';
+import { datasets } from '../db/schema';
+import { mount } from '../http/route';
+import { notebookTables, toDataTables, type DatasetRow } from '../notebook/datasets';
+import { checkModel, tablesNamed } from '../notebook/model';
+import { findNotebook } from './notebooks';
+
+export function compileRouter(ctx: AppContext): Router {
+  const r = Router();
+  const { db } = ctx;
+
+  mount(r, ctx, routes.compileModel, async ({ body }, req) => {
+    const ws = req.workspace!;
+    let bound: Map<string, DatasetRow>;
+    if (body.notebookId) {
+      await findNotebook(db, ws.id, body.notebookId);
+      bound = await notebookTables(db, ws.id, body.notebookId);
+    } else {
+      // Only the tables the program names: a first pass without data tells which.
+      const names = tablesNamed(body.source);
+      bound = new Map();
+      for (const name of names) {
+        const [row] = await db.select().from(datasets).where(and(eq(datasets.workspaceId, ws.id), eq(datasets.name, name))).orderBy(desc(datasets.createdAt)).limit(1);
+        if (row) bound.set(name, row);
+      }
+    }
+    const wanted = tablesNamed(body.source);
+    const tables = toDataTables([...bound.values()].filter((d) => wanted.includes(d.name)));
+    return checkModel(body.source, tables, body.region ?? true).response;
+  });
+
+  return r;
+}

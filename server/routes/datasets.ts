@@ -1,0 +1,50 @@
+/** Datasets: CSV upload (size-limited, parsed before anything is stored) and previews. */
+import { Router } from 'express';
+import { routes } from '../../shared/api/routes';
+import { DATASET_MAX_BYTES } from '../../shared/api/notebook';
+import type { AppContext } from '../context';
+import { datasets } from '../db/schema';
+import { mount } from '../http/route';
+import { mountUpload } from '../http/upload';
+import { notFound } from '../http/errors';
+import { newId } from '../lib/ids';
+import { datasetInNotebook, findDataset, previewRows, readUpload, toDataset } from '../notebook/datasets';
+
+export function datasetsRouter(ctx: AppContext): Router {
+  const r = Router();
+  const { db, clock } = ctx;
+
+  mountUpload(r, ctx, routes.uploadDataset, { field: 'file', maxBytes: DATASET_MAX_BYTES, what: 'CSV file' }, async ({ body, file }, req) => {
+    const ws = req.workspace!;
+    const { columns, rows } = readUpload(file.bytes);
+    const row = {
+      id: newId(),
+      workspaceId: ws.id,
+      notebookId: null,
+      cellId: null,
+      name: body.name,
+      columns,
+      rowCount: rows,
+      bytes: file.size,
+      content: file.bytes,
+      createdBy: req.user!.id,
+      createdAt: clock.now(),
+    };
+    await db.insert(datasets).values(row);
+    return { dataset: toDataset(row), rows: previewRows(row) };
+  });
+
+  mount(r, ctx, routes.getDataset, async ({ params }, req) => {
+    const d = await findDataset(db, req.workspace!.id, params.datasetId);
+    return { dataset: toDataset(d), rows: previewRows(d) };
+  });
+
+  mount(r, ctx, routes.sharedDataset, async ({ params }, req) => {
+    const share = req.share!;
+    if (!(await datasetInNotebook(db, share.workspaceId, share.notebookId, params.datasetId))) throw notFound('Dataset not found');
+    const d = await findDataset(db, share.workspaceId, params.datasetId);
+    return { dataset: toDataset(d), rows: previewRows(d) };
+  });
+
+  return r;
+}

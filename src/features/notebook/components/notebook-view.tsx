@@ -1,0 +1,355 @@
+/**
+ * The notebook page body: the column of cells with their tools, autosave, conflicts, comments and
+ * the keyboard. Members edit according to their role; share-link visitors and viewers read only.
+ */
+import { useMemo, useRef, useState, type ChangeEvent } from 'react';
+import { useQueries, useQueryClient } from '@tanstack/react-query';
+import { useNavigate } from 'react-router-dom';
+import { CELL_KIND_LABELS, dataContentSchema, type NbCell, type NbCellKind } from '@shared/api/notebook';
+import type { DataSchema } from '@shared/lang';
+import { errorMessage } from '@/lib/api-client';
+import { CellColumn, NOTEBOOK_KEYS } from './cell-column';
+import { CellFrame } from './cell-frame';
+import { ConflictDialog } from './conflict-dialog';
+import { CommentsPanel } from './comments-panel';
+import { CompareCellView, DataCellView, FitCellView, ModelCellView, NotesCellView, type CellViewProps } from './cell-views';
+import { useCellDraft, type SaveState } from '../use-cell-draft';
+import {
+  datasetQuery,
+  importNotebookFile,
+  saveCell,
+  useCellMutations,
+  useCommentMutations,
+  useComments,
+  type NotebookAccess,
+} from '../api/notebook-api';
+import { nbKeys } from '../api/keys';
+import '../notebook.css';
+
+export interface NotebookViewProps {
+  access: NotebookAccess;
+  cells: NbCell[];
+  canEdit: boolean;
+  canComment: boolean;
+}
+
+const STATE_WORDS: Record<SaveState, string> = {
+  saved: 'saved',
+  unsaved: 'editing…',
+  saving: 'saving…',
+  error: 'not saved',
+  conflict: 'conflict',
+};
+
+export function NotebookView({ access, cells: rawCells, canEdit, canComment }: NotebookViewProps) {
+  const cells = useMemo(() => [...rawCells].sort((a, b) => a.position - b.position), [rawCells]);
+  const [activeId, setActiveId] = useState<string | null>(cells[0]?.id ?? null);
+  const [runSignals, setRunSignals] = useState<Record<string, number>>({});
+  const [editingNotes, setEditingNotes] = useState<Record<string, boolean>>({});
+  const [openComments, setOpenComments] = useState<Record<string, boolean>>({});
+  const [actionError, setActionError] = useState<string | null>(null);
+  const member = access.mode === 'member';
+  const wsId = member ? access.workspaceId : '';
+  const mut = useCellMutations(wsId, access.notebookId);
+  const comments = useComments(wsId, access.notebookId, member && canComment);
+  const commentMut = useCommentMutations(wsId, access.notebookId);
+
+  // Tables bound by the data cells, for the model editor's completion and checks.
+  const dataIds = cells
+    .filter((c) => c.kind === 'data')
+    .map((c) => {
+      const p = dataContentSchema.safeParse(c.content);
+      return p.success ? p.data.datasetId : null;
+    })
+    .filter((x): x is string => !!x);
+  const datasets = useQueries({ queries: dataIds.map((id) => datasetQuery(access, id)) });
+  const schema: DataSchema = {};
+  for (const q of datasets) {
+    if (!q.data) continue;
+    const d = q.data.dataset;
+    schema[d.name] = {
+      rows: d.rows,
+      columns: Object.fromEntries(d.columns.map((c) => [c.name, c.type === 'category' ? { type: c.type, levels: c.levels?.length ?? 0 } : { type: c.type }])),
+    };
+  }
+
+  const add = (kind: NbCellKind, position: number) => {
+    setActionError(null);
+    mut.add.mutate(
+      { kind, position },
+      {
+        onSuccess: (res) => {
+          setActiveId(res.cell.id);
+          if (kind === 'notes') setEditingNotes((e) => ({ ...e, [res.cell.id]: true }));
+        },
+        onError: (e) => setActionError(errorMessage(e)),
+      },
+    );
+  };
+
+  const run = (id: string) => {
+    const cell = cells.find((c) => c.id === id);
+    if (!cell) return;
+    if (cell.kind === 'notes') return setEditingNotes((e) => ({ ...e, [id]: false }));
+    let target = cell;
+    if (cell.kind === 'model') {
+      // Running a model runs the first fit cell below it that fits it.
+      const fit = cells.find((c) => c.kind === 'fit' && c.position > cell.position && (c.content as { modelCellId?: string | null } | null)?.modelCellId === cell.id);
+      if (!fit) return;
+      target = fit;
+    }
+    if (target.kind === 'fit') setRunSignals((s) => ({ ...s, [target.id]: (s[target.id] ?? 0) + 1 }));
+  };
+
+  const commentList = comments.data?.comments ?? [];
+  const openCounts = useMemo(() => {
+    const m: Record<string, number> = {};
+    for (const c of commentList) if (!c.replyTo && !c.resolved) m[c.cellId] = (m[c.cellId] ?? 0) + 1;
+    return m;
+  }, [commentList]);
+
+  return (
+    <div className="sl-notebook flex flex-col gap-3">
+      {member && <NotebookToolbar access={access} canEdit={canEdit} />}
+      {!canEdit && member && (
+        <div className="sl-banner" role="status" data-testid="read-only-banner">
+          <strong>Read-only.</strong> Your role in this workspace lets you read{canComment ? ' and comment on' : ''} this notebook, not change it.
+        </div>
+      )}
+      {actionError && (
+        <p className="sl-field-error" role="alert">
+          {actionError}
+        </p>
+      )}
+      <CellColumn
+        cells={cells}
+        activeId={activeId}
+        onActivate={setActiveId}
+        onAdd={canEdit ? add : undefined}
+        onRun={run}
+        renderCell={(cell, i) => (
+          <CellItem
+            key={cell.id}
+            cell={cell}
+            index={i}
+            count={cells.length}
+            cells={cells}
+            access={access}
+            canEdit={canEdit}
+            active={activeId === cell.id}
+            onActivate={() => setActiveId(cell.id)}
+            schema={schema}
+            runSignal={runSignals[cell.id] ?? 0}
+            editingNotes={!!editingNotes[cell.id]}
+            setEditingNotes={(v) => setEditingNotes((e) => ({ ...e, [cell.id]: v }))}
+            onMove={(direction) => mut.move.mutate({ cellId: cell.id, direction }, { onError: (e) => setActionError(errorMessage(e)) })}
+            onDelete={() => mut.remove.mutate(cell.id, { onError: (e) => setActionError(errorMessage(e)) })}
+            onCollapse={(collapsed) => mut.collapse.mutate({ cellId: cell.id, collapsed }, { onError: (e) => setActionError(errorMessage(e)) })}
+            commentsOpen={!!openComments[cell.id]}
+            toggleComments={member && canComment ? () => setOpenComments((o) => ({ ...o, [cell.id]: !o[cell.id] })) : undefined}
+            openCommentCount={member && canComment ? (openCounts[cell.id] ?? 0) : undefined}
+            comments={
+              openComments[cell.id] ? (
+                <CommentsPanel
+                  comments={commentList.filter((c) => c.cellId === cell.id)}
+                  canComment={canComment}
+                  busy={commentMut.create.isPending || commentMut.resolve.isPending}
+                  error={commentMut.create.error ? errorMessage(commentMut.create.error) : commentMut.resolve.error ? errorMessage(commentMut.resolve.error) : null}
+                  onCreate={(body, replyTo) => commentMut.create.mutate({ cellId: cell.id, body, replyTo })}
+                  onResolve={(commentId, resolved) => commentMut.resolve.mutate({ commentId, resolved })}
+                />
+              ) : null
+            }
+          />
+        )}
+      />
+      <p className="sl-hint" style={{ textAlign: 'center', marginTop: '1rem' }}>
+        Keyboard: {NOTEBOOK_KEYS.run.replace('Mod', 'Ctrl/⌘')} runs the current cell · {NOTEBOOK_KEYS.previous} and {NOTEBOOK_KEYS.next} move between cells
+      </p>
+    </div>
+  );
+}
+
+interface CellItemProps {
+  cell: NbCell;
+  index: number;
+  count: number;
+  cells: NbCell[];
+  access: NotebookAccess;
+  canEdit: boolean;
+  active: boolean;
+  onActivate: () => void;
+  schema: DataSchema;
+  runSignal: number;
+  editingNotes: boolean;
+  setEditingNotes: (v: boolean) => void;
+  onMove: (d: 'up' | 'down') => void;
+  onDelete: () => void;
+  onCollapse: (collapsed: boolean) => void;
+  commentsOpen: boolean;
+  toggleComments?: () => void;
+  openCommentCount?: number;
+  comments: React.ReactNode;
+}
+
+function CellItem(p: CellItemProps) {
+  const { cell, access } = p;
+  const qc = useQueryClient();
+  const readOnly = !p.canEdit;
+  const draft = useCellDraft(
+    cell,
+    (body) => {
+      if (access.mode !== 'member') throw new Error('read-only');
+      return saveCell(access.workspaceId, access.notebookId, cell.id, body);
+    },
+    {
+      readOnly,
+      onSaved: (saved) => {
+        if (access.mode !== 'member') return;
+        qc.setQueryData(nbKeys.notebook(access.workspaceId, access.notebookId), (old: { cells: NbCell[] } | undefined) =>
+          old ? { ...old, cells: old.cells.map((c) => (c.id === saved.id ? { ...c, ...saved } : c)) } : old,
+        );
+      },
+    },
+  );
+  const [confirmDelete, setConfirmDelete] = useState(false);
+  const viewProps: CellViewProps = {
+    cell,
+    access,
+    readOnly,
+    source: draft.source,
+    content: draft.content,
+    setSource: draft.setSource,
+    setContent: draft.setContent,
+    cells: p.cells,
+    schema: p.schema,
+    runSignal: p.runSignal,
+    editingNotes: p.editingNotes,
+    setEditingNotes: p.setEditingNotes,
+  };
+  const label = CELL_KIND_LABELS[cell.kind];
+  const subtitle = cell.kind === 'model' ? (cell.source.match(/^\s*#\s*(.+)$/m)?.[1] ?? undefined) : undefined;
+  const conflictText = (c: unknown) => JSON.stringify(c, null, 2);
+  const isText = cell.kind === 'notes' || cell.kind === 'model';
+
+  return (
+    <>
+      <CellFrame
+        id={cell.id}
+        kind={cell.kind}
+        subtitle={subtitle}
+        collapsed={cell.collapsed}
+        active={p.active}
+        onFocusCell={p.onActivate}
+        openComments={p.openCommentCount}
+        onToggleCollapse={p.canEdit ? () => p.onCollapse(!cell.collapsed) : undefined}
+        status={p.canEdit ? <span data-testid="save-state" data-state={draft.state} title={draft.error ?? undefined}>{STATE_WORDS[draft.state]} · v{draft.version}</span> : undefined}
+        tools={
+          <>
+            {cell.kind === 'notes' && p.canEdit && (
+              <button type="button" className="sl-btn" onClick={() => p.setEditingNotes(!p.editingNotes)}>
+                {p.editingNotes ? 'done' : 'edit'}
+              </button>
+            )}
+            {p.toggleComments && (
+              <button type="button" className="sl-btn" aria-pressed={p.commentsOpen} onClick={p.toggleComments} aria-label={`Comments on this ${label.toLowerCase()} cell`}>
+                comments
+              </button>
+            )}
+            {p.canEdit && (
+              <>
+                <button type="button" className="sl-btn" disabled={p.index === 0} onClick={() => p.onMove('up')} aria-label={`Move ${label.toLowerCase()} cell up`}>
+                  ↑
+                </button>
+                <button type="button" className="sl-btn" disabled={p.index === p.count - 1} onClick={() => p.onMove('down')} aria-label={`Move ${label.toLowerCase()} cell down`}>
+                  ↓
+                </button>
+                {confirmDelete ? (
+                  <>
+                    <button type="button" className="sl-btn sl-btn-outline" onClick={p.onDelete}>
+                      delete for good
+                    </button>
+                    <button type="button" className="sl-btn" onClick={() => setConfirmDelete(false)}>
+                      keep
+                    </button>
+                  </>
+                ) : (
+                  <button type="button" className="sl-btn" onClick={() => setConfirmDelete(true)} aria-label={`Delete ${label.toLowerCase()} cell`}>
+                    delete
+                  </button>
+                )}
+              </>
+            )}
+          </>
+        }
+      >
+        {cell.kind === 'notes' && <NotesCellView {...viewProps} />}
+        {cell.kind === 'data' && <DataCellView {...viewProps} />}
+        {cell.kind === 'model' && <ModelCellView {...viewProps} />}
+        {cell.kind === 'fit' && <FitCellView {...viewProps} />}
+        {cell.kind === 'compare' && <CompareCellView {...viewProps} />}
+        {draft.state === 'error' && draft.error && (
+          <p className="sl-field-error" role="alert" style={{ marginTop: '0.5rem' }}>
+            Not saved: {draft.error}{' '}
+            <button type="button" className="sl-btn sl-btn-outline" onClick={() => void draft.flush()}>
+              try again
+            </button>
+          </p>
+        )}
+      </CellFrame>
+      {p.comments && <div style={{ margin: '0.5rem 0 0 1.5rem' }}>{p.comments}</div>}
+      {draft.conflict && (
+        <ConflictDialog
+          kindLabel={label}
+          theirs={isText ? draft.conflict.current.source : conflictText(draft.conflict.current.content)}
+          theirVersion={draft.conflict.current.version}
+          mine={isText ? draft.conflict.mine.source : conflictText(draft.conflict.mine.content)}
+          onKeepMine={() => void draft.keepMine()}
+          onTakeTheirs={draft.takeTheirs}
+        />
+      )}
+    </>
+  );
+}
+
+function NotebookToolbar({ access, canEdit }: { access: Extract<NotebookAccess, { mode: 'member' }>; canEdit: boolean }) {
+  const navigate = useNavigate();
+  const fileRef = useRef<HTMLInputElement>(null);
+  const [error, setError] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+  const onImport = async (e: ChangeEvent<HTMLInputElement>) => {
+    const f = e.target.files?.[0];
+    e.target.value = '';
+    if (!f) return;
+    setBusy(true);
+    setError(null);
+    try {
+      const res = await importNotebookFile(access.workspaceId, f);
+      navigate(`/w/${access.workspaceId}/n/${res.notebook.id}`);
+    } catch (err) {
+      setError(errorMessage(err));
+    } finally {
+      setBusy(false);
+    }
+  };
+  return (
+    <div className="flex flex-wrap items-center gap-2">
+      <a className="sl-btn sl-btn-outline" href={`/api/workspaces/${encodeURIComponent(access.workspaceId)}/notebooks/${encodeURIComponent(access.notebookId)}/export`} download>
+        Export notebook file
+      </a>
+      {canEdit && (
+        <>
+          <button type="button" className="sl-btn sl-btn-outline" disabled={busy} onClick={() => fileRef.current?.click()}>
+            {busy ? 'Importing…' : 'Import a notebook file'}
+          </button>
+          <input ref={fileRef} type="file" accept=".json,application/json" hidden onChange={onImport} aria-label="Notebook file to import" />
+        </>
+      )}
+      {error && (
+        <span className="sl-field-error" role="alert">
+          {error}
+        </span>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,182 @@
+/**
+ * Runs as jobs: claim with SKIP LOCKED, lease and heartbeat, expiry and requeue, cancel, give up
+ * after too many lost leases, and one fit end to end on a tiny model through a real worker.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { eq } from 'drizzle-orm';
+import Papa from 'papaparse';
+import { runs } from '../../../server/db/schema';
+import { newId } from '../../../server/lib/ids';
+import { claimRun, heartbeat, failRun, writeProgress } from '../../../server/jobs/queue';
+import { RunWorker } from '../../../server/jobs/worker';
+import { RUN_LIMITS } from '../../../shared/api/notebook';
+import { notebookWorld, postFile, type NotebookWorld } from './setup';
+
+let w: NotebookWorld;
+beforeAll(async () => {
+  w = await notebookWorld();
+});
+afterAll(() => w.server.close());
+
+const settings = { chains: 2, warmup: 200, draws: 300, seed: 11, sampler: 'auto' as const };
+
+async function queueRaw(createdAt: Date): Promise<string> {
+  const id = newId();
+  await w.server.db.db.insert(runs).values({
+    id, workspaceId: w.ws, notebookId: w.nb, cellId: null, status: 'queued', settings, seed: settings.seed,
+    modelHash: '0'.repeat(64), spec: { source: 'unknown a', tables: {} }, progress: [], attempts: 0, createdAt,
+  });
+  return id;
+}
+const rowOf = async (id: string) => (await w.server.db.db.select().from(runs).where(eq(runs.id, id)))[0];
+
+describe('queue', () => {
+  it('concurrent claims take different runs (SKIP LOCKED), oldest first', async () => {
+    const t0 = new Date('2026-12-01T10:00:00Z');
+    const a = await queueRaw(new Date(t0.getTime() - 2000));
+    const b = await queueRaw(new Date(t0.getTime() - 1000));
+    const [x, y] = await Promise.all([claimRun(w.server.db.db, 'w1', t0, 30_000), claimRun(w.server.db.db, 'w2', t0, 30_000)]);
+    expect(new Set([x?.id, y?.id])).toEqual(new Set([a, b]));
+    expect(await claimRun(w.server.db.db, 'w3', t0, 30_000)).toBeNull();
+    const ra = await rowOf(a);
+    expect(ra.status).toBe('running');
+    expect(ra.attempts).toBe(1);
+    expect(ra.leaseExpiresAt!.getTime()).toBe(t0.getTime() + 30_000);
+    // Tidy up: both fail so later tests see an empty queue.
+    await failRun(w.server.db.db, a, ra.leaseOwner!, 'test', t0);
+    const rb = await rowOf(b);
+    await failRun(w.server.db.db, b, rb.leaseOwner!, 'test', t0);
+  });
+
+  it('a heartbeat extends the lease; an expired lease returns the run to another worker, fencing the first', async () => {
+    const db = w.server.db.db;
+    const t0 = new Date('2026-12-01T11:00:00Z');
+    const id = await queueRaw(t0);
+    const claimed = await claimRun(db, 'first', t0, 10_000);
+    expect(claimed?.id).toBe(id);
+    expect(await heartbeat(db, id, 'first', new Date(t0.getTime() + 5_000), 10_000)).toBe(true);
+    expect((await rowOf(id)).leaseExpiresAt!.getTime()).toBe(t0.getTime() + 15_000);
+    // Before expiry nobody else can take it.
+    expect(await claimRun(db, 'second', new Date(t0.getTime() + 14_000), 10_000)).toBeNull();
+    // After expiry the second worker takes it over.
+    const later = new Date(t0.getTime() + 16_000);
+    const taken = await claimRun(db, 'second', later, 10_000);
+    expect(taken?.id).toBe(id);
+    expect(taken?.attempts).toBe(2);
+    // The first worker is fenced out of every write.
+    expect(await heartbeat(db, id, 'first', later, 10_000)).toBe(false);
+    expect(await writeProgress(db, id, 'first', [])).toBe(false);
+    expect(await failRun(db, id, 'first', 'late', later)).toBe(false);
+    expect((await rowOf(id)).leaseOwner).toBe('second');
+    await failRun(db, id, 'second', 'test', later);
+  });
+
+  it(`gives a run up after ${RUN_LIMITS.maxAttempts} lost leases`, async () => {
+    const db = w.server.db.db;
+    let t = new Date('2026-12-01T12:00:00Z').getTime();
+    const id = await queueRaw(new Date(t));
+    for (let k = 0; k < RUN_LIMITS.maxAttempts; k++) {
+      const c = await claimRun(db, `w${k}`, new Date(t), 1_000);
+      expect(c?.id).toBe(id);
+      t += 2_000; // the worker vanished
+    }
+    expect(await claimRun(db, 'last', new Date(t), 1_000)).toBeNull();
+    const row = await rowOf(id);
+    expect(row.status).toBe('failed');
+    expect(row.error).toMatch(/stopped answering 3 times/);
+  });
+
+  it('cancelling a queued run takes it off the queue; cancelling a running one fences its worker', async () => {
+    const db = w.server.db.db;
+    const t0 = new Date('2026-12-01T13:00:00Z');
+    const q = await queueRaw(t0);
+    const res = await w.editor.post(`/api/workspaces/${w.ws}/runs/${q}/cancel`, {});
+    expect(res.status).toBe(200);
+    expect(res.body.run.status).toBe('cancelled');
+    expect(await claimRun(db, 'w', t0, 10_000)).toBeNull();
+    const r = await queueRaw(t0);
+    await claimRun(db, 'busy', t0, 10_000);
+    expect((await w.editor.post(`/api/workspaces/${w.ws}/runs/${r}/cancel`, {})).body.run.status).toBe('cancelled');
+    expect(await heartbeat(db, r, 'busy', t0, 10_000)).toBe(false);
+    expect((await w.editor.post(`/api/workspaces/${w.ws}/runs/${r}/cancel`, {})).status).toBe(409);
+  });
+});
+
+describe('a fit end to end', () => {
+  it('queues from a fit cell, runs on a worker, reports progress, then summary, draws and CSV exports', async () => {
+    // A small invented scenario: cups of coffee brewed per morning at a tasting bar, Poisson with
+    // a rate bounded below by 1 — our own made-up data.
+    const csv = 'cups\n3\n5\n4\n6\n2\n5\n4\n';
+    const up = await postFile(w.editor, `/api/workspaces/${w.ws}/datasets`, { name: 'cups.csv', text: csv }, { name: 'tasting' });
+    expect(up.status).toBe(201);
+    await w.editor.post(`${w.base}/cells`, { kind: 'data', content: { datasetId: up.body.dataset.id } });
+    const model = (
+      await w.editor.post(`${w.base}/cells`, {
+        kind: 'model',
+        source: '# Brew rate\ntable tasting\nunknown rate\nterm ld_poisson(cups, rate) + ld_gamma(rate, 2, 0.5)\nconstrain rate >= 1\nconstrain rate <= 20\n',
+      })
+    ).body.cell;
+    const fit = (await w.editor.post(`${w.base}/cells`, { kind: 'fit', content: { modelCellId: model.id, settings } })).body.cell;
+    const created = await w.editor.post(`${w.base}/cells/${fit.id}/runs`, {});
+    expect(created.status).toBe(201);
+    const runId = created.body.run.id;
+    expect(created.body.run.status).toBe('queued');
+    // Reviewers cannot start fits.
+    expect((await w.reviewer.post(`${w.base}/cells/${fit.id}/runs`, {})).status).toBe(403);
+
+    const worker = new RunWorker({ db: w.server.db.db, parallel: false, progressMs: 0, heartbeatMs: 1000, log: () => {} });
+    expect(await worker.runOnce()).toBe(true);
+
+    const got = await w.viewer.get(`/api/workspaces/${w.ws}/runs/${runId}`);
+    expect(got.status).toBe(200);
+    const run = got.body.run;
+    expect(run.status).toBe('done');
+    expect(run.progress.map((p: { phase: string }) => p.phase)).toEqual(['done', 'done']);
+    expect(run.summary.quantities.map((q: { name: string }) => q.name)).toEqual(['rate']);
+    // Every draw respects the constraints; the posterior mean lies inside them.
+    const rate = run.summary.quantities[0];
+    expect(rate.q5).toBeGreaterThanOrEqual(1);
+    expect(rate.q95).toBeLessThanOrEqual(20);
+
+    const list = await w.viewer.get(`${w.base}/cells/${fit.id}/runs`);
+    expect(list.body.runs[0].id).toBe(runId);
+
+    const draws = await w.viewer.get(`/api/workspaces/${w.ws}/runs/${runId}/draws?max=100`);
+    expect(draws.status).toBe(200);
+    expect(draws.body.names).toEqual(['rate']);
+    expect(draws.body.thin).toBe(3);
+    expect(draws.body.chains).toHaveLength(2);
+    expect(draws.body.chains[0].values[0].length).toBe(100);
+    expect(draws.body.region.A).toEqual([[-1], [1]]);
+
+    const csvRes = await w.viewer.get(`/api/workspaces/${w.ws}/runs/${runId}/draws.csv`);
+    expect(csvRes.status).toBe(200);
+    expect(csvRes.headers.get('content-type')).toMatch(/text\/csv/);
+    const rows = Papa.parse<string[]>(csvRes.text.trim()).data;
+    expect(rows[0]).toEqual(['chain', 'iteration', 'rate']);
+    expect(rows.length - 1).toBe(settings.chains * settings.draws);
+    expect(rows.slice(1).every((r) => Number(r[2]) >= 1 && Number(r[2]) <= 20)).toBe(true);
+
+    const sum = await w.viewer.get(`/api/workspaces/${w.ws}/runs/${runId}/summary.csv`);
+    const srows = Papa.parse<string[]>(sum.text.trim()).data;
+    expect(srows[0][0]).toBe('quantity');
+    expect(srows[1][0]).toBe('rate');
+    expect(Number(srows[1][2])).toBeCloseTo(rate.mean, 10);
+  });
+
+  it('refuses a fit whose model binds a table no data cell holds, and enforces the workspace limit', async () => {
+    const model = (await w.editor.post(`${w.base}/cells`, { kind: 'model', source: 'table nowhere\nunknown a\nterm ld_normal(a, 0, 1)' })).body.cell;
+    const fit = (await w.editor.post(`${w.base}/cells`, { kind: 'fit', content: { modelCellId: model.id, settings } })).body.cell;
+    const res = await w.editor.post(`${w.base}/cells/${fit.id}/runs`, {});
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toMatch(/table "nowhere"/);
+
+    const ok = (await w.editor.post(`${w.base}/cells`, { kind: 'model', source: 'unknown a\nterm ld_normal(a, 0, 1)\nconstrain a >= 0' })).body.cell;
+    const fit2 = (await w.editor.post(`${w.base}/cells`, { kind: 'fit', content: { modelCellId: ok.id, settings } })).body.cell;
+    const made: number[] = [];
+    for (let k = 0; k < 3; k++) made.push((await w.editor.post(`${w.base}/cells/${fit2.id}/runs`, {})).status);
+    expect(made).toEqual([201, 201, 409]);
+    const third = await w.editor.post(`${w.base}/cells/${fit2.id}/runs`, {});
+    expect(third.body.error.message).toMatch(/already has 2 fits queued or running/);
+  });
+});
