@@ -38,11 +38,12 @@ export function runsRouter(ctx: AppContext): Router {
     if (cell.kind !== 'fit') throw badRequest('Only fit cells run fits');
     const content = fitContentSchema.parse(cell.content);
     const settings = body.settings ?? content.settings;
-    if (!content.modelCellId) throw badRequest('Choose the model cell this fit uses first', { modelCellId: 'Required' });
+    const modelCellId = body.modelCellId ?? content.modelCellId;
+    if (!modelCellId) throw badRequest('Choose the model cell this fit uses first', { modelCellId: 'Required' });
     const [model] = await db
       .select()
       .from(cells)
-      .where(and(eq(cells.workspaceId, ws.id), eq(cells.notebookId, params.notebookId), eq(cells.id, content.modelCellId)))
+      .where(and(eq(cells.workspaceId, ws.id), eq(cells.notebookId, params.notebookId), eq(cells.id, modelCellId)))
       .limit(1);
     if (!model || model.kind !== 'model') throw badRequest('The model cell this fit names no longer exists; choose another');
 

@@ -304,6 +304,8 @@ export const RUN_LIMITS = {
 export const createRunBody = z.strictObject({
   /** Settings to run with; when omitted the fit cell's saved settings are used. */
   settings: fitSettingsSchema.optional(),
+  /** The model cell to fit; when omitted the one the fit cell names. */
+  modelCellId: nbIdSchema.optional(),
 });
 
 export const runSchema = z.object({

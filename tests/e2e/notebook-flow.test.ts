@@ -48,22 +48,41 @@ async function signInAs(email: string, password: string) {
 /** The last "add" line of the column (after the last cell). */
 const lastAddLine = () => page.getByRole('group', { name: /^Add a cell at position/ }).last();
 
+/** Add a cell of a kind at the end and wait until it is on the page; returns its section. */
+async function addCellAtEnd(kind: 'data' | 'model' | 'fit') {
+  const sections = page.locator(`section[data-kind="${kind}"]`);
+  const before = await sections.count();
+  await lastAddLine().hover();
+  await lastAddLine().getByRole('button', { name: `Add ${kind} cell here` }).click();
+  await expect.poll(() => sections.count(), { timeout: 15_000 }).toBe(before + 1);
+  return sections.nth(before);
+}
+
 describe('the notebook', () => {
   it('runs a constrained fit from an uploaded table and shares the result read-only', async () => {
+    try {
+      await flow();
+    } catch (e) {
+      await page.screenshot({ path: await screenshotPath('notebook-failure.png'), fullPage: true });
+      throw e;
+    }
+  });
+});
+
+async function flow() {
+  {
     await signInAs(DEMO_USER.email, DEMO_USER.password);
     await page.getByRole('link', { name: /Alder Creek/ }).first().click();
     await page.getByRole('link', { name: DEMO_NOTEBOOK }).click();
-    await page.getByRole('heading', { name: DEMO_NOTEBOOK }).waitFor();
+    await page.getByRole('heading', { name: DEMO_NOTEBOOK }).first().waitFor();
     const notebookUrl = page.url();
     const [, workspaceId, notebookId] = new URL(notebookUrl).pathname.match(/^\/w\/([a-z0-9]+)\/n\/([a-z0-9]+)$/)!;
     // The demo arrives with finished fits: a verdict and a summary table without typing anything.
     await page.getByTestId('summary-table').first().waitFor();
 
     // ---- upload a CSV into a new data cell ----
-    await lastAddLine().hover();
-    await lastAddLine().getByRole('button', { name: 'Add data cell here' }).click();
-    const dataCell = page.locator('section[data-kind="data"]').last();
-    await dataCell.locator('#csv-file').setInputFiles({
+    const dataCell = await addCellAtEnd('data');
+    await dataCell.getByTestId('csv-file').setInputFiles({
       name: 'roast.csv',
       mimeType: 'text/csv',
       buffer: Buffer.from('batch,bitterness\n1,4.1\n2,5.3\n3,4.8\n4,6.0\n5,5.1\n6,4.4\n7,5.7\n8,5.0\n'),
@@ -74,18 +93,27 @@ describe('the notebook', () => {
     expect(await dataCell.getByTestId('row-count').textContent()).toBe('8');
 
     // ---- write a small constrained model ----
-    await lastAddLine().hover();
-    await lastAddLine().getByRole('button', { name: 'Add model cell here' }).click();
-    const modelCell = page.locator('section[data-kind="model"]').last();
+    const modelCell = await addCellAtEnd('model');
     await modelCell.locator('.cm-content').click();
-    await page.keyboard.type('# Bitterness of the house roast\ntable roast\nunknown level, spread\nterm ld_normal(bitterness, level, spread)\nterm ld_normal(level, 5, 3) + ld_halfnormal(spread, 2)\nconstrain 4 <= level <= 6\nconstrain spread >= 0.05\n', { delay: 2 });
+    const program = [
+      '# Bitterness of the house roast',
+      'table roast',
+      'unknown level, spread',
+      'term ld_normal(bitterness, level, spread)',
+      'term ld_normal(level, 5, 3) + ld_halfnormal(spread, 2)',
+      'constrain 4 <= level <= 6',
+      'constrain spread >= 0.05',
+    ];
+    for (const line of program) {
+      await page.keyboard.type(line, { delay: 2 });
+      await page.keyboard.press('Escape'); // close the completion list so Enter starts a new line
+      await page.keyboard.press('Enter');
+    }
     await modelCell.getByTestId('region-status').filter({ hasText: 'interior found' }).waitFor();
     await modelCell.getByTestId('save-state').filter({ hasText: 'saved' }).waitFor();
 
     // ---- a fit cell: settings, run, progress, results ----
-    await lastAddLine().hover();
-    await lastAddLine().getByRole('button', { name: 'Add fit cell here' }).click();
-    const fitCell = page.locator('section[data-kind="fit"]').last();
+    const fitCell = await addCellAtEnd('fit');
     await fitCell.getByLabel('Chains').fill('2');
     await fitCell.getByLabel('Warm-up iterations').fill('300');
     await fitCell.getByLabel('Draws').fill('400');
@@ -119,6 +147,8 @@ describe('the notebook', () => {
     await signInAs(rv.email, TEST_PASSWORD);
     await page.goto(notebookUrl);
     await page.getByTestId('read-only-banner').waitFor();
+    // Let every fit's plot finish drawing before pointing at anything below them.
+    await expect.poll(() => page.locator('[data-testid="plot"] svg').count(), { timeout: 30_000 }).toBe(3);
     const reviewedFit = page.locator('section[data-kind="fit"]').last();
     await reviewedFit.getByRole('button', { name: /^Comments on this fit cell/ }).click();
     await page.getByLabel('Comment on this cell…').fill('Is a spread prior of 2 too wide for this panel?');
@@ -144,5 +174,5 @@ describe('the notebook', () => {
     expect([401, 403, 404]).toContain(write.status());
     await page.screenshot({ path: await screenshotPath('notebook-shared.png'), fullPage: true });
     expect(pageErrors).toEqual([]);
-  });
-});
+  }
+}

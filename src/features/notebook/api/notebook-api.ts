@@ -149,7 +149,7 @@ export function useRunMutations(workspaceId: string, notebookId: string, cellId:
   const invalidate = () => qc.invalidateQueries({ queryKey: nbKeys.cellRuns(workspaceId, notebookId, cellId) });
   return {
     start: useMutation({
-      mutationFn: (settings: FitSettings) => callRoute('createRun', { params: { workspaceId, notebookId, cellId }, body: { settings } }),
+      mutationFn: (v: { settings: FitSettings; modelCellId: string }) => callRoute('createRun', { params: { workspaceId, notebookId, cellId }, body: v }),
       onSuccess: invalidate,
     }),
     cancel: useMutation({

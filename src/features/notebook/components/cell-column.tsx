@@ -72,15 +72,17 @@ export function CellColumn<C extends { id: string }>({ cells, activeId, onActiva
     }
   };
 
-  // Keep the active cell in view when it changes from outside (e.g. after adding a cell).
-  const lastActive = useRef(activeId);
+  // Bring a newly added cell into view once it is on the page. (Clicking inside a cell only marks
+  // it active: scrolling then would move the button away from under the pointer.)
+  const known = useRef(new Set(cells.map((c) => c.id)));
   useEffect(() => {
-    if (activeId && activeId !== lastActive.current) {
+    const ids = new Set(cells.map((c) => c.id));
+    if (activeId && ids.has(activeId) && !known.current.has(activeId)) {
       const el = ref.current?.querySelector<HTMLElement>(`[data-cell-id="${CSS.escape(activeId)}"]`);
       el?.scrollIntoView?.({ block: 'nearest' });
     }
-    lastActive.current = activeId;
-  }, [activeId]);
+    known.current = ids;
+  }, [activeId, cells]);
 
   return (
     <div ref={ref} className="flex flex-col" onKeyDown={onKeyDown} onKeyDownCapture={onKeyDownCapture} data-testid="cell-column">

@@ -155,7 +155,7 @@ export function FitCellView(p: CellViewProps) {
     if (!mut || !modelId) return;
     setRunError(null);
     if (content.modelCellId !== modelId || JSON.stringify(content.settings) !== JSON.stringify(settings)) p.setContent({ modelCellId: modelId, settings });
-    mut.start.mutate(settings, {
+    mut.start.mutate({ settings, modelCellId: modelId }, {
       onSuccess: () => setOpenId(null),
       onError: (e) => setRunError(errorMessage(e)),
     });

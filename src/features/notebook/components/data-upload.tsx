@@ -1,4 +1,4 @@
-import { useRef, useState, type FormEvent } from 'react';
+import { useId, useRef, useState, type FormEvent } from 'react';
 import { DATASET_MAX_BYTES, tableNameSchema } from '@shared/api/notebook';
 
 /** Suggest a table name from a file name: "Orchard plots 2026.csv" → "Orchard_plots_2026". */
@@ -18,6 +18,7 @@ export interface DataUploadProps {
 /** Choose a CSV file and the table name the model will bind with `table <name>`. */
 export function DataUpload({ busy, error, onUpload }: DataUploadProps) {
   const fileRef = useRef<HTMLInputElement>(null);
+  const uid = useId();
   const [file, setFile] = useState<File | null>(null);
   const [name, setName] = useState('');
   const [localError, setLocalError] = useState<string | null>(null);
@@ -37,9 +38,10 @@ export function DataUpload({ busy, error, onUpload }: DataUploadProps) {
     <form onSubmit={submit} className="flex flex-col gap-2" aria-label="Upload a CSV file">
       <div className="flex flex-wrap items-end gap-3">
         <div className="sl-field">
-          <label htmlFor="csv-file">CSV file (header row first, up to {DATASET_MAX_BYTES / 1048576} MB)</label>
+          <label htmlFor={`${uid}-file`}>CSV file (header row first, up to {DATASET_MAX_BYTES / 1048576} MB)</label>
           <input
-            id="csv-file"
+            id={`${uid}-file`}
+            data-testid="csv-file"
             ref={fileRef}
             type="file"
             accept=".csv,text/csv"
@@ -52,8 +54,8 @@ export function DataUpload({ busy, error, onUpload }: DataUploadProps) {
           />
         </div>
         <div className="sl-field">
-          <label htmlFor="csv-name">Table name</label>
-          <input id="csv-name" className="sl-input" style={{ width: '12rem' }} value={name} onChange={(e) => setName(e.target.value)} />
+          <label htmlFor={`${uid}-name`}>Table name</label>
+          <input id={`${uid}-name`} className="sl-input" style={{ width: '12rem' }} value={name} onChange={(e) => setName(e.target.value)} />
         </div>
         <button type="submit" className="sl-btn sl-btn-primary" disabled={busy}>
           {busy ? 'Reading…' : 'Upload'}

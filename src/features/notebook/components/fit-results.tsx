@@ -38,7 +38,7 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
           </a>
         </div>
       )}
-      {draws ? <FitPlots draws={draws} /> : drawsError ? <p className="sl-cell-sub">Plots unavailable: {drawsError}</p> : <p className="sl-cell-sub">Loading draws for the plots…</p>}
+      {draws ? <FitPlots draws={draws} /> : drawsError ? <p className="sl-cell-sub">Plots unavailable: {drawsError}</p> : <p className="sl-cell-sub" style={{ minHeight: 300 }}>Loading draws for the plots…</p>}
     </div>
   );
 }

@@ -1,4 +1,4 @@
-import { useEffect, useState, type FormEvent } from 'react';
+import { useEffect, useId, useState, type FormEvent } from 'react';
 import { FIT_LIMITS, SAMPLERS, fitSettingsSchema, type FitSettings } from '@shared/fit';
 
 const DEFAULTS: FitSettings = fitSettingsSchema.parse({});
@@ -59,6 +59,7 @@ const FIELDS = [
 export function FitSettingsForm({ value, readOnly, running, onChange, onRun, onCancel }: FitSettingsFormProps) {
   const [draft, setDraft] = useState<Draft>(() => toDraft(value));
   const [errors, setErrors] = useState<Partial<Record<keyof Draft, string>>>({});
+  const uid = useId();
 
   // Follow outside changes (another person's save) unless the draft differs on purpose.
   const valueKey = JSON.stringify(value);
@@ -93,30 +94,30 @@ export function FitSettingsForm({ value, readOnly, running, onChange, onRun, onC
       <div className="grid gap-3" style={{ gridTemplateColumns: 'repeat(auto-fit, minmax(9rem, 1fr))' }}>
         {FIELDS.map((f) => (
           <div className="sl-field" key={f.key}>
-            <label htmlFor={`fit-${f.key}`}>{f.label}</label>
+            <label htmlFor={`${uid}-${f.key}`}>{f.label}</label>
             <input
-              id={`fit-${f.key}`}
+              id={`${uid}-${f.key}`}
               className="sl-input"
               inputMode="numeric"
               value={draft[f.key]}
               disabled={disabled}
               aria-invalid={errors[f.key] ? true : undefined}
-              aria-describedby={`fit-${f.key}-hint`}
+              aria-describedby={`${uid}-${f.key}-hint`}
               onChange={(e) => update({ [f.key]: e.target.value } as Partial<Draft>)}
             />
             {errors[f.key] ? (
               <div className="sl-field-error" role="alert">{errors[f.key]}</div>
             ) : (
-              <div className="sl-hint" id={`fit-${f.key}-hint`}>
+              <div className="sl-hint" id={`${uid}-${f.key}-hint`}>
                 {f.limits.min}–{f.limits.max.toLocaleString('en')}, default {DEFAULTS[f.key]} · {f.hint}
               </div>
             )}
           </div>
         ))}
         <div className="sl-field">
-          <label htmlFor="fit-seed">Seed</label>
+          <label htmlFor={`${uid}-seed`}>Seed</label>
           <input
-            id="fit-seed"
+            id={`${uid}-seed`}
             className="sl-input"
             inputMode="numeric"
             value={draft.seed}
@@ -128,8 +129,8 @@ export function FitSettingsForm({ value, readOnly, running, onChange, onRun, onC
         </div>
       </div>
       <div className="sl-field">
-        <label htmlFor="fit-sampler">Sampler</label>
-        <select id="fit-sampler" className="sl-input" style={{ fontFamily: 'inherit' }} value={draft.sampler} disabled={disabled} onChange={(e) => update({ sampler: e.target.value as Draft['sampler'] })}>
+        <label htmlFor={`${uid}-sampler`}>Sampler</label>
+        <select id={`${uid}-sampler`} className="sl-input" style={{ fontFamily: 'inherit' }} value={draft.sampler} disabled={disabled} onChange={(e) => update({ sampler: e.target.value as Draft['sampler'] })}>
           {SAMPLERS.map((s) => (
             <option key={s} value={s}>
               {SAMPLER_WORDS[s]}

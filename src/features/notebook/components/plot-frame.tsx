@@ -6,8 +6,14 @@ import type { Spec } from '@/lib/plot/specs';
  * of the main bundle and only loads when a fit's plots are first shown.
  */
 const LazyVega = lazy(async () => {
-  const mod = await import('react-vega');
-  return { default: mod.VegaEmbed };
+  const [mod, interp] = await Promise.all([import('react-vega'), import('vega-interpreter')]);
+  // The app's Content-Security-Policy forbids eval: Vega evaluates its expressions with the
+  // AST interpreter instead of generated functions.
+  const options = { actions: false, renderer: 'svg' as const, ast: true, expr: interp.expressionInterpreter };
+  function Chart({ spec }: { spec: Spec }) {
+    return <mod.VegaEmbed spec={spec as never} options={options} />;
+  }
+  return { default: Chart };
 });
 
 class PlotBoundary extends Component<{ children: ReactNode }, { error: string | null }> {
@@ -22,11 +28,13 @@ class PlotBoundary extends Component<{ children: ReactNode }, { error: string | 
 }
 
 export function PlotFrame({ spec, label }: { spec: Spec; label: string }) {
+  // Reserve the chart's room while it loads so the page does not jump under the reader's pointer.
+  const minHeight = (typeof spec.height === 'number' ? spec.height : 180) + 60;
   return (
-    <figure aria-label={label} data-testid="plot" style={{ margin: 0 }}>
+    <figure aria-label={label} data-testid="plot" style={{ margin: 0, minHeight }}>
       <PlotBoundary>
-        <Suspense fallback={<div className="sl-cell-sub" style={{ height: 180 }}>Loading the plot…</div>}>
-          <LazyVega spec={spec as never} options={{ actions: false, renderer: 'svg' }} />
+        <Suspense fallback={<div className="sl-cell-sub" style={{ height: minHeight }}>Loading the plot…</div>}>
+          <LazyVega spec={spec} />
         </Suspense>
       </PlotBoundary>
     </figure>
