@@ -223,3 +223,10 @@ export function routePath(name: RouteName, params: Record<string, string> = {}):
     return encodeURIComponent(v);
   });
 }
+
+/** Client pages that links in e-mails and API answers point to. */
+export const clientPaths = {
+  share: (token: string) => `/s/${encodeURIComponent(token)}`,
+  acceptInvitation: (token: string) => `/invite/${encodeURIComponent(token)}`,
+  resetPassword: (token: string) => `/reset-password?token=${encodeURIComponent(token)}`,
+} as const;
