@@ -1,0 +1,15 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { callRoute } from '@/lib/api-client';
+import { queryKeys } from '@/lib/query-keys';
+
+export function removeMember({ workspaceId, userId }: { workspaceId: string; userId: string }) {
+  return callRoute('removeMember', { params: { workspaceId, userId } });
+}
+
+export function useRemoveMember() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: removeMember,
+    onSuccess: (_v, { workspaceId }) => qc.invalidateQueries({ queryKey: queryKeys.members(workspaceId) }),
+  });
+}

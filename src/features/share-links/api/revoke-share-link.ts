@@ -1,0 +1,16 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { callRoute } from '@/lib/api-client';
+import { queryKeys } from '@/lib/query-keys';
+
+export function revokeShareLink(p: { workspaceId: string; notebookId: string; linkId: string }) {
+  return callRoute('revokeShareLink', { params: p });
+}
+
+export function useRevokeShareLink() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: revokeShareLink,
+    onSuccess: (_v, { workspaceId, notebookId }) =>
+      qc.invalidateQueries({ queryKey: queryKeys.shareLinks(workspaceId, notebookId) }),
+  });
+}

@@ -1,0 +1,18 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { callRoute } from '@/lib/api-client';
+import { queryKeys } from '@/lib/query-keys';
+
+export function deleteWorkspace({ workspaceId }: { workspaceId: string }) {
+  return callRoute('deleteWorkspace', { params: { workspaceId } });
+}
+
+export function useDeleteWorkspace() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: deleteWorkspace,
+    onSuccess: (_void, { workspaceId }) => {
+      qc.removeQueries({ queryKey: queryKeys.workspace(workspaceId) });
+      return qc.invalidateQueries({ queryKey: queryKeys.workspaceList });
+    },
+  });
+}
