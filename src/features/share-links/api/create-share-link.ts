@@ -1,14 +1,9 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { createShareLinkBody, type CreateShareLinkBody } from '@shared/api';
+import { clientPaths, createShareLinkBody, type CreateShareLinkBody } from '@shared/api';
 import { callRoute } from '@/lib/api-client';
 import { queryKeys } from '@/lib/query-keys';
 
 export const createShareLinkInputSchema = createShareLinkBody;
-
-/** The client route that reads a shared notebook. */
-export function sharePath(token: string): string {
-  return `/s/${encodeURIComponent(token)}`;
-}
 
 export async function createShareLink({
   workspaceId,
@@ -16,7 +11,9 @@ export async function createShareLink({
   ...body
 }: CreateShareLinkBody & { workspaceId: string; notebookId: string }) {
   const res = await callRoute('createShareLink', { params: { workspaceId, notebookId }, body });
-  return { ...res, url: new URL(sharePath(res.token), window.location.origin).toString() };
+  // the answer names the client page to open; fall back to the shared table of client paths
+  const path = res.path || clientPaths.share(res.token);
+  return { ...res, url: new URL(path, window.location.origin).toString() };
 }
 
 export function useCreateShareLink() {
