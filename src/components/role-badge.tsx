@@ -8,11 +8,12 @@ export const ROLE_LABEL: Record<Role, string> = {
   viewer: 'Viewer',
 };
 
+/** What each role may do, as a phrase that follows "can …". */
 export const ROLE_DESCRIPTION: Record<Role, string> = {
-  owner: 'everything, plus members, roles, links and deleting the workspace',
-  editor: 'writes cells, runs fits, manages share links',
-  reviewer: 'reads and comments',
-  viewer: 'reads only',
+  owner: 'do everything, including members, roles, share links and deleting the workspace',
+  editor: 'write cells, run fits and manage share links',
+  reviewer: 'read and comment',
+  viewer: 'read only',
 };
 
 export function RoleBadge({ role }: { role: Role }) {

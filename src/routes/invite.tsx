@@ -83,7 +83,7 @@ function Accept({ token, here }: { token: string; here: string }) {
         <dt className="text-ink-faint">Role</dt>
         <dd>
           <span className="font-medium">{ROLE_LABEL[inv.role]}</span>{' '}
-          <span className="text-ink-soft">— {ROLE_DESCRIPTION[inv.role]}</span>
+          <span className="text-ink-soft">— can {ROLE_DESCRIPTION[inv.role]}</span>
         </dd>
         <dt className="text-ink-faint">Invited by</dt>
         <dd>{inv.invitedByName}</dd>

@@ -5,10 +5,12 @@ import { Logo } from '@/components/ui/logo';
 export default function NotFoundRoute() {
   return (
     <div className="min-h-screen px-6 py-10">
-      <Link to="/" aria-label="Slackline home">
-        <Logo />
-      </Link>
-      <NotFound />
+      <div className="mx-auto max-w-5xl">
+        <Link to="/" aria-label="Slackline home">
+          <Logo />
+        </Link>
+        <NotFound />
+      </div>
     </div>
   );
 }

@@ -60,7 +60,7 @@ export default function SharedNotebookRoute() {
               {shared.data.expiresAt ? (
                 <>
                   {' '}
-                  The link works until <span className="num">{formatDateTime(shared.data.expiresAt)}</span>.
+                  The link works until <span className="num whitespace-nowrap">{formatDateTime(shared.data.expiresAt)}</span>.
                 </>
               ) : null}
             </Banner>

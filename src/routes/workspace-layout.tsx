@@ -55,7 +55,7 @@ export default function WorkspaceLayout() {
                     Your role <RoleBadge role={w.role} />
                   </span>
                   <span className="text-ink-faint">
-                    since <span className="num">{formatDate(w.createdAt)}</span>
+                    created <span className="num">{formatDate(w.createdAt)}</span>
                   </span>
                 </>
               }

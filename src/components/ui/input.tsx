@@ -2,7 +2,7 @@ import { forwardRef, useId, type InputHTMLAttributes, type ReactNode, type Selec
 import { cn } from '@/lib/cn';
 
 const control =
-  'w-full rounded-md border bg-white px-3 h-10 text-sm text-ink placeholder:text-ink-faint/70 ' +
+  'w-full rounded-md border bg-white px-3 text-sm text-ink placeholder:text-ink-faint/70 ' +
   'transition-colors outline-none focus:border-ink focus:ring-2 focus:ring-ink/10';
 
 export type InputProps = InputHTMLAttributes<HTMLInputElement> & {
@@ -31,7 +31,7 @@ export const Input = forwardRef<HTMLInputElement, InputProps>(function Input(
         id={inputId}
         aria-invalid={error ? true : undefined}
         aria-describedby={[hintId, errorId].filter(Boolean).join(' ') || undefined}
-        className={cn(control, error ? 'border-notice' : 'border-rule-strong')}
+        className={cn(control, 'h-10', error ? 'border-notice' : 'border-rule-strong')}
         {...rest}
       />
       {hint && !error && (
@@ -82,7 +82,7 @@ export const Select = forwardRef<HTMLSelectElement, SelectProps>(function Select
         id={selectId}
         aria-invalid={error ? true : undefined}
         aria-describedby={errorId}
-        className={cn(control, 'pr-8', hideLabel && 'h-8 text-[0.8125rem]', error ? 'border-notice' : 'border-rule-strong')}
+        className={cn(control, 'pr-8', hideLabel ? 'h-8 text-[0.8125rem]' : 'h-10', error ? 'border-notice' : 'border-rule-strong')}
         {...rest}
       >
         {children}

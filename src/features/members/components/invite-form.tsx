@@ -57,7 +57,7 @@ export function InviteForm({ workspaceId }: { workspaceId: string }) {
           onChange={() => errors.onEdit('role')}
         >
           {INVITABLE_ROLES.map((r) => (
-            <option key={r} value={r} title={ROLE_DESCRIPTION[r]}>
+            <option key={r} value={r} title={`Can ${ROLE_DESCRIPTION[r]}`}>
               {ROLE_LABEL[r]}
             </option>
           ))}
@@ -67,8 +67,8 @@ export function InviteForm({ workspaceId }: { workspaceId: string }) {
         </Button>
       </div>
       <p className="text-xs text-ink-faint">
-        Editors {ROLE_DESCRIPTION.editor}; reviewers {ROLE_DESCRIPTION.reviewer}; viewers {ROLE_DESCRIPTION.viewer}. To
-        add an owner, invite them first and promote them once they have joined.
+        Editors can {ROLE_DESCRIPTION.editor}; reviewers can {ROLE_DESCRIPTION.reviewer}; viewers can{' '}
+        {ROLE_DESCRIPTION.viewer}. To add an owner, invite them first and promote them once they have joined.
       </p>
     </form>
   );
