@@ -44,7 +44,8 @@ function originOf(value: string | undefined): string | null {
 
 /** The origin this request was addressed to (honours trust proxy through req.protocol). */
 function ownOrigin(req: Request): string | null {
-  const host = req.get('host');
+  // req.host honours X-Forwarded-Host when trust proxy is on (Express 5 keeps the port).
+  const host = req.host;
   return host ? `${req.protocol}://${host}` : null;
 }
 

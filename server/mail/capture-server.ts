@@ -25,6 +25,7 @@ export function startCaptureServer(db: Db, port = 0, host = '127.0.0.1'): Promis
     authOptional: true,
     disabledCommands: ['STARTTLS', 'AUTH'],
     banner: 'Slackline mail capture',
+    disableReverseLookup: true,
     size: 5 * 1024 * 1024,
     logger: false,
     onData(stream, _session, callback) {
