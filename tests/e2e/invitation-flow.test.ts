@@ -11,12 +11,15 @@ import { launchBrowser, screenshotPath, type Browser } from './browser';
 let server: TestServer;
 let browser: Browser;
 let page: Page;
+const pageErrors: string[] = [];
 
 beforeAll(async () => {
   server = await startTestServer();
   browser = await launchBrowser();
   page = await browser.context.newPage();
   page.setDefaultTimeout(15_000);
+  // uncaught exceptions in the page fail the test at the end
+  page.on('pageerror', (e) => pageErrors.push(e.message));
 });
 
 afterAll(async () => {
@@ -128,5 +131,6 @@ describe('invitation flow', () => {
     expect(await page.getByRole('combobox').count()).toBe(0);
     const anaRow = page.getByTestId('member-ana@orchard.test');
     expect(await anaRow.textContent()).toContain('Owner');
+    expect(pageErrors).toEqual([]);
   });
 });

@@ -12,6 +12,7 @@ import { launchBrowser, screenshotPath, type Browser } from './browser';
 let server: TestServer;
 let browser: Browser;
 let page: Page;
+const pageErrors: string[] = [];
 
 beforeAll(async () => {
   server = await startTestServer();
@@ -19,6 +20,8 @@ beforeAll(async () => {
   await browser.context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: server.url });
   page = await browser.context.newPage();
   page.setDefaultTimeout(15_000);
+  // uncaught exceptions in the page fail the test at the end
+  page.on('pageerror', (e) => pageErrors.push(e.message));
 });
 
 afterAll(async () => {
@@ -96,5 +99,6 @@ describe('share links', () => {
     await page.goto(`${server.url}/no/such/page`);
     await page.getByRole('heading', { name: 'Nothing at this address' }).waitFor();
     await page.screenshot({ path: await screenshotPath('not-found.png') });
+    expect(pageErrors).toEqual([]);
   });
 });
