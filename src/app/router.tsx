@@ -1,3 +1,4 @@
+import type { ComponentType } from 'react';
 import type { QueryClient } from '@tanstack/react-query';
 import { createBrowserRouter, redirect, type LoaderFunctionArgs, type RouteObject } from 'react-router-dom';
 import { AppShell } from '@/components/layout/app-shell';
@@ -7,7 +8,7 @@ import { RouteError } from '@/routes/route-error';
 import { safeNext, withNext } from '@/lib/safe-next';
 import { RootLayout } from './root-layout';
 
-type RouteModule = { default: React.ComponentType; makeLoader?: (qc: QueryClient) => RouteObject['loader'] };
+type RouteModule = { default: ComponentType; makeLoader?: (qc: QueryClient) => RouteObject['loader'] };
 
 /** Lazy route: the page's code is fetched on first visit; its loader prefetches through the query client. */
 const lazyRoute = (qc: QueryClient, load: () => Promise<RouteModule>) => async () => {
@@ -62,6 +63,7 @@ export function createRoutes(qc: QueryClient): RouteObject[] {
               children: [
                 { index: true, lazy: lazy(() => import('@/routes/workspace-notebooks')) },
                 { path: 'members', lazy: lazy(() => import('@/routes/workspace-members')) },
+                { path: 'activity', lazy: lazy(() => import('@/routes/workspace-activity')) },
               ],
             },
             { path: '/w/:workspaceId/n/:notebookId', lazy: lazy(() => import('@/routes/notebook')) },

@@ -8,6 +8,7 @@ export const queryKeys = {
   workspace: (workspaceId: string) => ['workspace', workspaceId] as const,
   members: (workspaceId: string) => ['workspace', workspaceId, 'members'] as const,
   invitations: (workspaceId: string) => ['workspace', workspaceId, 'invitations'] as const,
+  audit: (workspaceId: string) => ['workspace', workspaceId, 'audit'] as const,
   notebookList: (workspaceId: string) => ['workspace', workspaceId, 'notebook-list'] as const,
   notebook: (workspaceId: string, notebookId: string) => ['workspace', workspaceId, 'notebook', notebookId] as const,
   shareLinks: (workspaceId: string, notebookId: string) =>

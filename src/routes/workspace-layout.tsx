@@ -79,6 +79,11 @@ export default function WorkspaceLayout() {
               <NavLink to={`/w/${w.id}/members`} className={tab}>
                 Members
               </NavLink>
+              {isOwner && (
+                <NavLink to={`/w/${w.id}/activity`} className={tab}>
+                  Activity
+                </NavLink>
+              )}
             </nav>
             <Outlet context={w} />
             {isOwner && (

@@ -77,6 +77,10 @@ describe('invitation flow', () => {
     // the owner is the only owner: the page says so instead of offering a demotion
     await page.getByText('Only owner — cannot step down').waitFor();
 
+    // the invitation is on the workspace's activity record
+    await page.getByRole('link', { name: 'Activity' }).click();
+    await page.getByText('invited bo@orchard.test as Reviewer').waitFor();
+
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.waitForURL(/\/sign-in$/);
 
