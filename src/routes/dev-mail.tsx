@@ -2,6 +2,7 @@ import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import type { CapturedMail } from '@shared/api';
 import { PageHeader } from '@/components/layout/page-header';
+import { PageTitle } from '@/components/page-title';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
 import { EmptyState } from '@/components/ui/empty-state';
@@ -72,6 +73,7 @@ export default function DevMailRoute() {
 
   return (
     <div className="min-h-screen px-6 py-10">
+      <PageTitle>Captured mail</PageTitle>
       <div className="mx-auto flex max-w-4xl flex-col gap-8">
         <Link to="/" aria-label="Slackline home" className="self-start">
           <Logo />

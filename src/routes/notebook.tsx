@@ -3,6 +3,7 @@ import type { QueryClient } from '@tanstack/react-query';
 import { Link, useNavigate, useParams, type LoaderFunctionArgs } from 'react-router-dom';
 import { roleAtLeast } from '@shared/api';
 import { PageHeader } from '@/components/layout/page-header';
+import { PageTitle } from '@/components/page-title';
 import { QueryState } from '@/components/query-state';
 import { RoleBadge } from '@/components/role-badge';
 import { Button } from '@/components/ui/button';
@@ -37,6 +38,7 @@ export default function NotebookRoute() {
         const canEdit = roleAtLeast(role, 'editor');
         return (
           <div className="flex flex-col gap-8">
+            <PageTitle>{notebook.title}</PageTitle>
             <PageHeader
               eyebrow={
                 <Link to={`/w/${workspaceId}`} className="hover:text-ink">

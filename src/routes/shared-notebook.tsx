@@ -1,5 +1,6 @@
 import type { QueryClient } from '@tanstack/react-query';
 import { Link, useParams, type LoaderFunctionArgs } from 'react-router-dom';
+import { PageTitle } from '@/components/page-title';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
 import { LoadingBlock } from '@/components/ui/spinner';
@@ -54,6 +55,7 @@ export default function SharedNotebookRoute() {
           )
         ) : (
           <>
+            <PageTitle>{`${shared.data.notebook.title} (read-only)`}</PageTitle>
             <Banner tone="info" title="Read-only view" role="status">
               You are reading this notebook through a share link from the workspace “{shared.data.workspaceName}”. Nothing
               here can be changed.

@@ -3,6 +3,7 @@ import type { QueryClient } from '@tanstack/react-query';
 import { NavLink, Outlet, useNavigate, useParams, type LoaderFunctionArgs } from 'react-router-dom';
 import { roleAtLeast } from '@shared/api';
 import { PageHeader } from '@/components/layout/page-header';
+import { PageTitle } from '@/components/page-title';
 import { QueryState } from '@/components/query-state';
 import { RoleBadge } from '@/components/role-badge';
 import { Button } from '@/components/ui/button';
@@ -46,6 +47,7 @@ export default function WorkspaceLayout() {
         const isOwner = roleAtLeast(w.role, 'owner');
         return (
           <div className="flex flex-col gap-8">
+            <PageTitle>{w.name}</PageTitle>
             <PageHeader
               eyebrow="Workspace"
               title={w.name}

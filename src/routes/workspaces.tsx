@@ -1,6 +1,7 @@
 import type { QueryClient } from '@tanstack/react-query';
 import { useNavigate } from 'react-router-dom';
 import { PageHeader, Section } from '@/components/layout/page-header';
+import { PageTitle } from '@/components/page-title';
 import { QueryState } from '@/components/query-state';
 import { useMe } from '@/features/auth/api/get-me';
 import { useWorkspaces, workspacesQueryOptions } from '@/features/workspaces/api/get-workspaces';
@@ -19,6 +20,7 @@ export default function WorkspacesRoute() {
   const firstName = me.data?.name.split(/\s+/)[0];
   return (
     <div className="flex flex-col gap-10">
+      <PageTitle>Workspaces</PageTitle>
       <PageHeader
         eyebrow="Workspaces"
         title={firstName ? `Good to see you, ${firstName}` : 'Your workspaces'}

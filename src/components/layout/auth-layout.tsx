@@ -2,11 +2,13 @@ import type { ReactNode } from 'react';
 import { Link } from 'react-router-dom';
 import { Logo } from '@/components/ui/logo';
 import { FeasibleFigure } from '@/components/feasible-figure';
+import { PageTitle } from '@/components/page-title';
 
 /** Sign-in, sign-up and password pages: a form on a sheet beside the region-and-draws figure. */
 export function AuthLayout({ title, subtitle, children, footer }: { title: string; subtitle?: ReactNode; children: ReactNode; footer?: ReactNode }) {
   return (
     <div className="min-h-screen px-6 py-10">
+      <PageTitle>{title}</PageTitle>
       <div className="mx-auto flex max-w-5xl flex-col gap-12">
         <Link to="/" className="self-start" aria-label="Slackline home">
           <Logo />
