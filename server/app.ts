@@ -35,10 +35,11 @@ export function createApp(deps: AppDeps): Express {
     next();
   });
   app.use('/api', originCheck(config));
+  // Health and dev mail need no session: health must answer even when sessions cannot be read.
+  app.use(systemRouter(ctx));
   app.use('/api', sessionMiddleware(ctx));
 
   // One router per resource; each registers full /api/... paths from the shared route table.
-  app.use(systemRouter(ctx));
   app.use(authRouter(ctx));
   app.use(workspacesRouter(ctx));
   app.use(membersRouter(ctx));

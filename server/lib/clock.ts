@@ -4,19 +4,28 @@ export interface Clock {
 }
 export const systemClock: Clock = { now: () => new Date() };
 
-/** A clock tests can set and advance. */
+/**
+ * A clock tests can move. By default it ticks with real time from its start value, so ordering
+ * by time still works; `advance(ms)` jumps ahead (or back), `set(date)` jumps to a moment.
+ * With `{ frozen: true }` it stands still except when moved.
+ */
 export class ManualClock implements Clock {
-  private t: number;
-  constructor(start: Date | number = Date.now()) {
-    this.t = typeof start === 'number' ? start : start.getTime();
+  private base: number;
+  private realStart = Date.now();
+  private readonly frozen: boolean;
+
+  constructor(start: Date | number = Date.now(), opts: { frozen?: boolean } = {}) {
+    this.base = typeof start === 'number' ? start : start.getTime();
+    this.frozen = opts.frozen ?? false;
   }
   now(): Date {
-    return new Date(this.t);
+    return new Date(this.base + (this.frozen ? 0 : Date.now() - this.realStart));
   }
   advance(ms: number): void {
-    this.t += ms;
+    this.base += ms;
   }
   set(date: Date | number): void {
-    this.t = typeof date === 'number' ? date : date.getTime();
+    this.base = typeof date === 'number' ? date : date.getTime();
+    this.realStart = Date.now();
   }
 }

@@ -10,7 +10,7 @@
  *   options: {
  *     serveClient?: boolean             // default true; false for API-only integration tests
  *     clientDir?: string                // default <repo>/dist/client
- *     clock?: Clock                     // default a ManualClock at the real time (tests may advance it)
+ *     clock?: ManualClock               // default: ticks with real time; tests may advance() or set() it
  *     config?: Partial<AppConfig>       // e.g. { authRateLimit: { windowMs: 60_000, limit: 3 } }
  *   }
  *
