@@ -93,7 +93,9 @@ describe('invitation flow', () => {
     await page.goto(`${server.url}/dev/mail`);
     await page.getByRole('heading', { name: 'Captured mail' }).waitFor();
     const message = page.getByRole('article').filter({ hasText: 'bo@orchard.test' }).first();
-    expect(await message.getByRole('link', { name: link }).count()).toBe(1);
+    const mailLink = message.getByRole('link', { name: link });
+    await mailLink.waitFor();
+    expect(await mailLink.getAttribute('href')).toBe(new URL(link).pathname);
 
     // ---- the member ----
     await page.goto(link);
