@@ -4,7 +4,7 @@ import { cn } from '@/lib/cn';
 /** A ruled table on a sheet; numbers in cells marked `numeric` use tabular figures. */
 export function Table({ children, className, caption }: { children: ReactNode; className?: string; caption?: string }) {
   return (
-    <div className={cn('sheet overflow-x-auto', className)}>
+    <div className={cn('sheet relative overflow-x-auto', className)}>
       <table className="w-full border-collapse text-sm">
         {caption && <caption className="sr-only">{caption}</caption>}
         {children}
