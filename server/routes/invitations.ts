@@ -102,7 +102,7 @@ export function invitationsRouter(ctx: AppContext): Router {
       );
     } catch (err) {
       // Without the mail the invitation is useless: take it back and say so.
-      await db.update(invitations).set({ revokedAt: clock.now() }).where(eq(invitations.id, row.id));
+      await db.update(invitations).set({ revokedAt: clock.now() }).where(and(eq(invitations.workspaceId, ws.id), eq(invitations.id, row.id)));
       if (ctx.config.logErrors) console.error('[slackline] could not send invitation mail:', err);
       throw new HttpError(503, 'service_unavailable', 'The invitation e-mail could not be sent; try again later');
     }
@@ -119,7 +119,10 @@ export function invitationsRouter(ctx: AppContext): Router {
         .where(and(eq(invitations.id, params.invitationId), pending(ws.id, now)))
         .for('update');
       if (!inv) throw notFound('No such pending invitation');
-      await tx.update(invitations).set({ revokedAt: now }).where(eq(invitations.id, inv.id));
+      await tx
+        .update(invitations)
+        .set({ revokedAt: now })
+        .where(and(eq(invitations.workspaceId, ws.id), eq(invitations.id, inv.id)));
       await audit(tx, {
         workspaceId: ws.id, actorId: req.user!.id, action: 'invitation.revoked', targetType: 'invitation',
         targetId: inv.id, detail: { email: inv.email }, at: now,
@@ -177,10 +180,20 @@ export function invitationsRouter(ctx: AppContext): Router {
       const [locked] = await tx
         .select()
         .from(invitations)
-        .where(and(eq(invitations.id, inv.id), isNull(invitations.acceptedAt), isNull(invitations.revokedAt)))
+        .where(
+          and(
+            eq(invitations.workspaceId, inv.workspaceId),
+            eq(invitations.id, inv.id),
+            isNull(invitations.acceptedAt),
+            isNull(invitations.revokedAt),
+          ),
+        )
         .for('update');
       if (!locked) throw invalidInvitation();
-      await tx.update(invitations).set({ acceptedAt: now, acceptedBy: user.id }).where(eq(invitations.id, inv.id));
+      await tx
+        .update(invitations)
+        .set({ acceptedAt: now, acceptedBy: user.id })
+        .where(and(eq(invitations.workspaceId, inv.workspaceId), eq(invitations.id, inv.id)));
       const [existing] = await tx
         .select()
         .from(memberships)

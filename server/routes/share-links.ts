@@ -85,7 +85,10 @@ export function shareLinksRouter(ctx: AppContext): Router {
         )
         .for('update');
       if (!link) throw notFound('No such active share link');
-      await tx.update(shareLinks).set({ revokedAt: now }).where(eq(shareLinks.id, link.id));
+      await tx
+        .update(shareLinks)
+        .set({ revokedAt: now })
+        .where(and(eq(shareLinks.workspaceId, ws.id), eq(shareLinks.id, link.id)));
       await audit(tx, {
         workspaceId: ws.id, actorId: req.user!.id, action: 'share_link.revoked', targetType: 'share_link',
         targetId: link.id, detail: { notebookId: link.notebookId }, at: now,
