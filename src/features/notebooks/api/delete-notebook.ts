@@ -1,6 +1,10 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { notebookParams } from '@shared/api';
 import { callRoute } from '@/lib/api-client';
 import { queryKeys } from '@/lib/query-keys';
+
+/** Path parameters only; this is the schema the server validates them with. */
+export const deleteNotebookInputSchema = notebookParams;
 
 export function deleteNotebook({ workspaceId, notebookId }: { workspaceId: string; notebookId: string }) {
   return callRoute('deleteNotebook', { params: { workspaceId, notebookId } });
