@@ -17,8 +17,11 @@ beforeAll(async () => {
   browser = await launchBrowser();
   page = await browser.context.newPage();
   page.setDefaultTimeout(15_000);
-  // uncaught exceptions in the page fail the test at the end
+  // uncaught exceptions and refused resources (content security policy) fail the test at the end
   page.on('pageerror', (e) => pageErrors.push(e.message));
+  page.on('console', (m) => {
+    if (m.type() === 'error' && /Content Security Policy|Refused to/i.test(m.text())) pageErrors.push(m.text());
+  });
 });
 
 afterAll(async () => {
