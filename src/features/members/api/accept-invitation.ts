@@ -14,9 +14,9 @@ export function useAcceptInvitation() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: acceptInvitation,
-    onSuccess: (workspace, { token }) => {
+    // the preview stays cached as it is: dropping it would refetch a token that is now used up
+    onSuccess: (workspace) => {
       qc.setQueryData(queryKeys.workspace(workspace.id), workspace);
-      qc.removeQueries({ queryKey: queryKeys.invitationPreview(token) });
       return qc.invalidateQueries({ queryKey: queryKeys.workspaceList });
     },
   });
