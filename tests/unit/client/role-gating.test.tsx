@@ -126,6 +126,8 @@ describe('workspace page', () => {
     fireEvent.click(confirm);
     expect(await screen.findByText('home')).toBeTruthy();
     expect(seen.some((r) => r.method === 'DELETE' && r.url === '/api/workspaces/w1')).toBe(true);
+    // the deleted workspace is not fetched again on the way out
+    expect(seen.filter((r) => r.method === 'GET' && r.url === '/api/workspaces/w1')).toHaveLength(1);
   });
 
   it('says plainly when the workspace is not visible', async () => {

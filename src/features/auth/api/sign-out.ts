@@ -11,8 +11,9 @@ export function useSignOut() {
   return useMutation({
     mutationFn: signOut,
     onSuccess: () => {
-      qc.removeQueries({ predicate: (q) => q.queryKey[0] !== 'me' });
+      // nobody first, so a refetch of the page being left is not taken for a lost session
       qc.setQueryData(queryKeys.me, null);
+      qc.removeQueries({ predicate: (q) => q.queryKey[0] !== 'me' });
     },
   });
 }

@@ -15,7 +15,8 @@ export function useLeaveWorkspace() {
   return useMutation({
     mutationFn: leaveWorkspace,
     onSuccess: (_v, { workspaceId }) => {
-      qc.removeQueries({ queryKey: queryKeys.workspace(workspaceId) });
+      // only when no page shows it any more: removing a watched query would refetch a workspace we just left
+      qc.removeQueries({ queryKey: queryKeys.workspace(workspaceId), type: 'inactive' });
       return qc.invalidateQueries({ queryKey: queryKeys.workspaceList });
     },
   });

@@ -15,7 +15,8 @@ export function useDeleteNotebook() {
   return useMutation({
     mutationFn: deleteNotebook,
     onSuccess: (_v, { workspaceId, notebookId }) => {
-      qc.removeQueries({ queryKey: queryKeys.notebook(workspaceId, notebookId) });
+      // only when no page shows it any more: removing a watched query would refetch a deleted notebook
+      qc.removeQueries({ queryKey: queryKeys.notebook(workspaceId, notebookId), type: 'inactive' });
       return qc.invalidateQueries({ queryKey: queryKeys.notebookList(workspaceId) });
     },
   });

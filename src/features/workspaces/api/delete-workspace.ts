@@ -15,7 +15,8 @@ export function useDeleteWorkspace() {
   return useMutation({
     mutationFn: deleteWorkspace,
     onSuccess: (_void, { workspaceId }) => {
-      qc.removeQueries({ queryKey: queryKeys.workspace(workspaceId) });
+      // only when no page shows it any more: removing a watched query would refetch a deleted workspace
+      qc.removeQueries({ queryKey: queryKeys.workspace(workspaceId), type: 'inactive' });
       return qc.invalidateQueries({ queryKey: queryKeys.workspaceList });
     },
   });
