@@ -10,6 +10,9 @@ import { createDb, DEFAULT_DATABASE_URL, pingDb } from './db/client';
 import { startCaptureServer, type CaptureServer } from './mail/capture-server';
 import { createSmtpMailer } from './mail/mailer';
 import { systemClock } from './lib/clock';
+import { createLucia } from './auth/lucia';
+import { passwordResets } from './db/schema';
+import { lt } from 'drizzle-orm';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
@@ -39,10 +42,21 @@ async function main() {
     process.exit(1);
   });
 
+  // Hourly housekeeping: expired sessions and reset tokens are of no use to anyone.
+  const lucia = createLucia(handle.db);
+  const housekeeping = setInterval(() => {
+    Promise.all([
+      lucia.deleteExpiredSessions(),
+      handle.db.delete(passwordResets).where(lt(passwordResets.expiresAt, new Date(Date.now() - 86_400_000))),
+    ]).catch((err: unknown) => console.error('[slackline] housekeeping failed:', err));
+  }, 3_600_000);
+  housekeeping.unref();
+
   let stopping = false;
   const stop = (signal: string) => {
     if (stopping) return;
     stopping = true;
+    clearInterval(housekeeping);
     console.log(`[slackline] ${signal}: stopping`);
     server.close();
     server.closeAllConnections();
