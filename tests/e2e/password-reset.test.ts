@@ -48,6 +48,8 @@ describe('password reset', () => {
     await page.waitForURL(/\/sign-in$/);
 
     await page.getByRole('link', { name: 'Forgot your password?' }).click();
+    // the sign-in form has an E-mail field too: fill only once the new page is there
+    await page.getByRole('heading', { name: 'Forgot your password?' }).waitFor();
     await page.getByLabel('E-mail').fill('mina@sediment.test');
     await page.getByRole('button', { name: 'Send reset link' }).click();
     await page.getByText('Check your inbox').waitFor();
