@@ -53,6 +53,7 @@ export function authRouter(ctx: AppContext): Router {
       if (isDuplicateKey(err)) throw conflict('An account with this e-mail already exists', { email: 'Already registered' });
       throw err;
     }
+    if (req.sessionId) await lucia.invalidateSession(req.sessionId);
     const session = await lucia.createSession(user.id, {});
     setSessionCookie(req, res, session.id, session.expiresAt);
     return { user: toUser(user) };
