@@ -57,6 +57,6 @@ export function configFromEnv(env: NodeJS.ProcessEnv, clientDir: string | null):
     },
     clientDir,
     mailFrom: env.MAIL_FROM ?? 'Slackline <no-reply@slackline.invalid>',
-    checkResponses: env.NODE_ENV !== 'production',
+    checkResponses: env.NODE_ENV === 'test' || env.CHECK_RESPONSES === 'true',
   });
 }
