@@ -1,5 +1,7 @@
-import { useCallback, useEffect, useMemo, useState } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { errorMessage, isApiError } from './api-client';
+
+const EMPTY: ReadonlySet<string> = new Set();
 
 /**
  * Field and form messages for a form driven by one mutation.
@@ -7,22 +9,31 @@ import { errorMessage, isApiError } from './api-client';
  * - `field(name)` gives the message for a field until the user edits that field again.
  * - `formMessage` is the sentence to show above the form when the error is not (only) about the
  *   form's own fields: a conflict, a rate limit, a network failure, a field the form does not have.
+ * - `formRef`, attached to the <form>, moves the focus to the first field marked invalid after a
+ *   failed submit, so keyboard and screen-reader users land on what needs fixing.
  */
 export function useFormErrors(error: unknown, fieldNames: readonly string[]) {
-  const [edited, setEdited] = useState<ReadonlySet<string>>(new Set());
-  useEffect(() => setEdited(new Set()), [error]);
+  // fields edited since *this* error arrived; a new error starts with none edited
+  const [edited, setEdited] = useState<{ error: unknown; names: ReadonlySet<string> }>({ error, names: EMPTY });
+  const names = edited.error === error ? edited.names : EMPTY;
+  const formRef = useRef<HTMLFormElement>(null);
+  useEffect(() => {
+    if (!error) return;
+    formRef.current?.querySelector<HTMLElement>('[aria-invalid="true"]')?.focus();
+  }, [error]);
 
   const fields = isApiError(error) ? error.fields : {};
-  const field = useCallback((name: string) => (edited.has(name) ? undefined : fields[name]), [edited, fields]);
+  const field = useCallback((name: string) => (names.has(name) ? undefined : fields[name]), [names, fields]);
   const onEdit = useCallback(
     (name: string) =>
       setEdited((s) => {
-        if (s.has(name)) return s;
-        const next = new Set(s);
+        const current = s.error === error ? s.names : EMPTY;
+        if (current.has(name)) return s.error === error ? s : { error, names: current };
+        const next = new Set(current);
         next.add(name);
-        return next;
+        return { error, names: next };
       }),
-    [],
+    [error],
   );
 
   const formMessage = useMemo(() => {
@@ -35,7 +46,7 @@ export function useFormErrors(error: unknown, fieldNames: readonly string[]) {
     return undefined;
   }, [error, fieldNames]);
 
-  return { field, onEdit, formMessage };
+  return { field, onEdit, formMessage, formRef };
 }
 
 /** Reads a form's named inputs as strings. */

@@ -29,6 +29,18 @@ describe('sign-up form', () => {
     expect(screen.getByText('Required')).toBeTruthy(); // the empty name
     expect(screen.getByLabelText('E-mail').getAttribute('aria-invalid')).toBe('true');
     expect(fn).not.toHaveBeenCalled();
+
+  });
+
+  it('moves the focus to the first field that needs fixing', async () => {
+    mockFetch({});
+    renderWithProviders(<SignUpForm onSuccess={() => {}} />);
+    fill('Your name', 'Ana');
+    fill('E-mail', 'ana-at-example');
+    fill('Password', 'long enough password');
+    fireEvent.click(screen.getByRole('button', { name: 'Create account' }));
+    await screen.findByText('Not a valid e-mail address');
+    await waitFor(() => expect(document.activeElement).toBe(screen.getByLabelText('E-mail')));
   });
 
   it('puts a server field error under its field and clears it when the field is edited', async () => {

@@ -20,6 +20,7 @@ export function ForgotPasswordForm() {
   }
   return (
     <form
+      ref={errors.formRef}
       noValidate
       className="flex flex-col gap-4"
       onSubmit={(e) => {

@@ -33,6 +33,7 @@ export function ResetPasswordForm({ token }: { token: string }) {
 
   return (
     <form
+      ref={errors.formRef}
       noValidate
       className="flex flex-col gap-4"
       onSubmit={(e) => {

@@ -12,6 +12,7 @@ export function SignInForm({ onSuccess }: { onSuccess: () => void }) {
   const errors = useFormErrors(signIn.error, FIELDS);
   return (
     <form
+      ref={errors.formRef}
       noValidate
       className="flex flex-col gap-4"
       onSubmit={(e) => {

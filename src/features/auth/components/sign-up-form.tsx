@@ -11,6 +11,7 @@ export function SignUpForm({ onSuccess, defaultEmail }: { onSuccess: () => void;
   const errors = useFormErrors(signUp.error, FIELDS);
   return (
     <form
+      ref={errors.formRef}
       noValidate
       className="flex flex-col gap-4"
       onSubmit={(e) => {

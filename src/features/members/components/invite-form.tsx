@@ -1,4 +1,3 @@
-import { useRef } from 'react';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
 import { Input, Select } from '@/components/ui/input';
@@ -11,10 +10,9 @@ const FIELDS = ['email', 'role'] as const;
 export function InviteForm({ workspaceId }: { workspaceId: string }) {
   const invite = useCreateInvitation();
   const errors = useFormErrors(invite.error, FIELDS);
-  const formRef = useRef<HTMLFormElement>(null);
   return (
     <form
-      ref={formRef}
+      ref={errors.formRef}
       noValidate
       aria-label="Invite by e-mail"
       className="flex flex-col gap-3"
@@ -23,7 +21,7 @@ export function InviteForm({ workspaceId }: { workspaceId: string }) {
         const v = formValues(e.currentTarget);
         invite.mutate(
           { workspaceId, email: v.email ?? '', role: (v.role ?? 'viewer') as (typeof INVITABLE_ROLES)[number] },
-          { onSuccess: () => formRef.current?.reset() },
+          { onSuccess: () => errors.formRef.current?.reset() },
         );
       }}
     >

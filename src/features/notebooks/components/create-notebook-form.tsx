@@ -1,4 +1,3 @@
-import { useRef } from 'react';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
 import { Input } from '@/components/ui/input';
@@ -10,10 +9,9 @@ const FIELDS = ['title'] as const;
 export function CreateNotebookForm({ workspaceId }: { workspaceId: string }) {
   const create = useCreateNotebook();
   const errors = useFormErrors(create.error, FIELDS);
-  const formRef = useRef<HTMLFormElement>(null);
   return (
     <form
-      ref={formRef}
+      ref={errors.formRef}
       noValidate
       aria-label="Create a notebook"
       className="flex flex-col gap-3"
@@ -21,7 +19,7 @@ export function CreateNotebookForm({ workspaceId }: { workspaceId: string }) {
         e.preventDefault();
         create.mutate(
           { workspaceId, title: formValues(e.currentTarget).title ?? '' },
-          { onSuccess: () => formRef.current?.reset() },
+          { onSuccess: () => errors.formRef.current?.reset() },
         );
       }}
     >

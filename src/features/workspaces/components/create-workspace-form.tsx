@@ -1,4 +1,3 @@
-import { useRef } from 'react';
 import type { Workspace } from '@shared/api';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
@@ -11,10 +10,9 @@ const FIELDS = ['name'] as const;
 export function CreateWorkspaceForm({ onCreated }: { onCreated?: (w: Workspace) => void }) {
   const create = useCreateWorkspace();
   const errors = useFormErrors(create.error, FIELDS);
-  const formRef = useRef<HTMLFormElement>(null);
   return (
     <form
-      ref={formRef}
+      ref={errors.formRef}
       noValidate
       aria-label="Create a workspace"
       className="flex flex-col gap-3"
@@ -24,7 +22,7 @@ export function CreateWorkspaceForm({ onCreated }: { onCreated?: (w: Workspace) 
           { name: formValues(e.currentTarget).name ?? '' },
           {
             onSuccess: (w) => {
-              formRef.current?.reset();
+              errors.formRef.current?.reset();
               onCreated?.(w);
             },
           },
