@@ -46,7 +46,7 @@ describe('share links', () => {
 
     // field error from the shared schema: an empty title
     await page.getByRole('button', { name: 'Create notebook' }).click();
-    await page.getByText('Required').waitFor();
+    await page.getByText('Required', { exact: true }).waitFor();
     await page.getByLabel('New notebook title').fill('Blend shares on the simplex');
     await page.getByRole('button', { name: 'Create notebook' }).click();
     await page.getByRole('link', { name: 'Blend shares on the simplex' }).click();
@@ -68,7 +68,7 @@ describe('share links', () => {
     await dialog.getByRole('button', { name: 'Copy link' }).click();
     await dialog.getByText('The link is on your clipboard.').waitFor();
     expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(shareUrl);
-    await dialog.getByText('Active').waitFor();
+    await dialog.getByText('Active', { exact: true }).waitFor();
     await page.screenshot({ path: await screenshotPath('share-links.png') });
     await dialog.getByRole('button', { name: 'Done' }).click();
 
@@ -94,7 +94,7 @@ describe('share links', () => {
     await page.goto(`${server.url}${notebookPath}`);
     await page.getByRole('button', { name: 'Share links' }).click();
     await page.getByRole('dialog').getByRole('button', { name: 'Revoke' }).click();
-    await page.getByRole('dialog').getByText('Revoked').waitFor();
+    await page.getByRole('dialog').getByText('Revoked', { exact: true }).waitFor();
 
     await page.goto(shareUrl);
     await page.getByRole('heading', { name: 'This link does not open anything' }).waitFor();
