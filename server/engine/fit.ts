@@ -1,0 +1,369 @@
+/**
+ * Fit orchestration: from a target spec and settings to draws, diagnostics and a verdict.
+ *
+ *   spec → target (compile the program, or import the module factory) → prepare (presolve, centre)
+ *   → sampler (settings, or the automatic choice with its reason) → dispersed starts
+ *   → chains (worker threads, at most os.availableParallelism() at once; or in-process)
+ *   → constraint check of every draw → summaries, run diagnostics, verdict → schema validation.
+ *
+ * Reproducibility: the starts come from one seeded stream in the main thread and every chain runs
+ * with (seed, chain index), so the same seed gives identical draws whether the chains run in
+ * workers, in-process, or with any number of workers.
+ */
+import { Worker } from 'node:worker_threads';
+import os from 'node:os';
+import {
+  fitSettingsSchema,
+  fitSummarySchema,
+  FIT_LIMITS,
+  type FitProgress,
+  type FitSettings,
+  type FitSummary,
+  type QuantitySummary,
+} from '../../shared/fit';
+import type { ChainResult, FitResult, SamplerName, TargetSpec } from './types';
+import { Rng } from './rng';
+import { dispersedStarts, type PreparedTarget } from './geometry';
+import { chooseSampler } from './samplers';
+import { findMode } from './mode';
+import { efmi, judgeRun, summarizeQuantity } from './diagnostics';
+import { preparedFor, runChainOnPrepared, type ChainJob } from './fit-worker';
+
+export interface RunFitOptions {
+  onProgress?(p: FitProgress): void;
+  signal?: AbortSignal;
+  /** Run chains on worker threads (default true). false runs them one after another in-process. */
+  parallel?: boolean;
+  /** Also compute the maximum a posteriori point (default false). */
+  computeMode?: boolean;
+  /** Cap on concurrent workers (default os.availableParallelism()). */
+  maxWorkers?: number;
+}
+
+/** Seed stream of the dispersed starts; chains use their own streams inside the samplers. */
+const STARTS_STREAM = 0x5eed;
+
+/** Tolerance of the constraint check on returned draws, relative to the row's scale. */
+const CONSTRAINT_TOL = 1e-7;
+
+export class FitCancelledError extends Error {
+  constructor() {
+    super('The fit was cancelled.');
+    this.name = 'AbortError';
+  }
+}
+
+export async function runFit(
+  spec: TargetSpec,
+  settingsIn: Partial<FitSettings>,
+  opts: RunFitOptions = {},
+): Promise<FitResult> {
+  const started = performance.now();
+  const settings = fitSettingsSchema.parse(settingsIn);
+  if (opts.signal?.aborted) throw new FitCancelledError();
+
+  const p = await preparedFor(spec);
+  const target = p.target;
+  if (target.dim > FIT_LIMITS.dimension) {
+    throw new Error(`The model has ${target.dim} unknowns; a fit allows at most ${FIT_LIMITS.dimension}.`);
+  }
+
+  let sampler: SamplerName;
+  let samplerReason: string;
+  if (settings.sampler === 'auto') {
+    const choice = chooseSampler(p);
+    sampler = choice.sampler;
+    samplerReason = choice.reason;
+  } else {
+    sampler = settings.sampler;
+    samplerReason = `Chosen in the fit settings (${settings.sampler}).`;
+  }
+
+  const starts = dispersedStarts(p, settings.chains, new Rng(settings.seed, STARTS_STREAM));
+  const jobs: ChainJob[] = starts.map((start, chain) => ({
+    spec,
+    sampler,
+    start: Array.from(start),
+    warmup: settings.warmup,
+    draws: settings.draws,
+    seed: settings.seed,
+    chain,
+  }));
+
+  const progress = makeProgressReporter(settings, opts.onProgress);
+  const chains =
+    opts.parallel === false
+      ? await runInProcess(p, jobs, progress, opts.signal)
+      : await runOnWorkers(jobs, progress, opts.signal, opts.maxWorkers);
+  chains.sort((a, b) => a.chain - b.chain);
+
+  checkConstraints(p, chains);
+
+  const summary = summarise(p, chains, settings, sampler, samplerReason);
+  if (opts.computeMode) {
+    const mode = findMode(p);
+    summary.mode = Object.fromEntries(target.names.map((n, i) => [n, mode.theta[i]]));
+  }
+  summary.seconds = (performance.now() - started) / 1000;
+  return {
+    unknownNames: target.names.slice(),
+    derivedNames: target.derived?.names.slice() ?? [],
+    chains,
+    summary: fitSummarySchema.parse(summary),
+  };
+}
+
+/* ------------------------------------------------------------------------------------------ */
+/* Progress                                                                                     */
+/* ------------------------------------------------------------------------------------------ */
+
+type ChainProgress = (chain: number, phase: 'warmup' | 'sampling' | 'done', iteration: number) => void;
+
+/**
+ * Turns the samplers' (phase, iteration-within-phase) calls into FitProgress records counting
+ * iterations over warm-up and sampling together.
+ */
+function makeProgressReporter(settings: FitSettings, onProgress?: (p: FitProgress) => void): ChainProgress {
+  const total = settings.warmup + settings.draws;
+  const startedAt = new Map<number, number>();
+  return (chain, phase, iteration) => {
+    if (!onProgress) return;
+    const now = performance.now();
+    if (!startedAt.has(chain)) startedAt.set(chain, now);
+    const overall =
+      phase === 'done' ? total : Math.min(total, phase === 'sampling' ? settings.warmup + iteration : iteration);
+    const seconds = (now - startedAt.get(chain)!) / 1000;
+    onProgress({
+      chain,
+      phase,
+      iteration: overall,
+      total,
+      itersPerSecond: seconds > 0 ? overall / seconds : 0,
+    });
+  };
+}
+
+/* ------------------------------------------------------------------------------------------ */
+/* Running chains                                                                               */
+/* ------------------------------------------------------------------------------------------ */
+
+async function runInProcess(
+  p: PreparedTarget,
+  jobs: ChainJob[],
+  progress: ChainProgress,
+  signal?: AbortSignal,
+): Promise<ChainResult[]> {
+  const out: ChainResult[] = [];
+  for (const job of jobs) {
+    // Let the event loop run between chains so a cancel from outside can land.
+    await new Promise((r) => setImmediate(r));
+    if (signal?.aborted) throw new FitCancelledError();
+    progress(job.chain, 'warmup', 0);
+    try {
+      out.push(runChainOnPrepared(p, job, (phase, it) => progress(job.chain, phase, it), signal));
+    } catch (e) {
+      if (signal?.aborted || (e instanceof Error && e.name === 'AbortError')) throw new FitCancelledError();
+      throw e;
+    }
+    progress(job.chain, 'done', 0);
+  }
+  return out;
+}
+
+function rebuildError(err: { name: string; message: string; messages?: unknown; conflicting?: unknown }): Error {
+  const e = new Error(err.message) as Error & { messages?: unknown; conflicting?: unknown };
+  e.name = err.name;
+  if (err.messages !== undefined) e.messages = err.messages;
+  if (err.conflicting !== undefined) e.conflicting = err.conflicting;
+  return e;
+}
+
+const WORKER_BOOT = new URL('./fit-worker-boot.mjs', import.meta.url);
+
+/** Runs the jobs on a pool of worker threads; a cancel terminates the workers at once. */
+function runOnWorkers(
+  jobs: ChainJob[],
+  progress: ChainProgress,
+  signal?: AbortSignal,
+  maxWorkers?: number,
+): Promise<ChainResult[]> {
+  const cap = Math.max(1, Math.min(jobs.length, maxWorkers ?? os.availableParallelism()));
+  return new Promise<ChainResult[]>((resolve, reject) => {
+    const results: ChainResult[] = [];
+    const workers: Worker[] = [];
+    const queue = jobs.slice();
+    const retired = new Set<Worker>();
+    let settled = false;
+    let running = 0;
+
+    const finish = (err?: unknown) => {
+      if (settled) return;
+      settled = true;
+      signal?.removeEventListener('abort', onAbort);
+      for (const w of workers) void w.terminate();
+      if (err) reject(err);
+      else resolve(results);
+    };
+    const onAbort = () => finish(new FitCancelledError());
+    signal?.addEventListener('abort', onAbort);
+
+    const next = (w: Worker) => {
+      if (settled) return;
+      const job = queue.shift();
+      if (!job) {
+        retired.add(w);
+        void w.terminate();
+        if (running === 0 && results.length === jobs.length) finish();
+        return;
+      }
+      running++;
+      progress(job.chain, 'warmup', 0);
+      w.postMessage({ type: 'run', job });
+    };
+
+    for (let i = 0; i < cap; i++) {
+      const w = new Worker(WORKER_BOOT, { workerData: { slacklineFitWorker: true } });
+      workers.push(w);
+      w.on('message', (msg: WorkerMessage) => {
+        if (settled) return;
+        if (msg.type === 'progress') progress(msg.chain, msg.phase, msg.iteration);
+        else if (msg.type === 'done') {
+          running--;
+          results.push(msg.result);
+          progress(msg.result.chain, 'done', 0);
+          next(w);
+        } else if (msg.type === 'error') finish(rebuildError(msg.error));
+      });
+      w.on('error', (e) => finish(e));
+      w.on('exit', (code) => {
+        if (!settled && !retired.has(w) && code !== 0) finish(new Error(`A chain's worker thread stopped with exit code ${code}.`));
+      });
+      next(w);
+    }
+  });
+}
+
+type WorkerMessage =
+  | { type: 'progress'; chain: number; phase: 'warmup' | 'sampling'; iteration: number }
+  | { type: 'done'; result: ChainResult }
+  | { type: 'error'; error: { name: string; message: string; messages?: unknown; conflicting?: unknown } };
+
+/* ------------------------------------------------------------------------------------------ */
+/* Checks and summaries                                                                         */
+/* ------------------------------------------------------------------------------------------ */
+
+/** Every returned draw must satisfy every constraint (A θ ≤ b, E θ = e) up to rounding. */
+function checkConstraints(p: PreparedTarget, chains: ChainResult[]): void {
+  const t = p.target;
+  const dim = t.dim;
+  for (const [sys, isEq] of [
+    [t.inequalities, false],
+    [t.equalities, true],
+  ] as const) {
+    if (sys.rows === 0) continue;
+    const scale = new Float64Array(sys.rows);
+    for (let r = 0; r < sys.rows; r++) {
+      let s = Math.abs(sys.b[r]);
+      for (let j = 0; j < dim; j++) s = Math.max(s, Math.abs(sys.A[r * dim + j]));
+      scale[r] = 1 + s;
+    }
+    for (const ch of chains) {
+      const n = ch.draws.length / dim;
+      for (let i = 0; i < n; i++) {
+        for (let r = 0; r < sys.rows; r++) {
+          let v = -sys.b[r];
+          for (let j = 0; j < dim; j++) v += sys.A[r * dim + j] * ch.draws[i * dim + j];
+          const bad = isEq ? Math.abs(v) > CONSTRAINT_TOL * scale[r] : v > CONSTRAINT_TOL * scale[r];
+          if (bad) {
+            throw new Error(
+              `Chain ${ch.chain + 1}, draw ${i + 1} breaks the constraint "${sys.labels[r] ?? `row ${r + 1}`}" ` +
+                `by ${v.toExponential(2)}: the sampler returned an infeasible draw, which is a bug.`,
+            );
+          }
+        }
+      }
+    }
+  }
+}
+
+/** Column `j` of a row-major draws × width matrix. */
+function column(data: Float64Array, width: number, j: number): Float64Array {
+  const n = data.length / width;
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) out[i] = data[i * width + j];
+  return out;
+}
+
+function summarise(
+  p: PreparedTarget,
+  chains: ChainResult[],
+  settings: FitSettings,
+  sampler: SamplerName,
+  samplerReason: string,
+): FitSummary {
+  const t = p.target;
+  const quantities: QuantitySummary[] = [];
+  for (let j = 0; j < t.dim; j++) {
+    quantities.push(summarizeQuantity(t.names[j], 'unknown', chains.map((c) => column(c.draws, t.dim, j))));
+  }
+  const dn = t.derived?.names ?? [];
+  for (let j = 0; j < dn.length; j++) {
+    quantities.push(summarizeQuantity(dn[j], 'derived', chains.map((c) => column(c.derivedDraws, dn.length, j))));
+  }
+
+  let divergences = 0;
+  let acceptSum = 0;
+  let acceptCount = 0;
+  for (const c of chains) {
+    for (let i = 0; i < c.divergent.length; i++) divergences += c.divergent[i];
+    for (let i = 0; i < c.acceptStat.length; i++) {
+      acceptSum += c.acceptStat[i];
+      acceptCount++;
+    }
+  }
+  const stepSizes = chains.map((c) => c.stepSize).filter(Number.isFinite);
+  const efmis = chains.every((c) => c.energy && c.energy.length > 1) ? chains.map((c) => efmi(c.energy!)) : undefined;
+  const fps = chains.map((c) => c.factorizationsPerStep).filter((v): v is number => Number.isFinite(v));
+
+  let worstRhat = quantities[0];
+  let worstEss = quantities[0];
+  for (const q of quantities) {
+    if (q.rhat > worstRhat.rhat) worstRhat = q;
+    if (Math.min(q.essBulk, q.essTail) < Math.min(worstEss.essBulk, worstEss.essTail)) worstEss = q;
+  }
+  const maxRhat = quantities.length ? Math.max(...quantities.map((q) => q.rhat)) : 1;
+  const minEssBulk = quantities.length ? Math.min(...quantities.map((q) => q.essBulk)) : 0;
+  const minEssTail = quantities.length ? Math.min(...quantities.map((q) => q.essTail)) : 0;
+
+  const verdict = judgeRun({
+    chains: settings.chains,
+    draws: settings.draws,
+    divergences,
+    maxRhat,
+    minEssBulk,
+    minEssTail,
+    worstRhatName: worstRhat?.name,
+    worstEssName: worstEss?.name,
+    efmi: efmis?.filter(Number.isFinite),
+  });
+
+  return {
+    quantities,
+    diagnostics: {
+      divergences,
+      acceptance: acceptCount ? acceptSum / acceptCount : 0,
+      // 0 stands for "not applicable" (samplers without a step size, such as hit-and-run).
+      stepSize: stepSizes.length ? stepSizes.reduce((a, b) => a + b, 0) / stepSizes.length : 0,
+      maxRhat,
+      minEssBulk,
+      minEssTail,
+      ...(efmis ? { efmi: efmis.map((v) => (Number.isFinite(v) ? v : 0)) } : {}),
+      ...(fps.length ? { factorizationsPerStep: fps.reduce((a, b) => a + b, 0) / fps.length } : {}),
+      samplerUsed: sampler,
+      samplerReason,
+    },
+    verdict,
+    settings,
+    seconds: 0,
+  };
+}
