@@ -33,9 +33,15 @@ export async function buildTarget(spec: TargetSpec): Promise<ModelTarget> {
   if (spec.kind === 'program') {
     // The compiler lives in ./compile; loaded lazily so the engine works without it for module specs.
     const compilerUrl = new URL('./compile/index.ts', import.meta.url).href;
-    const compiler = (await import(/* @vite-ignore */ compilerUrl)) as {
-      compileProgram(source: string, tables: unknown): ModelTarget;
-    };
+    let compiler: { compileProgram(source: string, tables: unknown): ModelTarget };
+    try {
+      compiler = await import(/* @vite-ignore */ compilerUrl);
+    } catch (e) {
+      if ((e as NodeJS.ErrnoException).code === 'ERR_MODULE_NOT_FOUND' && String((e as Error).message).includes('compile')) {
+        throw new Error('The model-language compiler is not part of this build; only module targets can be fitted.');
+      }
+      throw e;
+    }
     return compiler.compileProgram(spec.source, spec.tables);
   }
   const url = spec.modulePath.startsWith('file:') ? spec.modulePath : pathToFileURL(spec.modulePath).href;

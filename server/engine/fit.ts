@@ -120,8 +120,9 @@ export async function runFit(
 type ChainProgress = (chain: number, phase: 'warmup' | 'sampling' | 'done', iteration: number) => void;
 
 /**
- * Turns the samplers' (phase, iteration-within-phase) calls into FitProgress records counting
- * iterations over warm-up and sampling together.
+ * Turns the samplers' (phase, iteration) calls — iteration is the 0-based index over warm-up and
+ * sampling together, as the samplers count — into FitProgress records whose `iteration` is the
+ * number of iterations completed out of `total` = warm-up + draws.
  */
 function makeProgressReporter(settings: FitSettings, onProgress?: (p: FitProgress) => void): ChainProgress {
   const total = settings.warmup + settings.draws;
@@ -130,8 +131,7 @@ function makeProgressReporter(settings: FitSettings, onProgress?: (p: FitProgres
     if (!onProgress) return;
     const now = performance.now();
     if (!startedAt.has(chain)) startedAt.set(chain, now);
-    const overall =
-      phase === 'done' ? total : Math.min(total, phase === 'sampling' ? settings.warmup + iteration : iteration);
+    const overall = phase === 'done' ? total : Math.min(total, iteration + 1);
     const seconds = (now - startedAt.get(chain)!) / 1000;
     onProgress({
       chain,
@@ -158,7 +158,7 @@ async function runInProcess(
     // Let the event loop run between chains so a cancel from outside can land.
     await new Promise((r) => setImmediate(r));
     if (signal?.aborted) throw new FitCancelledError();
-    progress(job.chain, 'warmup', 0);
+    progress(job.chain, 'warmup', -1);
     try {
       out.push(runChainOnPrepared(p, job, (phase, it) => progress(job.chain, phase, it), signal));
     } catch (e) {
@@ -217,7 +217,7 @@ function runOnWorkers(
         return;
       }
       running++;
-      progress(job.chain, 'warmup', 0);
+      progress(job.chain, 'warmup', -1);
       w.postMessage({ type: 'run', job });
     };
 
