@@ -52,7 +52,7 @@ export function equalitySimplexTarget(k: number): ModelTarget {
 
 /** Uniform on the order simplex {0 ≤ x₁ ≤ … ≤ xₙ ≤ 1}. */
 export function orderSimplexTarget(n: number): ModelTarget {
-  const rows = [{ a: { 0: -1 }, b: 0, label: 'x[1] >= 0' }];
+  const rows: { a: Record<number, number>; b: number; label: string }[] = [{ a: { 0: -1 }, b: 0, label: 'x[1] >= 0' }];
   for (let j = 0; j + 1 < n; j++) rows.push({ a: { [j]: 1, [j + 1]: -1 }, b: 0, label: `x[${j + 1}] <= x[${j + 2}]` });
   rows.push({ a: { [n - 1]: 1 }, b: 1, label: `x[${n}] <= 1` });
   return { dim: n, names: names('x', n), logDensity: flat, inequalities: system(n, rows), equalities: emptySystem(n) };
