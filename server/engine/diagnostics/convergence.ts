@@ -284,8 +284,12 @@ const ONE_SD = [0.15865525393145707, 0.8413447460685429];
  */
 export function mcseQuantile(chains: Chains, p: number, sortedAll?: ArrayLike<number>): number {
   const sorted = sortedAll ?? sortedCopy(pooled(chains));
+  return mcseQuantileFromEss(sorted, p, essQuantile(chains, p, sorted));
+}
+
+/** The same, given the sorted pooled draws and the ESS of the indicator I(θ ≤ q̂_p). */
+export function mcseQuantileFromEss(sorted: ArrayLike<number>, p: number, seff: number): number {
   const s = sorted.length;
-  const seff = essQuantile(chains, p, sorted);
   if (!Number.isFinite(seff)) return NaN;
   const a1 = qbeta(ONE_SD[0], seff * p + 1, seff * (1 - p) + 1);
   const a2 = qbeta(ONE_SD[1], seff * p + 1, seff * (1 - p) + 1);

@@ -13,13 +13,13 @@
  */
 import type { QuantitySummary } from '../../../shared/fit';
 import {
-  essBulk,
-  essMean,
-  essTail,
-  mcseQuantile,
+  essBasic,
+  mcseQuantileFromEss,
   quantileSorted,
-  rhat,
+  rankNormalize,
+  rhatBasic,
   sortedCopy,
+  splitChains,
   type Chains,
 } from './convergence';
 
@@ -76,9 +76,21 @@ export function summarizeQuantity(
   }
 
   const finiteOr = (v: number, fallback: number) => (Number.isFinite(v) ? v : fallback);
-  let r = rhat(chains);
+  // Each transform is computed once and shared (same definitions as convergence.ts):
+  // rank-normalised split chains → bulk R̂ and bulk-ESS; folded → tail R̂;
+  // split chains → ESS of the mean; quantile indicators → tail-ESS and the quantile MCSEs.
+  const split = splitChains(chains);
+  const z = rankNormalize(split);
+  const folded = rankNormalize(split.map((c) => c.map((v) => Math.abs(v - q50))));
+  const rb = rhatBasic(z);
+  const rt = rhatBasic(folded);
+  let r = Number.isNaN(rb) ? rt : Number.isNaN(rt) ? rb : Math.max(rb, rt);
   if (r === Infinity) r = RHAT_STUCK;
-  const eMean = essMean(chains);
+  const indicatorEss = (q: number) => essBasic(split.map((c) => c.map((v) => (v <= q ? 1 : 0))));
+  const e5 = indicatorEss(q5);
+  const e50 = indicatorEss(q50);
+  const e95 = indicatorEss(q95);
+  const eMean = essBasic(split);
   return {
     name,
     kind,
@@ -89,11 +101,11 @@ export function summarizeQuantity(
     q95,
     // R̂ is NaN only with fewer than two split chains of two draws each: then nothing can be said.
     rhat: finiteOr(r, RHAT_STUCK),
-    essBulk: finiteOr(essBulk(chains), 0),
-    essTail: finiteOr(essTail(chains, sorted), 0),
+    essBulk: finiteOr(essBasic(z), 0),
+    essTail: finiteOr(Math.min(e5, e95), 0),
     mcseMean: finiteOr(sd / Math.sqrt(eMean), sd),
-    mcseQ5: finiteOr(mcseQuantile(chains, 0.05, sorted), sd),
-    mcseQ50: finiteOr(mcseQuantile(chains, 0.5, sorted), sd),
-    mcseQ95: finiteOr(mcseQuantile(chains, 0.95, sorted), sd),
+    mcseQ5: finiteOr(mcseQuantileFromEss(sorted, 0.05, e5), sd),
+    mcseQ50: finiteOr(mcseQuantileFromEss(sorted, 0.5, e50), sd),
+    mcseQ95: finiteOr(mcseQuantileFromEss(sorted, 0.95, e95), sd),
   };
 }

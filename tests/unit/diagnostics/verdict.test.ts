@@ -3,6 +3,7 @@ import { judgeRun, THRESHOLDS, type VerdictInput } from '../../../server/engine/
 import { summarizeQuantity } from '../../../server/engine/diagnostics/summary';
 import { quantitySummarySchema, verdictSchema } from '../../../shared/fit';
 import { Rng } from '../../../server/engine/rng';
+import { essBulk, essTail, mcseMean, mcseQuantile, rhat } from '../../../server/engine/diagnostics/convergence';
 
 const good: VerdictInput = {
   chains: 4,
@@ -77,6 +78,23 @@ describe('summarizeQuantity', () => {
     expect(Math.abs(s.q95 - (3 + 2 * 1.6448536))).toBeLessThan(4 * s.mcseQ95);
     expect(Math.abs(s.q50 - 3)).toBeLessThan(4 * s.mcseQ50);
     expect(s.rhat).toBeLessThan(1.01);
+  });
+  it('shares work between diagnostics but gives the same numbers as the separate functions', () => {
+    const rng = new Rng(6);
+    const chains = Array.from({ length: 3 }, () => {
+      const x = new Float64Array(401);
+      let v = 0;
+      for (let i = 0; i < x.length; i++) x[i] = v = 0.7 * v + rng.normal();
+      return x;
+    });
+    const s = summarizeQuantity('a', 'unknown', chains);
+    expect(s.rhat).toBe(rhat(chains));
+    expect(s.essBulk).toBe(essBulk(chains));
+    expect(s.essTail).toBe(essTail(chains));
+    expect(s.mcseMean).toBeCloseTo(mcseMean(chains), 12);
+    for (const [p, v] of [[0.05, s.mcseQ5], [0.5, s.mcseQ50], [0.95, s.mcseQ95]] as const) {
+      expect(v).toBe(mcseQuantile(chains, p));
+    }
   });
   it('reports a constant quantity as exactly known', () => {
     const chains = [new Float64Array(100).fill(1.5), new Float64Array(100).fill(1.5)];
