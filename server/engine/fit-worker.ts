@@ -61,6 +61,8 @@ export function preparedFor(spec: TargetSpec): Promise<PreparedTarget> {
   let p = preparedCache.get(key);
   if (!p) {
     p = buildTarget(spec).then((t) => prepareTarget(t));
+    // Keep the few most recent targets (a worker thread serves many fits).
+    if (preparedCache.size >= 4) preparedCache.delete(preparedCache.keys().next().value!);
     preparedCache.set(key, p);
     p.catch(() => preparedCache.delete(key));
   }

@@ -180,73 +180,179 @@ function rebuildError(err: { name: string; message: string; messages?: unknown; 
 
 const WORKER_BOOT = new URL('./fit-worker-boot.mjs', import.meta.url);
 
-/** Runs the jobs on a pool of worker threads; a cancel terminates the workers at once. */
-function runOnWorkers(
+type WorkerMessage =
+  | { type: 'progress'; chain: number; phase: 'warmup' | 'sampling'; iteration: number }
+  | { type: 'done'; result: ChainResult }
+  | { type: 'error'; error: { name: string; message: string; messages?: unknown; conflicting?: unknown } };
+
+/**
+ * Worker threads kept between fits: starting a thread and its TypeScript loader costs far more
+ * than a small chain, so idle workers wait (unref'd: they never keep the process alive) for the
+ * next chain. At most `cap` workers exist at once across all fits of the process; chains beyond
+ * that wait their turn.
+ */
+class ChainWorkerPool {
+  private idle: Worker[] = [];
+  private live = new Set<Worker>();
+  private waiting: Array<(w: Worker) => void> = [];
+
+  constructor(readonly cap: number) {}
+
+  acquire(): Promise<Worker> {
+    const w = this.idle.pop();
+    if (w) {
+      w.ref();
+      return Promise.resolve(w);
+    }
+    if (this.live.size < this.cap) return Promise.resolve(this.spawn());
+    return new Promise((resolve) => this.waiting.push(resolve));
+  }
+
+  release(w: Worker): void {
+    if (!this.live.has(w)) return;
+    const next = this.waiting.shift();
+    if (next) return next(w);
+    w.unref();
+    this.idle.push(w);
+  }
+
+  /** Terminates a worker (cancelled or broken) and lets a waiting chain start a fresh one. */
+  discard(w: Worker): void {
+    if (!this.live.delete(w)) return;
+    this.idle = this.idle.filter((x) => x !== w);
+    void w.terminate();
+    const next = this.waiting.shift();
+    if (next) next(this.spawn());
+  }
+
+  /** Terminates every worker (for shutdown and tests). */
+  async close(): Promise<void> {
+    const all = [...this.live];
+    this.live.clear();
+    this.idle = [];
+    await Promise.all(all.map((w) => w.terminate()));
+  }
+
+  private spawn(): Worker {
+    const w = new Worker(WORKER_BOOT, { workerData: { slacklineFitWorker: true } });
+    // A worker that dies while idle leaves the pool quietly; a busy one is reported by its job.
+    w.on('error', () => this.discard(w));
+    w.on('exit', () => {
+      this.live.delete(w);
+      this.idle = this.idle.filter((x) => x !== w);
+    });
+    this.live.add(w);
+    return w;
+  }
+}
+
+let sharedPool: ChainWorkerPool | null = null;
+
+function pool(): ChainWorkerPool {
+  sharedPool ??= new ChainWorkerPool(Math.max(1, os.availableParallelism()));
+  return sharedPool;
+}
+
+/** Stops the fit worker threads kept between fits (they are unref'd, so this is optional). */
+export async function closeFitWorkers(): Promise<void> {
+  const p = sharedPool;
+  sharedPool = null;
+  await p?.close();
+}
+
+/** Runs one chain on a pooled worker. */
+function runJobOnWorker(
+  w: Worker,
+  job: ChainJob,
+  progress: ChainProgress,
+  signal?: AbortSignal,
+): Promise<ChainResult> {
+  return new Promise<ChainResult>((resolve, reject) => {
+    const cleanup = () => {
+      w.off('message', onMessage);
+      w.off('error', onError);
+      w.off('exit', onExit);
+      signal?.removeEventListener('abort', onAbort);
+    };
+    const onMessage = (msg: WorkerMessage) => {
+      if (msg.type === 'progress') progress(msg.chain, msg.phase, msg.iteration);
+      else if (msg.type === 'done') {
+        cleanup();
+        pool().release(w);
+        resolve(msg.result);
+      } else if (msg.type === 'error') {
+        cleanup();
+        pool().release(w);
+        reject(rebuildError(msg.error));
+      }
+    };
+    const onError = (e: Error) => {
+      cleanup();
+      reject(e);
+    };
+    const onExit = (code: number) => {
+      cleanup();
+      reject(new Error(`A chain's worker thread stopped with exit code ${code}.`));
+    };
+    const onAbort = () => {
+      cleanup();
+      pool().discard(w);
+      reject(new FitCancelledError());
+    };
+    w.on('message', onMessage);
+    w.on('error', onError);
+    w.on('exit', onExit);
+    signal?.addEventListener('abort', onAbort);
+    progress(job.chain, 'warmup', -1);
+    w.postMessage({ type: 'run', job });
+  });
+}
+
+/** Runs the jobs on pooled worker threads, at most `maxWorkers` of this fit's chains at once. */
+async function runOnWorkers(
   jobs: ChainJob[],
   progress: ChainProgress,
   signal?: AbortSignal,
   maxWorkers?: number,
 ): Promise<ChainResult[]> {
-  const cap = Math.max(1, Math.min(jobs.length, maxWorkers ?? os.availableParallelism()));
-  return new Promise<ChainResult[]>((resolve, reject) => {
-    const results: ChainResult[] = [];
-    const workers: Worker[] = [];
-    const queue = jobs.slice();
-    const retired = new Set<Worker>();
-    let settled = false;
-    let running = 0;
-
-    const finish = (err?: unknown) => {
-      if (settled) return;
-      settled = true;
-      signal?.removeEventListener('abort', onAbort);
-      for (const w of workers) void w.terminate();
-      if (err) reject(err);
-      else resolve(results);
-    };
-    const onAbort = () => finish(new FitCancelledError());
-    signal?.addEventListener('abort', onAbort);
-
-    const next = (w: Worker) => {
-      if (settled) return;
-      const job = queue.shift();
-      if (!job) {
-        retired.add(w);
-        void w.terminate();
-        if (running === 0 && results.length === jobs.length) finish();
+  const lanes = Math.max(1, Math.min(jobs.length, maxWorkers ?? os.availableParallelism()));
+  const queue = jobs.slice();
+  const results: ChainResult[] = [];
+  // Stops the other chains at once when one fails or the caller cancels.
+  const stop = new AbortController();
+  const onOuterAbort = () => stop.abort();
+  signal?.addEventListener('abort', onOuterAbort);
+  if (signal?.aborted) stop.abort();
+  let firstError: unknown = null;
+  const lane = async () => {
+    while (queue.length > 0 && !stop.signal.aborted) {
+      const job = queue.shift()!;
+      const w = await pool().acquire();
+      if (stop.signal.aborted) {
+        pool().release(w);
         return;
       }
-      running++;
-      progress(job.chain, 'warmup', -1);
-      w.postMessage({ type: 'run', job });
-    };
-
-    for (let i = 0; i < cap; i++) {
-      const w = new Worker(WORKER_BOOT, { workerData: { slacklineFitWorker: true } });
-      workers.push(w);
-      w.on('message', (msg: WorkerMessage) => {
-        if (settled) return;
-        if (msg.type === 'progress') progress(msg.chain, msg.phase, msg.iteration);
-        else if (msg.type === 'done') {
-          running--;
-          results.push(msg.result);
-          progress(msg.result.chain, 'done', 0);
-          next(w);
-        } else if (msg.type === 'error') finish(rebuildError(msg.error));
-      });
-      w.on('error', (e) => finish(e));
-      w.on('exit', (code) => {
-        if (!settled && !retired.has(w) && code !== 0) finish(new Error(`A chain's worker thread stopped with exit code ${code}.`));
-      });
-      next(w);
+      try {
+        results.push(await runJobOnWorker(w, job, progress, stop.signal));
+      } catch (e) {
+        if (!stop.signal.aborted) {
+          firstError = e;
+          stop.abort();
+        }
+        return;
+      }
+      progress(job.chain, 'done', 0);
     }
-  });
+  };
+  try {
+    await Promise.all(Array.from({ length: lanes }, lane));
+  } finally {
+    signal?.removeEventListener('abort', onOuterAbort);
+  }
+  if (firstError) throw firstError;
+  if (signal?.aborted) throw new FitCancelledError();
+  return results;
 }
-
-type WorkerMessage =
-  | { type: 'progress'; chain: number; phase: 'warmup' | 'sampling'; iteration: number }
-  | { type: 'done'; result: ChainResult }
-  | { type: 'error'; error: { name: string; message: string; messages?: unknown; conflicting?: unknown } };
 
 /* ------------------------------------------------------------------------------------------ */
 /* Checks and summaries                                                                         */

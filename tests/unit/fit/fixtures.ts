@@ -2,6 +2,7 @@
  * Small targets for the fit orchestration tests, loaded by module path so worker threads can
  * rebuild them. Each factory takes plain JSON arguments.
  */
+import { isMainThread } from 'node:worker_threads';
 import type { LinearSystem, ModelTarget } from '../../../server/engine/types';
 
 function system(cols: number, rows: { a: number[]; b: number; label: string }[]): LinearSystem {
@@ -55,4 +56,10 @@ export function truncatedNormal(args: { lo: number; hi: number }): ModelTarget {
       },
     },
   };
+}
+
+/** Builds in the main thread but throws inside a worker thread: tests error propagation. */
+export function failsInWorker(): ModelTarget {
+  if (!isMainThread) throw new Error('This target refuses to be built in a worker thread on purpose.');
+  return orderedPair();
 }

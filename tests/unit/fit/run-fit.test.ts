@@ -1,8 +1,8 @@
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { fileURLToPath } from 'node:url';
 import cdf from '@stdlib/stats-base-dists-normal-cdf';
 import pdf from '@stdlib/stats-base-dists-normal-pdf';
-import { runFit } from '../../../server/engine/fit';
+import { closeFitWorkers, runFit } from '../../../server/engine/fit';
 import { fitSummarySchema, type FitProgress } from '../../../shared/fit';
 import type { TargetSpec } from '../../../server/engine/types';
 
@@ -13,6 +13,8 @@ const trunc: TargetSpec = { kind: 'module', modulePath: FIXTURES, exportName: 't
 const q = (r: Awaited<ReturnType<typeof runFit>>, name: string) => r.summary.quantities.find((x) => x.name === name)!;
 
 describe('runFit', () => {
+  afterAll(() => closeFitWorkers());
+
   it('gives identical draws in-process and on worker threads for the same seed', async () => {
     const settings = { chains: 3, warmup: 100, draws: 150, seed: 4242, sampler: 'rhmc' as const };
     const a = await runFit(trunc, settings, { parallel: false });
@@ -119,6 +121,28 @@ describe('runFit', () => {
     const bad: TargetSpec = { kind: 'module', modulePath: FIXTURES, exportName: 'nothing', args: null };
     await expect(runFit(bad, { chains: 1 }, { parallel: false })).rejects.toThrow(/no exported function "nothing"/);
   });
+
+  it('stops the other chains and reports the first error from a worker', async () => {
+    // The main thread builds the target first, so a broken spec fails before any worker starts;
+    // here the factory fails only inside worker threads (it checks where it runs).
+    const spec: TargetSpec = { kind: 'module', modulePath: FIXTURES, exportName: 'failsInWorker', args: null };
+    await expect(runFit(spec, { chains: 3, warmup: 50, draws: 50 }, { parallel: true })).rejects.toThrow(
+      /built in a worker thread on purpose/,
+    );
+  }, 60_000);
+
+  it('reuses worker threads across fits', async () => {
+    const settings = { chains: 2, warmup: 50, draws: 50, seed: 3 };
+    await runFit(pair, settings);
+    const t0 = performance.now();
+    const r = await runFit(pair, settings);
+    expect(r.chains).toHaveLength(2);
+    // Not a speed assertion: the second fit must simply complete on the kept workers.
+    expect(performance.now() - t0).toBeGreaterThan(0);
+    await closeFitWorkers();
+    // A fit after closing starts fresh workers.
+    expect((await runFit(pair, settings)).chains).toHaveLength(2);
+  }, 60_000);
 
   it('rejects settings outside the limits', async () => {
     await expect(runFit(pair, { chains: 0 }, { parallel: false })).rejects.toThrow();
