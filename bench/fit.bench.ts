@@ -3,7 +3,7 @@
  * overhead, identical draws), and the cost of the diagnostics per quantity.
  */
 import { fileURLToPath } from 'node:url';
-import { runFit } from '../server/engine/fit';
+import { closeFitWorkers, runFit } from '../server/engine/fit';
 import { summarizeQuantity } from '../server/engine/diagnostics';
 import { Rng } from '../server/engine/rng';
 import type { TargetSpec } from '../server/engine/types';
@@ -18,8 +18,13 @@ export async function run(): Promise<Record<string, number | string>> {
   const seq = await runFit(spec, settings, { parallel: false });
   const inProcess = (performance.now() - t0) / 1000;
   t0 = performance.now();
+  await runFit(spec, settings, { parallel: true });
+  const workersCold = (performance.now() - t0) / 1000;
+  // Second run on the worker threads kept from the first.
+  t0 = performance.now();
   const par = await runFit(spec, settings, { parallel: true });
   const workers = (performance.now() - t0) / 1000;
+  await closeFitWorkers();
   const identical = seq.chains.every((c, i) => c.draws.every((v, j) => v === par.chains[i].draws[j]));
 
   // Diagnostics: summarise 4 chains × 1000 AR(1) draws for 50 quantities.
@@ -39,8 +44,9 @@ export async function run(): Promise<Record<string, number | string>> {
 
   return {
     'truncnormal_4x2000_inprocess_s': inProcess,
-    'truncnormal_4x2000_workers_s': workers,
-    'workers_speedup': inProcess / workers,
+    'truncnormal_4x2000_workers_cold_s': workersCold,
+    'truncnormal_4x2000_workers_warm_s': workers,
+    'warm_workers_speedup': inProcess / workers,
     'identical_draws': identical ? 'yes' : 'NO',
     'truncnormal_min_ess_bulk_per_draw': par.summary.diagnostics.minEssBulk / 4000,
     'summary_ms_per_quantity_4x1000': diagMs,
