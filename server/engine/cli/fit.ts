@@ -135,13 +135,20 @@ export async function main(argv: string[], io: CliIo = processIo, opts: CliOptio
 }
 
 function reportFailure(e: unknown, args: CliArgs, io: CliIo): number {
-  const err = e as Error & { messages?: { line: number; column: number; message: string }[]; conflicting?: string[] };
+  const err = e as Error & {
+    messages?: { line: number; column: number; message: string; severity?: string; suggestion?: string }[];
+    conflicting?: string[];
+  };
   if (err?.name === 'AbortError') {
     io.stderr('Cancelled.\n');
     return 130;
   }
   if (err?.name === 'CompileError' && Array.isArray(err.messages)) {
-    for (const m of err.messages) io.stderr(`${args.modelPath}:${m.line}:${m.column}: ${m.message}\n`);
+    for (const m of err.messages) {
+      const sev = m.severity && m.severity !== 'error' ? `${m.severity}: ` : '';
+      const hint = m.suggestion ? ` (${m.suggestion})` : '';
+      io.stderr(`${args.modelPath}:${m.line}:${m.column}: ${sev}${m.message}${hint}\n`);
+    }
     if (err.messages.length === 0) io.stderr(`${args.modelPath}: ${err.message}\n`);
     return 1;
   }

@@ -31,11 +31,14 @@ export function target(tables: DataTables): ModelTarget {
 }
 
 export function broken(): ModelTarget {
-  const e = new Error('2 problems') as Error & { messages: { line: number; column: number; message: string }[] };
+  const e = new Error('2 problems') as Error & {
+    messages: { line: number; column: number; message: string; severity: string; suggestion?: string }[];
+  };
   e.name = 'CompileError';
   e.messages = [
-    { line: 3, column: 7, message: 'unknown name "sigmaa"' },
-    { line: 5, column: 1, message: 'constraint is not affine in the unknowns' },
+    { line: 3, column: 7, message: 'unknown name "sigmaa"', severity: 'error', suggestion: 'did you mean "sigma"?' },
+    { line: 5, column: 1, message: 'constraint is not affine in the unknowns', severity: 'error' },
+    { line: 6, column: 3, message: 'this term does not depend on any unknown', severity: 'warning' },
   ];
   throw e;
 }

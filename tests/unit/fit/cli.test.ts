@@ -140,7 +140,9 @@ describe('fit command (module model, in-process chains)', () => {
     const io = memoryIo();
     expect(await main([MODEL, '--export', 'broken'], io, { parallel: false })).toBe(1);
     expect(io.err).toBe(
-      `${MODEL}:3:7: unknown name "sigmaa"\n${MODEL}:5:1: constraint is not affine in the unknowns\n`,
+      `${MODEL}:3:7: unknown name "sigmaa" (did you mean "sigma"?)\n` +
+        `${MODEL}:5:1: constraint is not affine in the unknowns\n` +
+        `${MODEL}:6:3: warning: this term does not depend on any unknown\n`,
     );
   });
 
