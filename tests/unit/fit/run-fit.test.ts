@@ -58,6 +58,28 @@ describe('runFit', () => {
     for (let i = 0; i < 10; i++) expect(ch.derivedDraws[i]).toBeCloseTo(ch.draws[2 * i + 1] - ch.draws[2 * i], 14);
   }, 60_000);
 
+  it("uses the sampler tests' equality-simplex target: Beta(1, k−1) means, sum kept at 1", async () => {
+    // Uniform on {w ≥ 0, Σw = 1} with k = 4 is Dirichlet(1,1,1,1); each w_j ~ Beta(1, 3), mean 1/4
+    // (Dirichlet aggregation property; Kotz, Balakrishnan & Johnson, Continuous Multivariate
+    // Distributions, vol. 1, ch. 49). Tolerance 4·MCSE of the run. runFit itself checks every draw
+    // against Σw = 1 and w ≥ 0 before summarising.
+    const spec: TargetSpec = {
+      kind: 'module',
+      modulePath: fileURLToPath(new URL('../samplers/targets.ts', import.meta.url)),
+      exportName: 'equalitySimplexTarget',
+      args: 4,
+    };
+    const r = await runFit(spec, { chains: 2, warmup: 100, draws: 400, seed: 12 });
+    expect(r.unknownNames).toEqual(['w[1]', 'w[2]', 'w[3]', 'w[4]']);
+    for (const s of r.summary.quantities) expect(Math.abs(s.mean - 0.25)).toBeLessThan(4 * s.mcseMean);
+    for (const c of r.chains) {
+      for (let i = 0; i < 400; i++) {
+        const sum = c.draws[4 * i] + c.draws[4 * i + 1] + c.draws[4 * i + 2] + c.draws[4 * i + 3];
+        expect(Math.abs(sum - 1)).toBeLessThan(1e-9);
+      }
+    }
+  }, 60_000);
+
   it('truncated normal: mean and E[z²] match the closed form', async () => {
     // Standard normal truncated to [a, b]: E z = (φ(a) − φ(b))/Z, E z² = 1 + (aφ(a) − bφ(b))/Z,
     // Z = Φ(b) − Φ(a) (Johnson, Kotz & Balakrishnan, Continuous Univariate Distributions vol. 1,
