@@ -38,6 +38,14 @@ export interface RunFitOptions {
   computeMode?: boolean;
   /** Cap on concurrent workers (default os.availableParallelism()). */
   maxWorkers?: number;
+  /** Called with each chain as soon as it finishes (e.g. to store it before the others end). */
+  onChainDone?(chain: ChainResult): void;
+  /**
+   * Chains finished by an earlier attempt of the same fit (same spec and settings): they are kept
+   * and only the missing chains run. Chains are deterministic in (seed, chain index), so the result
+   * equals an uninterrupted fit.
+   */
+  resume?: ChainResult[];
 }
 
 /** Seed stream of the dispersed starts; chains use their own streams inside the samplers. */
@@ -90,12 +98,26 @@ export async function runFit(
     chain,
   }));
 
-  const progress = makeProgressReporter(settings, opts.onProgress);
-  const chains =
+  const kept = new Map<number, ChainResult>();
+  for (const c of opts.resume ?? []) {
+    const dimOk = c.draws.length === settings.draws * target.dim;
+    if (c.chain < 0 || c.chain >= settings.chains || !dimOk) {
+      throw new Error(`A resumed chain (${c.chain + 1}) does not match this fit's settings or model.`);
+    }
+    kept.set(c.chain, c);
+  }
+  const reporter = makeProgressReporter(settings, opts.onProgress);
+  const progress: ChainProgress = (chain, phase, iteration) => {
+    reporter(chain, phase, iteration);
+    if (phase === 'done') opts.onChainDone?.(finished.get(chain)!);
+  };
+  const finished = new Map<number, ChainResult>();
+  const todo = jobs.filter((j) => !kept.has(j.chain));
+  const ran =
     opts.parallel === false
-      ? await runInProcess(p, jobs, progress, opts.signal)
-      : await runOnWorkers(jobs, progress, opts.signal, opts.maxWorkers);
-  chains.sort((a, b) => a.chain - b.chain);
+      ? await runInProcess(p, todo, progress, opts.signal, finished)
+      : await runOnWorkers(todo, progress, opts.signal, opts.maxWorkers, finished);
+  const chains = [...kept.values(), ...ran].sort((a, b) => a.chain - b.chain);
 
   checkConstraints(p, chains);
 
@@ -151,7 +173,8 @@ async function runInProcess(
   p: PreparedTarget,
   jobs: ChainJob[],
   progress: ChainProgress,
-  signal?: AbortSignal,
+  signal: AbortSignal | undefined,
+  finished: Map<number, ChainResult>,
 ): Promise<ChainResult[]> {
   const out: ChainResult[] = [];
   for (const job of jobs) {
@@ -160,7 +183,9 @@ async function runInProcess(
     if (signal?.aborted) throw new FitCancelledError();
     progress(job.chain, 'warmup', -1);
     try {
-      out.push(runChainOnPrepared(p, job, (phase, it) => progress(job.chain, phase, it), signal));
+      const result = runChainOnPrepared(p, job, (phase, it) => progress(job.chain, phase, it), signal);
+      finished.set(job.chain, result);
+      out.push(result);
     } catch (e) {
       if (signal?.aborted || (e instanceof Error && e.name === 'AbortError')) throw new FitCancelledError();
       throw e;
@@ -312,9 +337,11 @@ function runJobOnWorker(
 async function runOnWorkers(
   jobs: ChainJob[],
   progress: ChainProgress,
-  signal?: AbortSignal,
-  maxWorkers?: number,
+  signal: AbortSignal | undefined,
+  maxWorkers: number | undefined,
+  finished: Map<number, ChainResult>,
 ): Promise<ChainResult[]> {
+  if (jobs.length === 0) return [];
   const lanes = Math.max(1, Math.min(jobs.length, maxWorkers ?? os.availableParallelism()));
   const queue = jobs.slice();
   const results: ChainResult[] = [];
@@ -333,7 +360,9 @@ async function runOnWorkers(
         return;
       }
       try {
-        results.push(await runJobOnWorker(w, job, progress, stop.signal));
+        const result = await runJobOnWorker(w, job, progress, stop.signal);
+        finished.set(job.chain, result);
+        results.push(result);
       } catch (e) {
         if (!stop.signal.aborted) {
           firstError = e;

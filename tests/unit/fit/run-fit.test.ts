@@ -113,6 +113,21 @@ describe('runFit', () => {
     }
   }, 60_000);
 
+  it('hands over each finished chain and resumes from kept chains with the same result', async () => {
+    const settings = { chains: 3, warmup: 60, draws: 80, seed: 31, sampler: 'rhmc' as const };
+    const handed: number[] = [];
+    const full = await runFit(trunc, settings, { parallel: false, onChainDone: (c) => handed.push(c.chain) });
+    expect(handed).toEqual([0, 1, 2]);
+    // An interrupted attempt kept chain 2 only: the resumed fit runs chains 0 and 1 (on workers).
+    const resumedHanded: number[] = [];
+    const resumed = await runFit(trunc, settings, { resume: [full.chains[2]], onChainDone: (c) => resumedHanded.push(c.chain) });
+    expect(resumedHanded.sort()).toEqual([0, 1]);
+    expect(resumed.summary.quantities).toEqual(full.summary.quantities);
+    await expect(runFit(trunc, { ...settings, draws: 90 }, { parallel: false, resume: [full.chains[0]] })).rejects.toThrow(
+      /does not match/,
+    );
+  }, 60_000);
+
   it('cancels in-process from a progress callback', async () => {
     const ac = new AbortController();
     const run = runFit(trunc, { chains: 2, warmup: 500, draws: 500, seed: 2, sampler: 'rhmc' }, {
