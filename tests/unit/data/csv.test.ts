@@ -40,6 +40,21 @@ describe('parseCsv: column types', () => {
     expect(r.table!.columns.note.levels).toEqual(['said "hi"\nthen left']);
   });
 
+  it('reads Windows line endings and tab-separated files', () => {
+    const crlf = parseCsv('dose,yield\r\n1,2.5\r\n2,3.5\r\n');
+    expect(crlf.issues).toEqual([]);
+    expect(Array.from(crlf.table!.columns.yield.values)).toEqual([2.5, 3.5]);
+    const tsv = parseCsv('dose\tyield\n1\t2.5\n2\t3.5\n');
+    expect(Object.keys(tsv.table!.columns)).toEqual(['dose', 'yield']);
+  });
+
+  it('skips blank lines and trims cells', () => {
+    const r = parseCsv('site , n\n\n north , 3 \n\nsouth,4\n');
+    expect(r.table!.rows).toBe(2);
+    expect(r.table!.columns.site.levels).toEqual(['north', 'south']);
+    expect(r.table!.columns.n.type).toBe('integer');
+  });
+
   it('detects a semicolon delimiter', () => {
     const r = parseCsv('x;y\n1;2\n3;4\n');
     expect(Array.from(r.table!.columns.y.values)).toEqual([2, 4]);
