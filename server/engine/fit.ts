@@ -123,8 +123,11 @@ export async function runFit(
 
   const summary = summarise(p, chains, settings, sampler, samplerReason);
   if (opts.computeMode) {
+    // Absent when the Newton iterations did not converge (the draws are still summarised).
     const mode = findMode(p);
-    summary.mode = Object.fromEntries(target.names.map((n, i) => [n, mode.theta[i]]));
+    if (mode.converged && mode.theta.every(Number.isFinite)) {
+      summary.mode = Object.fromEntries(target.names.map((n, i) => [n, mode.theta[i]]));
+    }
   }
   summary.seconds = (performance.now() - started) / 1000;
   return {

@@ -118,6 +118,9 @@ export async function main(argv: string[], io: CliIo = processIo, opts: CliOptio
         : undefined,
     });
     if (io.progress) io.stderr('\r' + ' '.repeat(60) + '\r');
+    if (args.mode && !result.summary.mode) {
+      io.stderr('The maximum a posteriori search did not converge, so no mode is reported.\n');
+    }
     const model = path.basename(args.modelPath);
     io.stdout((args.json ? summaryJson(result.summary, model) : summaryTable(result.summary, model)) + '\n');
     if (args.drawsOut) {
