@@ -265,7 +265,8 @@ function phaseOne(A: Float64Array, b: Float64Array, m: number, n: number, labels
   if (minSlack > 1e-3 * bscale) return z;
   const T = 1 * bscale;
   let t = minSlack - 1;
-  const rho = 1e-8;
+  // Keeps z finite on unbounded regions (the barrier alone would push it off to infinity).
+  const rho = 1e-2 / (bscale * bscale);
   const nv = n + 1;
   const H = new Float64Array(nv * nv);
   const g = new Float64Array(nv);
@@ -286,6 +287,7 @@ function phaseOne(A: Float64Array, b: Float64Array, m: number, n: number, labels
   };
   const zTrial = new Float64Array(n);
   let mu = 1;
+  let provedEmpty = false;
   for (let outer = 0; outer < 60; outer++) {
     for (let it = 0; it < 80; it++) {
       // slacks
@@ -343,7 +345,10 @@ function phaseOne(A: Float64Array, b: Float64Array, m: number, n: number, labels
     if (t >= 0.5 * T || (t > tolT && t * 2 > (m + 1) * mu)) return z;
     // Upper bound on the best common slack (duality gap of the centred barrier problem).
     const upper = t + (m + 1) * mu;
-    if (upper < -tolT || mu < 1e-13) {
+    if (upper < -tolT && !provedEmpty) provedEmpty = true;
+    // Once emptiness is proven, keep lowering μ a little so the dual weights single out the rows
+    // that really conflict (inactive rows' weights shrink with μ).
+    if ((provedEmpty && mu < 1e-10) || mu < 1e-13) {
       const lambda = new Float64Array(m);
       let lmax = 0;
       for (let i = 0; i < m; i++) {
@@ -357,7 +362,7 @@ function phaseOne(A: Float64Array, b: Float64Array, m: number, n: number, labels
         .sort((i, j) => lambda[j] - lambda[i])
         .sort((i, j) => i - j);
       const names = idx.map((i) => labels[i]);
-      if (upper < -tolT) {
+      if (provedEmpty) {
         throw new RegionError(
           names.length === 2
             ? `The constraints ${listLabels(names)} cannot both hold.`
@@ -391,7 +396,7 @@ export function analyticCentre(
   b: Float64Array,
   z0: Float64Array,
   rho: number,
-  maxIter = 200,
+  maxIter = 500,
 ): { z: Float64Array; converged: boolean; hessL: Float64Array | null } {
   const { m, n } = rows;
   const z = Float64Array.from(z0);

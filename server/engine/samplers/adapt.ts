@@ -45,8 +45,7 @@ export class DualAveraging {
 export function windowEnds(warmup: number): Set<number> {
   const ends = new Set<number>();
   if (warmup < 20) return ends;
-  const init = Math.floor(0.15 * warmup);
-  const term = Math.floor(0.1 * warmup);
+  const { init, term } = warmupBuffers(warmup);
   const slowEnd = warmup - term;
   let start = init;
   let size = 25;
@@ -58,4 +57,9 @@ export function windowEnds(warmup: number): Set<number> {
     size *= 2;
   }
   return ends;
+}
+
+/** Fast initial and final buffers: 15% and 25% of warm-up (the final one lets the step size settle). */
+export function warmupBuffers(warmup: number): { init: number; term: number } {
+  return { init: Math.floor(0.15 * warmup), term: Math.floor(0.25 * warmup) };
 }
