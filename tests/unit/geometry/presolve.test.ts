@@ -139,7 +139,7 @@ describe('empty regions and regions without interior name the conflicting constr
 
   it('an inequality that contradicts the equalities (Σw = 1 with w₁ ≥ 2 and w ≥ 0)', () => {
     const t = equalitySimplexTarget(3);
-    const rows = [
+    const rows: { a: Record<number, number>; b: number; label: string }[] = [
       { a: { 0: -1 }, b: 0, label: 'w[1] >= 0' },
       { a: { 1: -1 }, b: 0, label: 'w[2] >= 0' },
       { a: { 2: -1 }, b: 0, label: 'w[3] >= 0' },
