@@ -16,6 +16,7 @@ import { pathToFileURL } from 'node:url';
 import type { ChainResult, ModelTarget, SamplerName, TargetSpec } from './types';
 import { prepareTarget, type PreparedTarget } from './geometry';
 import { sampleChain } from './samplers';
+import { compileProgram } from './compile';
 
 export interface ChainJob {
   spec: TargetSpec;
@@ -30,20 +31,7 @@ export interface ChainJob {
 
 /** Builds the model target a spec describes. */
 export async function buildTarget(spec: TargetSpec): Promise<ModelTarget> {
-  if (spec.kind === 'program') {
-    // The compiler lives in ./compile; loaded lazily so the engine works without it for module specs.
-    const compilerUrl = new URL('./compile/index.ts', import.meta.url).href;
-    let compiler: { compileProgram(source: string, tables: unknown): ModelTarget };
-    try {
-      compiler = await import(/* @vite-ignore */ compilerUrl);
-    } catch (e) {
-      if ((e as NodeJS.ErrnoException).code === 'ERR_MODULE_NOT_FOUND' && String((e as Error).message).includes('compile')) {
-        throw new Error('The model-language compiler is not part of this build; only module targets can be fitted.');
-      }
-      throw e;
-    }
-    return compiler.compileProgram(spec.source, spec.tables);
-  }
+  if (spec.kind === 'program') return compileProgram(spec.source, spec.tables);
   const url = spec.modulePath.startsWith('file:') ? spec.modulePath : pathToFileURL(spec.modulePath).href;
   const mod = (await import(/* @vite-ignore */ url)) as Record<string, unknown>;
   const factory = mod[spec.exportName];
