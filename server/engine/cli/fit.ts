@@ -155,10 +155,6 @@ function reportFailure(e: unknown, args: CliArgs, io: CliIo): number {
     if (err.messages.length === 0) io.stderr(`${args.modelPath}: ${err.message}\n`);
     return 1;
   }
-  if (err?.name === 'RegionError') {
-    io.stderr(`The constraints leave no room to sample: ${err.message}\n`);
-    return 1;
-  }
   io.stderr(`${err?.message ?? String(e)}\n`);
   return 1;
 }

@@ -55,6 +55,18 @@ describe('fit command with model-language programs', () => {
     expect(io.err).toMatch(/^bad\.slk:2:23: unknown name `sigmaa`/m);
   });
 
+  it('names the constraints that cannot both hold', async () => {
+    const io = memoryIo({ 'c.slk': 'unknown mu\nterm ld_normal(mu, 0, 1)\nconstrain mu >= 2\nconstrain mu <= 1\n' });
+    expect(await main(['c.slk'], io, { parallel: false })).toBe(1);
+    expect(io.err).toMatch(/"line 3: mu >= 2" and "line 4: mu <= 1" cannot both hold/);
+  });
+
+  it('says so when the log-density is not finite at the start, without hanging', async () => {
+    const io = memoryIo({ 'nf.slk': 'unknown mu\nterm log(mu - 5)\nconstrain 0 <= mu <= 1\n' });
+    expect(await main(['nf.slk', '--chains', '1', '--warmup', '50', '--draws', '50'], io, { parallel: false })).toBe(1);
+    expect(io.err).toMatch(/log-density is -Infinity at the starting point/);
+  });
+
   for (const [model, csv] of [
     ['samples/orchard-dose.slk', 'samples/orchard_dose.csv'],
     ['samples/river-sediment.slk', 'samples/river_samples.csv'],
