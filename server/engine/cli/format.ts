@@ -4,6 +4,7 @@
  */
 import type { FitSummary } from '../../../shared/fit';
 import type { FitResult } from '../types';
+import { THRESHOLDS } from '../diagnostics/verdict';
 
 /** Version of the JSON document; raised only when a field changes meaning or disappears. */
 export const JSON_FORMAT_VERSION = 1;
@@ -75,7 +76,14 @@ export function summaryTable(summary: FitSummary, model?: string): string {
       `seed ${s.seed}, ${fmtNum(summary.seconds, 3)} s`,
   );
   out.push(`Sampler: ${d.samplerUsed} — ${d.samplerReason}`);
+  if (summary.verdict.level !== 'trustworthy') {
+    out.push(`Warning — ${summary.verdict.reason}`);
+  }
   out.push('');
+  // "!" marks a quantity whose own R̂ or ESS fails the verdict's thresholds.
+  const essNeeded = THRESHOLDS.essPerChain * s.chains;
+  const flag = (q: FitSummary['quantities'][number]) =>
+    q.rhat > THRESHOLDS.rhatRunLonger || q.essBulk < essNeeded || q.essTail < essNeeded ? '!' : '';
   const rows = summary.quantities.map((q) => [
     q.kind === 'derived' ? `${q.name} (derived)` : q.name,
     fmtNum(q.mean),
@@ -87,8 +95,9 @@ export function summaryTable(summary: FitSummary, model?: string): string {
     fmtInt(q.essBulk),
     fmtInt(q.essTail),
     fmtNum(q.mcseMean, 2),
+    flag(q),
   ]);
-  out.push(table(['quantity', 'mean', 'sd', '5%', '50%', '95%', 'R̂', 'ess-bulk', 'ess-tail', 'mcse-mean'], rows));
+  out.push(table(['quantity', 'mean', 'sd', '5%', '50%', '95%', 'R̂', 'ess-bulk', 'ess-tail', 'mcse-mean', ''], rows));
   if (summary.mode) {
     out.push('');
     out.push('Maximum a posteriori:');

@@ -108,7 +108,7 @@ export function judgeRun(input: VerdictInput): Verdict {
     advice:
       share > t.divergenceShareDoNotUse
         ? `more than ${100 * t.divergenceShareDoNotUse}% of transitions diverged, so parts of the region were not explored`
-        : 'a few transitions diverged; inspect where they occur before relying on the results',
+        : 'a few transitions diverged; inspect where they occur',
   });
   if (input.efmi && input.efmi.length > 0) {
     const low = Math.min(...input.efmi);

@@ -7,7 +7,7 @@ import { fileURLToPath } from 'node:url';
 import Papa from 'papaparse';
 import { parseCliArgs } from '../../../server/engine/cli/args';
 import { main, type CliIo } from '../../../server/engine/cli/fit';
-import { fmtNum } from '../../../server/engine/cli/format';
+import { fmtNum, summaryTable } from '../../../server/engine/cli/format';
 
 const MODEL = fileURLToPath(new URL('./cli-model.ts', import.meta.url));
 const ROOT = fileURLToPath(new URL('../../../', import.meta.url));
@@ -106,6 +106,9 @@ describe('fit command (module model, in-process chains)', () => {
     expect(io.out).toMatch(/\nshift \(derived\)/);
     expect(io.out).toMatch(/Verdict: (TRUSTWORTHY|RUN LONGER|DO NOT USE) — /);
     expect(io.out).toMatch(/ (pass|FAIL) {2}chains agree/);
+    // A warning line under the header whenever the verdict is not "trustworthy".
+    const doc = io.out.split('\n');
+    expect(doc[2].startsWith('Warning — ')).toBe(!io.out.includes('Verdict: TRUSTWORTHY'));
     const csv = Papa.parse<string[]>(io.written['out.csv'].trim()).data;
     expect(csv[0]).toEqual(['chain', 'iteration', 'mu', 'shift']);
     expect(csv).toHaveLength(1 + 2 * 200);
@@ -144,6 +147,30 @@ describe('fit command (module model, in-process chains)', () => {
         `${MODEL}:5:1: constraint is not affine in the unknowns\n` +
         `${MODEL}:6:3: warning: this term does not depend on any unknown\n`,
     );
+  });
+
+  it('marks quantities that fail a threshold and warns under the header', () => {
+    const q = (name: string, rhat: number, ess: number) => ({
+      name, kind: 'unknown' as const, mean: 1, sd: 0.5, q5: 0.2, q50: 1, q95: 1.8, rhat, essBulk: ess, essTail: ess,
+      mcseMean: 0.01, mcseQ5: 0.02, mcseQ50: 0.02, mcseQ95: 0.02,
+    });
+    const text = summaryTable({
+      quantities: [q('a', 1.001, 900), q('b', 1.03, 900), q('c', 1.0, 150)],
+      diagnostics: {
+        divergences: 0, acceptance: 0.9, stepSize: 0, maxRhat: 1.03, minEssBulk: 150, minEssTail: 150,
+        samplerUsed: 'hitrun', samplerReason: 'test',
+      },
+      verdict: { level: 'run-longer', reason: 'Run longer before relying on these results: x.', rules: [] },
+      settings: { chains: 2, warmup: 100, draws: 100, seed: 1, sampler: 'hitrun' },
+      seconds: 1,
+    });
+    const lines = text.split('\n');
+    expect(lines[2]).toBe('Warning — Run longer before relying on these results: x.');
+    // Thresholds: R̂ 1.01 and 100 × 2 chains = 200 (verdict.ts).
+    expect(lines.find((l) => l.startsWith('a '))!.trimEnd().endsWith('!')).toBe(false);
+    expect(lines.find((l) => l.startsWith('b '))!.trimEnd().endsWith('!')).toBe(true);
+    expect(lines.find((l) => l.startsWith('c '))!.trimEnd().endsWith('!')).toBe(true);
+    expect(text).toContain('step size n/a');
   });
 
   it('formats numbers with four significant figures', () => {
