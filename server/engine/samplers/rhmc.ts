@@ -46,6 +46,8 @@ export interface RhmcSettings {
   fullNewton: number;
   maxNewton: number;
   maxFixedPoint: number;
+  /** Newton iterations that refactorise M in the run-back solve (then the chord method). */
+  checkFullNewton: number;
   /** Run each step back and require the start (Noble, De Bortoli & Durmus 2023). */
   involutionCheck: boolean;
   /** Largest Dikin-norm distance between the start and the run-back point. */
@@ -60,10 +62,14 @@ export const DEFAULT_RHMC: RhmcSettings = {
   trajectoryLength: 2.5,
   maxSteps: 64,
   tolerance: 1e-10,
-  fullNewton: 2,
-  maxNewton: 12,
+  // One factorisation of M per solve, then chord iterations (cheap O(n²) solves with the same
+  // factor): measured on the 50-simplex, 3 factorisations per step and ~1.5× faster end to end than
+  // refactorising twice, with the same step size and ESS.
+  fullNewton: 1,
+  maxNewton: 30,
   maxFixedPoint: 60,
   involutionCheck: true,
+  checkFullNewton: 1,
   involutionTolerance: 1e-7,
 };
 
@@ -256,7 +262,16 @@ export class BarrierIntegrator {
    * z' = z + ε/2 (v + w) with g(z') w = p½, by Newton in w from w₀ = v (see the module comment).
    * On success zN, sN hold z' and its slacks and w holds g(z')⁻¹ p½ to the solver's tolerance.
    */
-  private position(cur: PointState, ph: Float64Array, v: Float64Array, eps: number, zN: Float64Array, sN: Float64Array, w: Float64Array): StepResult {
+  private position(
+    cur: PointState,
+    ph: Float64Array,
+    v: Float64Array,
+    eps: number,
+    zN: Float64Array,
+    sN: Float64Array,
+    w: Float64Array,
+    fullNewton: number,
+  ): StepResult {
     const { n, m, rows, settings } = this;
     const half = 0.5 * eps;
     w.set(v);
@@ -272,7 +287,7 @@ export class BarrierIntegrator {
       for (let i = 0; i < m; i++) this.vm2[i] = Aw[i] / (sN[i] * sN[i]);
       rows.mulT(this.vm2, F);
       for (let q = 0; q < n; q++) F[q] += lam[q] * w[q] - ph[q];
-      if (it < settings.fullNewton) {
+      if (it < fullNewton) {
         for (let i = 0; i < m; i++) {
           const si = sN[i];
           this.wts[i] = (1 + (eps * Aw[i]) / si) / (si * si);
@@ -326,7 +341,7 @@ export class BarrierIntegrator {
     const gH = this.vn3;
     const w = this.vn4;
     if (!this.halfMomentum(cur, pm, eps, ph, v, gH)) return 'no-convergence-p';
-    const r1 = this.position(cur, ph, v, eps, next.z, next.s, w);
+    const r1 = this.position(cur, ph, v, eps, next.z, next.s, w, this.settings.fullNewton);
     if (r1 !== 'ok') return r1;
     const r = this.evaluate(next);
     if (r !== 'ok') return r;
@@ -338,7 +353,7 @@ export class BarrierIntegrator {
     const pb = this.bk1;
     for (let q = 0; q < n; q++) pb[q] = -pm[q];
     if (!this.halfMomentum(next, pb, eps, this.bk2, this.bk3, this.bk4)) return 'involution';
-    const rb = this.position(next, this.bk2, this.bk3, eps, this.bkZ, this.bkS, this.bk4);
+    const rb = this.position(next, this.bk2, this.bk3, eps, this.bkZ, this.bkS, this.bk4, this.settings.checkFullNewton);
     if (rb !== 'ok') return 'involution';
     let err = 0;
     for (let q = 0; q < n; q++) this.bk1[q] = this.bkZ[q] - cur.z[q];

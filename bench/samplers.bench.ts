@@ -1,0 +1,84 @@
+/**
+ * Sampler benchmark: barrier-metric RHMC and rounded hit-and-run on the uniform simplex and the
+ * order simplex in 50 dimensions. Records min(bulk, tail) ESS per draw over all coordinates (goal
+ * for RHMC ≥ 0.3), metric factorisations per integrator step (goal ≤ 4), the adapted step size,
+ * seconds, and the Cholesky kernel comparison behind linalg/cholesky.ts's choice.
+ * Runnable alone: `npx tsx bench/samplers.bench.ts`.
+ */
+import { fileURLToPath } from 'node:url';
+import { dispersedStarts, prepareTarget } from '../server/engine/geometry';
+import { sampleChain } from '../server/engine/samplers';
+import { stepResultCounts } from '../server/engine/samplers/rhmc';
+import { setCholeskyKernel } from '../server/engine/linalg/cholesky';
+import { essBulk, essTail } from '../server/engine/diagnostics';
+import { Rng } from '../server/engine/rng';
+import type { ModelTarget, SamplerName } from '../server/engine/types';
+import { orderSimplexTarget, uniformSimplexTarget } from '../tests/unit/samplers/targets';
+
+const CHAINS = 2;
+
+function measure(target: ModelTarget, sampler: SamplerName, warmup: number, draws: number, seed: number) {
+  const p = prepareTarget(target);
+  const starts = dispersedStarts(p, CHAINS, new Rng(seed, 999));
+  const t0 = performance.now();
+  const outs = starts.map((s, c) => sampleChain(p, sampler, s, { warmup, draws, seed, chain: c }));
+  const seconds = (performance.now() - t0) / 1000;
+  const dim = target.dim;
+  let minEss = Infinity;
+  for (let j = 0; j < dim; j++) {
+    const ch = outs.map((o) => Float64Array.from({ length: draws }, (_, k) => o.draws[k * dim + j]));
+    minEss = Math.min(minEss, essBulk(ch), essTail(ch));
+  }
+  const total = CHAINS * draws;
+  const div = outs.reduce((s, o) => s + o.divergent.reduce((a, b) => a + b, 0), 0);
+  return {
+    essPerDraw: minEss / total,
+    seconds,
+    stepSize: outs.reduce((s, o) => s + o.stepSize, 0) / CHAINS,
+    fps: outs.reduce((s, o) => s + (o.factorizationsPerStep ?? NaN), 0) / CHAINS,
+    divergentFraction: div / total,
+    acceptance: outs.reduce((s, o) => s + o.acceptStat.reduce((a, b) => a + b, 0), 0) / total,
+  };
+}
+
+export async function run(): Promise<Record<string, number | string>> {
+  const out: Record<string, number | string> = { chains: CHAINS };
+  const cases: [string, ModelTarget][] = [
+    ['simplex50', uniformSimplexTarget(50)],
+    ['order50', orderSimplexTarget(50)],
+  ];
+  const W = 300;
+  const D = 500;
+  out.rhmcWarmupDraws = `${W}/${D}`;
+  for (const [name, t] of cases) {
+    for (const k of Object.keys(stepResultCounts)) delete stepResultCounts[k];
+    const r = measure(t, 'rhmc', W, D, 2026);
+    out[`${name}.rhmc.essPerDraw`] = r.essPerDraw;
+    out[`${name}.rhmc.factorizationsPerStep`] = r.fps;
+    out[`${name}.rhmc.stepSize`] = r.stepSize;
+    out[`${name}.rhmc.acceptance`] = r.acceptance;
+    out[`${name}.rhmc.divergentFraction`] = r.divergentFraction;
+    out[`${name}.rhmc.seconds`] = r.seconds;
+    const steps = Object.values(stepResultCounts).reduce((a, b) => a + b, 0);
+    out[`${name}.rhmc.failedStepFraction`] = steps > 0 ? 1 - (stepResultCounts.ok ?? 0) / steps : NaN;
+    const h = measure(t, 'hitrun', W, D, 2026);
+    out[`${name}.hitrun.essPerDraw`] = h.essPerDraw;
+    out[`${name}.hitrun.seconds`] = h.seconds;
+  }
+  // Cholesky kernel: the same short RHMC run with ml-matrix's decomposition and with the in-place loop.
+  const t = uniformSimplexTarget(50);
+  setCholeskyKernel('ml-matrix');
+  const ml = measure(t, 'rhmc', 60, 60, 7);
+  setCholeskyKernel('inplace');
+  const ip = measure(t, 'rhmc', 60, 60, 7);
+  out['cholesky.mlMatrix.seconds'] = ml.seconds;
+  out['cholesky.inplace.seconds'] = ip.seconds;
+  out['cholesky.speedup'] = ml.seconds / ip.seconds;
+  return out;
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  run().then((r) => {
+    for (const [k, v] of Object.entries(r)) console.log(k.padEnd(40), typeof v === 'number' ? Number(v.toPrecision(4)) : v);
+  });
+}
