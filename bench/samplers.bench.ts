@@ -8,12 +8,12 @@
 import { fileURLToPath } from 'node:url';
 import { dispersedStarts, prepareTarget } from '../server/engine/geometry';
 import { sampleChain } from '../server/engine/samplers';
-import { stepResultCounts } from '../server/engine/samplers/rhmc';
+import { DEFAULT_RHMC, stepResultCounts } from '../server/engine/samplers/rhmc';
 import { setCholeskyKernel } from '../server/engine/linalg/cholesky';
 import { essBulk, essTail } from '../server/engine/diagnostics';
 import { Rng } from '../server/engine/rng';
 import type { ModelTarget, SamplerName } from '../server/engine/types';
-import { orderSimplexTarget, uniformSimplexTarget } from '../tests/unit/samplers/targets';
+import { gaussianOnSimplexTarget, orderedMeansTarget, orderSimplexTarget, uniformSimplexTarget } from '../tests/unit/samplers/targets';
 
 const CHAINS = 2;
 
@@ -65,6 +65,22 @@ export async function run(): Promise<Record<string, number | string>> {
     out[`${name}.hitrun.essPerDraw`] = h.essPerDraw;
     out[`${name}.hitrun.seconds`] = h.seconds;
   }
+  // Λ adaptation: likelihood curvature (default) against inverse warm-up variances, on two
+  // likelihood-dominated constrained targets.
+  const y = [0.8, 1.1, 0.9, 1.6, 2.2, 2.0, 2.9, 3.1, 2.7, 3.8];
+  const metricCases: [string, ModelTarget][] = [
+    ['ordered10', orderedMeansTarget({ y, sigma: 0.3 })],
+    ['gaussOnSimplex10', gaussianOnSimplexTarget({ d: 10, centre: 0.08, sd: 0.03 })],
+  ];
+  for (const mode of ['curvature', 'variance'] as const) {
+    DEFAULT_RHMC.metricAdaptation = mode;
+    for (const [name, t] of metricCases) {
+      const r = measure(t, 'rhmc', 300, 500, 5);
+      out[`metric.${mode}.${name}.essPerDraw`] = r.essPerDraw;
+      out[`metric.${mode}.${name}.seconds`] = r.seconds;
+    }
+  }
+  DEFAULT_RHMC.metricAdaptation = 'curvature';
   // Cholesky kernel: the same short RHMC run with ml-matrix's decomposition and with the in-place loop.
   const t = uniformSimplexTarget(50);
   setCholeskyKernel('ml-matrix');

@@ -46,6 +46,12 @@ export interface RhmcSettings {
   fullNewton: number;
   maxNewton: number;
   maxFixedPoint: number;
+  /**
+   * How Λ is adapted in warm-up when there are inequalities: the diagonal of −∇²ℓ averaged over a
+   * few points per window ('curvature'), or the inverse warm-up variances ('variance'). Without
+   * inequalities the inverse variances are always used. Compared in bench/samplers.bench.ts.
+   */
+  metricAdaptation: 'curvature' | 'variance';
   /** Newton iterations that refactorise M in the run-back solve (then the chord method). */
   checkFullNewton: number;
   /** Run each step back and require the start (Noble, De Bortoli & Durmus 2023). */
@@ -70,6 +76,7 @@ export const DEFAULT_RHMC: RhmcSettings = {
   maxFixedPoint: 60,
   involutionCheck: true,
   checkFullNewton: 1,
+  metricAdaptation: 'curvature',
   involutionTolerance: 1e-7,
 };
 
@@ -554,7 +561,7 @@ export function rhmcChain(
         const end = nextEnd(it);
         const len = end - windowStart + 1;
         const every = Math.max(1, Math.floor(len / 5));
-        if (m > 0 && (it - windowStart) % every === every - 1 && Number.isFinite(end)) {
+        if (m > 0 && settings.metricAdaptation === 'curvature' && (it - windowStart) % every === every - 1 && Number.isFinite(end)) {
           const sd = new Float64Array(n);
           for (let q = 0; q < n; q++) sd[q] = 1 / Math.sqrt(Math.max(integ.lambda[q], floor) + 1e-300);
           // step scale from the full metric diagonal
@@ -568,7 +575,8 @@ export function rhmcChain(
           for (let q = 0; q < n; q++) curvSum[q] += curv[q];
           curvCount++;
         }
-        if (m === 0) {
+        const useVariance = m === 0 || settings.metricAdaptation === 'variance';
+        if (useVariance) {
           wCount++;
           for (let q = 0; q < n; q++) {
             const d = state.z[q] - wMean[q];
@@ -577,10 +585,11 @@ export function rhmcChain(
           }
         }
         if (ends.has(it)) {
-          if (m === 0 && wCount > 2) {
+          if (useVariance && wCount > 2) {
             for (let q = 0; q < n; q++) {
               const v = wM2[q] / (wCount - 1);
-              lambda[q] = 1 / ((wCount / (wCount + 5)) * v + 1e-3 * (5 / (wCount + 5)));
+              const reg = m === 0 ? 1e-3 : floor > 0 ? 1 / floor : 1e-3;
+              lambda[q] = 1 / ((wCount / (wCount + 5)) * v + Math.min(1e-3, reg) * (5 / (wCount + 5)));
             }
             wMean.fill(0);
             wM2.fill(0);
@@ -589,7 +598,7 @@ export function rhmcChain(
             curvSum.fill(0);
           }
           if (curvCount > 0) {
-            if (m > 0) for (let q = 0; q < n; q++) lambda[q] = Math.max(curvSum[q] / curvCount, floor);
+            if (!useVariance) for (let q = 0; q < n; q++) lambda[q] = Math.max(curvSum[q] / curvCount, floor);
             curvSum.fill(0);
             curvCount = 0;
             const keep = integ;
