@@ -62,6 +62,9 @@ export function sampleChain(p: PreparedTarget, sampler: SamplerName, start: Floa
       `The log-density is ${Number.isNaN(l) ? 'not a number' : l} at the chain's starting point (${shown}${p.target.dim > 6 ? ', …' : ''}). Check that every term is defined everywhere the constraints allow.`,
     );
   }
+  if (isFlat(p) && !p.bounded) {
+    throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
+  }
   if (sampler === 'hitrun') return hitRunChain(p, start, opts, rng, check);
   if (sampler === 'rhmc') return rhmcChain(p, start, opts, rng, check);
   throw new Error(`unknown sampler "${String(sampler)}"`);

@@ -115,3 +115,15 @@ describe('automatic choice', () => {
     expect(c.reason).toMatch(/no inequality/);
   });
 });
+
+describe('improper targets', () => {
+  it('a constant log-density on an unbounded region is refused with a clear message', () => {
+    const p = prepareTarget(orderedMeansTarget({ y: [1, 2, 3], sigma: 1 }));
+    const flat: ModelTarget = { ...p.target, logDensity: (_t, g) => (g.fill(0), 0) };
+    const pf = prepareTarget(flat);
+    expect(() => chooseSampler(pf)).toThrow(/improper/);
+    for (const s of ['rhmc', 'hitrun'] as const) {
+      expect(() => sampleChain(pf, s, pf.centre, { warmup: 10, draws: 10, seed: 1, chain: 0 })).toThrow(/improper/);
+    }
+  });
+});
