@@ -181,11 +181,22 @@ export class BarrierIntegrator {
   evaluate(ps: PointState): StepResult {
     const { m, n, rows } = this;
     if (!this.slacks(ps.z, ps.s)) return 'left-region';
-    for (let i = 0; i < m; i++) this.wts[i] = 1 / (ps.s[i] * ps.s[i]);
-    rows.gram(this.wts, this.lambda, this.G);
-    this.factorizations++;
-    if (!ps.chol.factor(this.G)) return 'not-finite';
-    ps.logDet = ps.chol.logDet();
+    if (m === 0) {
+      // Euclidean metric g = Λ: its factor is diagonal, no factorisation needed.
+      const L = ps.chol.L;
+      let ld = 0;
+      for (let q = 0; q < n; q++) {
+        L[q * n + q] = Math.sqrt(this.lambda[q]);
+        ld += Math.log(this.lambda[q]);
+      }
+      ps.logDet = ld;
+    } else {
+      for (let i = 0; i < m; i++) this.wts[i] = 1 / (ps.s[i] * ps.s[i]);
+      rows.gram(this.wts, this.lambda, this.G);
+      this.factorizations++;
+      if (!ps.chol.factor(this.G)) return 'not-finite';
+      ps.logDet = ps.chol.logDet();
+    }
     const l = this.p.logDensity(ps.z, ps.gradL);
     if (!Number.isFinite(l)) return 'not-finite';
     for (let q = 0; q < n; q++) if (!Number.isFinite(ps.gradL[q])) return 'not-finite';
@@ -347,6 +358,18 @@ export class BarrierIntegrator {
     const v = this.vn2;
     const gH = this.vn3;
     const w = this.vn4;
+    if (this.m === 0) {
+      // Separable H (constant metric Λ): the explicit leapfrog, exactly reversible.
+      const lam = this.lambda;
+      for (let q = 0; q < n; q++) {
+        ph[q] = pm[q] - half * cur.gradU[q];
+        next.z[q] = cur.z[q] + (eps * ph[q]) / lam[q];
+      }
+      const r0 = this.evaluate(next);
+      if (r0 !== 'ok') return r0;
+      for (let q = 0; q < n; q++) pm[q] = ph[q] - half * next.gradU[q];
+      return 'ok';
+    }
     if (!this.halfMomentum(cur, pm, eps, ph, v, gH)) return 'no-convergence-p';
     const r1 = this.position(cur, ph, v, eps, next.z, next.s, w, this.settings.fullNewton);
     if (r1 !== 'ok') return r1;

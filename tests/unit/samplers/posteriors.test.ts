@@ -4,7 +4,7 @@
 import { describe, expect, it } from 'vitest';
 import normal from '@stdlib/stats-base-dists-normal';
 import { betaMoments, expectAllFeasible, expectMean, expectVariance, runChains } from './helpers';
-import { betaBinomialTarget, normalMeanTarget, truncatedNormalTarget } from './targets';
+import { betaBinomialTarget, bivariateNormalTarget, normalMeanTarget, truncatedNormalTarget } from './targets';
 
 /**
  * Mean and variance of N(0, 1) truncated to [a, b] (Johnson, Kotz & Balakrishnan, Continuous
@@ -72,5 +72,18 @@ describe('conjugate posteriors (Gelman et al., Bayesian Data Analysis, 3rd ed.)'
     expectMean(run, 0, mean);
     expectVariance(run, 0, mean, variance);
     expectAllFeasible(run);
+  }, 30_000);
+});
+
+describe('no inequalities: Euclidean HMC with an adapted diagonal metric', () => {
+  it('a correlated bivariate normal: marginal means and variances (definition of the distribution)', () => {
+    const args = { m1: 1, m2: -2, s1: 1, s2: 3, r: 0.6 };
+    const run = runChains(bivariateNormalTarget(args), 'rhmc', { warmup: 400, draws: 1500, seed: 47 });
+    expect(run.p.m).toBe(0);
+    expect(run.outs[0].factorizationsPerStep).toBe(0);
+    expectMean(run, 0, args.m1);
+    expectMean(run, 1, args.m2);
+    expectVariance(run, 0, args.m1, args.s1 ** 2);
+    expectVariance(run, 1, args.m2, args.s2 ** 2);
   }, 30_000);
 });

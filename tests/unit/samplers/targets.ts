@@ -161,3 +161,22 @@ export function gaussianOnSimplexTarget(args: { d: number; centre: number; sd: n
     },
   };
 }
+
+/** Bivariate normal with means (m1, m2), sds (s1, s2) and correlation r; no constraints. */
+export function bivariateNormalTarget(args: { m1: number; m2: number; s1: number; s2: number; r: number }): ModelTarget {
+  const { m1, m2, s1, s2, r } = args;
+  const k = 1 / (1 - r * r);
+  return {
+    dim: 2,
+    names: ['a', 'b'],
+    logDensity: (t, g) => {
+      const u = (t[0] - m1) / s1;
+      const v = (t[1] - m2) / s2;
+      g[0] = (-k * (u - r * v)) / s1;
+      g[1] = (-k * (v - r * u)) / s2;
+      return -0.5 * k * (u * u - 2 * r * u * v + v * v);
+    },
+    inequalities: emptySystem(2),
+    equalities: emptySystem(2),
+  };
+}
