@@ -73,10 +73,11 @@ export interface RhmcSettings {
 }
 
 export const DEFAULT_RHMC: RhmcSettings = {
-  // 0.9 rather than the usual 0.8: a failed implicit solve rejects the whole trajectory, and near a
-  // face those failures cluster, so a smaller step keeps the chain from sticking there (measured on
-  // the truncated normal and the simplex, see bench/samplers.bench.ts).
-  targetAccept: 0.9,
+  // 0.95 rather than the usual 0.8: a failed implicit solve rejects the whole trajectory (and counts
+  // as a divergence), and those failures rise steeply past a step-size cliff (see the module notes).
+  // Measured on the ordered-groups posterior (3 chains × 1000 draws): target 0.9 gave 96 divergent
+  // draws, 0.95 gave 2; on the truncated normal 0.8 let chains stick near a face.
+  targetAccept: 0.95,
   trajectoryLength: 2.5,
   maxSteps: 64,
   tolerance: 1e-10,

@@ -180,3 +180,46 @@ export function bivariateNormalTarget(args: { m1: number; m2: number; s1: number
     equalities: emptySystem(2),
   };
 }
+
+/**
+ * Group means under an ordering with a shared noise scale: y[g][i] ~ N(mu[g], sigma²),
+ * mu ~ N(0, 10²), sigma ~ half-N(0, 5²); constraints mu₁ ≤ … ≤ mu_G and sigma ≥ 0.01.
+ * θ = (mu[1..G], sigma). A realistic posterior without a closed form, for cross-checks.
+ */
+export function orderedGroupsTarget(args: { y: number[][] }): ModelTarget {
+  const G = args.y.length;
+  const dim = G + 1;
+  const rows: { a: Record<number, number>; b: number; label: string }[] = [];
+  for (let g = 0; g + 1 < G; g++) rows.push({ a: { [g]: 1, [g + 1]: -1 }, b: 0, label: `mu[${g + 1}] <= mu[${g + 2}]` });
+  rows.push({ a: { [G]: -1 }, b: -0.01, label: 'sigma >= 0.01' });
+  return {
+    dim,
+    names: [...names('mu', G), 'sigma'],
+    logDensity: (t, grad) => {
+      const sigma = t[G];
+      if (!(sigma > 0)) {
+        grad.fill(NaN);
+        return -Infinity;
+      }
+      let l = 0;
+      let gs = 0;
+      for (let g = 0; g < G; g++) {
+        let gm = -t[g] / 100;
+        l -= (t[g] * t[g]) / 200;
+        for (const v of args.y[g]) {
+          const r = v - t[g];
+          l -= (r * r) / (2 * sigma * sigma) + Math.log(sigma);
+          gm += r / (sigma * sigma);
+          gs += (r * r) / (sigma * sigma * sigma) - 1 / sigma;
+        }
+        grad[g] = gm;
+      }
+      l -= (sigma * sigma) / 50;
+      gs -= sigma / 25;
+      grad[G] = gs;
+      return l;
+    },
+    inequalities: system(dim, rows),
+    equalities: emptySystem(dim),
+  };
+}
