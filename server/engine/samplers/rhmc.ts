@@ -66,6 +66,14 @@ export interface RhmcSettings {
   metricAdaptation: 'curvature' | 'variance';
   /** Newton iterations that refactorise M in the run-back solve (then the chord method). */
   checkFullNewton: number;
+  /**
+   * Factor applied to dual averaging's final step size: solver failures rise steeply just above the
+   * adapted size (module notes), so a slightly smaller step keeps divergences rare after warm-up.
+   * Measured (4 seeds × 2 chains × 500 draws each on a Gaussian on the 10-simplex, the normal on
+   * [−1, 1] and the ordered-groups posterior): divergent draws 36 / 26 / 5 with factor 1, 2 / 2 / 0
+   * with 0.7, at similar ESS per draw and run time.
+   */
+  finalStepScale: number;
   /** Run each step back and require the start (Noble, De Bortoli & Durmus 2023). */
   involutionCheck: boolean;
   /** Largest Dikin-norm distance between the start and the run-back point. */
@@ -88,6 +96,7 @@ export const DEFAULT_RHMC: RhmcSettings = {
   maxNewton: 30,
   maxFixedPoint: 60,
   involutionCheck: true,
+  finalStepScale: 0.7,
   checkFullNewton: 1,
   metricAdaptation: 'curvature',
   involutionTolerance: 1e-7,
@@ -585,7 +594,7 @@ export function rhmcChain(
     if (opts.signal?.aborted) throw abortError();
     const warm = it < opts.warmup;
     if (it === opts.warmup) {
-      eps = opts.warmup > 0 ? da.final() : eps;
+      eps = opts.warmup > 0 ? settings.finalStepScale * da.final() : eps;
       factAtSampling = integ.factorizations;
       stepsAtSampling = integ.steps;
     }
