@@ -15,8 +15,8 @@ export type CholeskyKernel = 'ml-matrix' | 'inplace';
 
 /**
  * Measured with bench/samplers.bench.ts (RHMC on the uniform 50-simplex, 2 chains × 120
- * iterations, same seed): ml-matrix 46.3 s, in-place 17.2 s end to end, a 2.7× gain (2 shared
- * cores, 2026-12-02). The comparison is re-run and recorded by every `npm run bench`.
+ * iterations, same seed): ml-matrix 46.3 s, in-place 17.2 s end to end, a 2.7× gain; four runs on
+ * 2 shared cores (2026-12-02) gave 2.5–2.9×. The comparison is re-run by every `npm run bench`.
  */
 let DEFAULT_KERNEL: CholeskyKernel = 'inplace';
 
