@@ -1,0 +1,1 @@
+ALTER TABLE `cells` ADD `collapsed` boolean DEFAULT false NOT NULL;

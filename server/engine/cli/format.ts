@@ -1,0 +1,146 @@
+/**
+ * Output of the headless fit: a readable table, the stable JSON document (docs/engine.md) and the
+ * draws as CSV.
+ */
+import type { FitSummary } from '../../../shared/fit';
+import type { FitResult } from '../types';
+import { THRESHOLDS } from '../diagnostics/verdict';
+
+/** Version of the JSON document; raised only when a field changes meaning or disappears. */
+export const JSON_FORMAT_VERSION = 1;
+
+/** The JSON document printed by --json: the fit summary plus a format version. */
+export function summaryJson(summary: FitSummary, model?: string): string {
+  const doc = {
+    format: 'slackline-fit',
+    version: JSON_FORMAT_VERSION,
+    ...(model !== undefined ? { model } : {}),
+    quantities: summary.quantities.map((q) => ({
+      name: q.name,
+      kind: q.kind,
+      mean: q.mean,
+      sd: q.sd,
+      q5: q.q5,
+      q50: q.q50,
+      q95: q.q95,
+      rhat: q.rhat,
+      essBulk: q.essBulk,
+      essTail: q.essTail,
+      mcseMean: q.mcseMean,
+      mcseQ5: q.mcseQ5,
+      mcseQ50: q.mcseQ50,
+      mcseQ95: q.mcseQ95,
+    })),
+    diagnostics: summary.diagnostics,
+    verdict: summary.verdict,
+    settings: summary.settings,
+    seconds: summary.seconds,
+    ...(summary.mode ? { mode: summary.mode } : {}),
+  };
+  return JSON.stringify(doc, null, 2);
+}
+
+/** A number in `digits` significant figures, without exponent for ordinary magnitudes. */
+export function fmtNum(v: number, digits = 4): string {
+  if (!Number.isFinite(v)) return String(v);
+  if (v === 0) return '0';
+  const a = Math.abs(v);
+  if (a >= 1e6 || a < 1e-4) return v.toExponential(digits - 1);
+  return Number(v.toPrecision(digits)).toString();
+}
+
+function fmtInt(v: number): string {
+  return Number.isFinite(v) ? Math.round(v).toString() : String(v);
+}
+
+function table(header: string[], rows: string[][], leftCols = 1): string {
+  const widths = header.map((h, j) => Math.max(h.length, ...rows.map((r) => r[j].length)));
+  const line = (cells: string[]) =>
+    cells.map((c, j) => (j < leftCols ? c.padEnd(widths[j]) : c.padStart(widths[j]))).join('  ').trimEnd();
+  return [line(header), line(widths.map((w) => '─'.repeat(w))), ...rows.map(line)].join('\n');
+}
+
+const LEVEL_WORDS: Record<FitSummary['verdict']['level'], string> = {
+  trustworthy: 'TRUSTWORTHY',
+  'run-longer': 'RUN LONGER',
+  'do-not-use': 'DO NOT USE',
+};
+
+/** The readable summary printed without --json. */
+export function summaryTable(summary: FitSummary, model?: string): string {
+  const s = summary.settings;
+  const d = summary.diagnostics;
+  const out: string[] = [];
+  out.push(
+    `Fit${model ? ` of ${model}` : ''}: ${s.chains} chain${s.chains > 1 ? 's' : ''} × ${s.draws} draws after ${s.warmup} warm-up, ` +
+      `seed ${s.seed}, ${fmtNum(summary.seconds, 3)} s`,
+  );
+  out.push(`Sampler: ${d.samplerUsed} — ${d.samplerReason}`);
+  if (summary.verdict.level !== 'trustworthy') {
+    out.push(`Warning — ${summary.verdict.reason}`);
+  }
+  out.push('');
+  // "!" marks a quantity whose own R̂ or ESS fails the verdict's thresholds.
+  const essNeeded = THRESHOLDS.essPerChain * s.chains;
+  const flag = (q: FitSummary['quantities'][number]) =>
+    q.rhat > THRESHOLDS.rhatRunLonger || q.essBulk < essNeeded || q.essTail < essNeeded ? '!' : '';
+  const rows = summary.quantities.map((q) => [
+    q.kind === 'derived' ? `${q.name} (derived)` : q.name,
+    fmtNum(q.mean),
+    fmtNum(q.sd, 3),
+    fmtNum(q.q5),
+    fmtNum(q.q50),
+    fmtNum(q.q95),
+    q.rhat.toFixed(3),
+    fmtInt(q.essBulk),
+    fmtInt(q.essTail),
+    fmtNum(q.mcseMean, 2),
+    flag(q),
+  ]);
+  out.push(table(['quantity', 'mean', 'sd', '5%', '50%', '95%', 'R̂', 'ess-bulk', 'ess-tail', 'mcse-mean', ''], rows));
+  if (summary.mode) {
+    out.push('');
+    out.push('Maximum a posteriori:');
+    out.push(table(['quantity', 'mode'], Object.entries(summary.mode).map(([k, v]) => [k, fmtNum(v, 6)])));
+  }
+  out.push('');
+  const parts = [
+    `divergences ${d.divergences}`,
+    `acceptance ${fmtNum(d.acceptance, 3)}`,
+    `step size ${d.stepSize > 0 ? fmtNum(d.stepSize, 3) : 'n/a'}`,
+    `max R̂ ${d.maxRhat.toFixed(3)}`,
+    `min ess-bulk ${fmtInt(d.minEssBulk)}`,
+    `min ess-tail ${fmtInt(d.minEssTail)}`,
+  ];
+  if (d.efmi) parts.push(`E-FMI ${d.efmi.map((v) => fmtNum(v, 2)).join(' ')}`);
+  if (d.factorizationsPerStep !== undefined) parts.push(`factorisations/step ${fmtNum(d.factorizationsPerStep, 3)}`);
+  out.push(`Diagnostics: ${parts.join(' · ')}`);
+  out.push(`Verdict: ${LEVEL_WORDS[summary.verdict.level]} — ${summary.verdict.reason}`);
+  for (const r of summary.verdict.rules) out.push(`  ${r.passed ? 'pass' : 'FAIL'}  ${r.rule}: ${r.detail}`);
+  return out.join('\n');
+}
+
+function csvCell(s: string): string {
+  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+/**
+ * Every draw as CSV: columns chain, iteration (both 1-based; iteration counts kept draws), then the
+ * unknowns' flat coordinates, then the derived quantities. Numbers in shortest round-trip form.
+ */
+export function drawsCsv(result: FitResult): string {
+  const names = [...result.unknownNames, ...result.derivedNames];
+  const lines: string[] = [['chain', 'iteration', ...names].map(csvCell).join(',')];
+  const du = result.unknownNames.length;
+  const dd = result.derivedNames.length;
+  for (const ch of result.chains) {
+    const n = du > 0 ? ch.draws.length / du : ch.derivedDraws.length / Math.max(dd, 1);
+    for (let i = 0; i < n; i++) {
+      const cells: string[] = [String(ch.chain + 1), String(i + 1)];
+      for (let j = 0; j < du; j++) cells.push(String(ch.draws[i * du + j]));
+      for (let j = 0; j < dd; j++) cells.push(String(ch.derivedDraws[i * dd + j]));
+      lines.push(cells.join(','));
+    }
+  }
+  return lines.join('\n') + '\n';
+}

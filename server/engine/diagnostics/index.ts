@@ -1,0 +1,4 @@
+export * from './convergence';
+export * from './summary';
+export * from './verdict';
+export { autocovariance } from './autocovariance';

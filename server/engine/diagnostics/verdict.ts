@@ -1,0 +1,157 @@
+/**
+ * The plain-language verdict on a run. Every rule is checked and reported (passed or not) so the
+ * reader sees why; the level is the worst level among the failed rules.
+ *
+ * | rule                    | fails when                             | level       | source                           |
+ * |-------------------------|----------------------------------------|-------------|----------------------------------|
+ * | chains-agree            | max R̂ > 1.05                           | do-not-use  | ours (a judgement call)          |
+ * | chains-agree-closely    | max R̂ > 1.01                           | run-longer  | Vehtari et al. (2021), §4.4      |
+ * | enough-bulk-draws       | min bulk-ESS < 100 × chains            | run-longer  | Vehtari et al. (2021), §4.4      |
+ * | enough-tail-draws       | min tail-ESS < 100 × chains            | run-longer  | Vehtari et al. (2021), §4.4      |
+ * | no-divergences          | divergent share of kept draws > 1%     | do-not-use  | ours (a judgement call)          |
+ * | no-divergences          | 0 < divergent share ≤ 1%               | run-longer  | ours (a judgement call)          |
+ * | energy-explored         | any chain's E-FMI < 0.2                | run-longer  | ours; see below                  |
+ *
+ * Sources and judgement calls:
+ * - Vehtari et al. (2021) recommend using the draws only when R̂ < 1.01 and, with four chains,
+ *   bulk- and tail-ESS above 400 — i.e. 100 per chain, which we apply per chain for any number of
+ *   chains. Below that, more draws are the remedy: "run-longer".
+ * - R̂ above 1.05 means the chains describe visibly different distributions; we treat that as
+ *   "do-not-use" (our threshold, the older 1.1 convention made stricter).
+ * - Divergent transitions (energy error blow-up, leaving the region, an implicit step that does not
+ *   converge) mark parts of the region the integrator cannot follow, and running longer does not fix
+ *   the bias they signal. Any divergence fails the rule; more than 1% of draws is "do-not-use",
+ *   fewer is "run-longer" with an advice to inspect them (our thresholds).
+ * - E-FMI: Betancourt (2016, arXiv:1604.00695) reports that values below about 0.3 went with poor
+ *   exploration in his examples (from memory); we flag below 0.2 as "run-longer" (our threshold).
+ *   Samplers without an energy (hit-and-run) pass this rule as not applicable.
+ */
+import type { Verdict, VerdictLevel } from '../../../shared/fit';
+
+export const THRESHOLDS = {
+  rhatDoNotUse: 1.05,
+  rhatRunLonger: 1.01,
+  essPerChain: 100,
+  divergenceShareDoNotUse: 0.01,
+  efmiMin: 0.2,
+} as const;
+
+export interface VerdictInput {
+  chains: number;
+  /** Kept draws per chain. */
+  draws: number;
+  divergences: number;
+  maxRhat: number;
+  minEssBulk: number;
+  minEssTail: number;
+  /** Name of the quantity with the worst R̂ / ESS, for the message (optional). */
+  worstRhatName?: string;
+  worstEssName?: string;
+  efmi?: number[];
+}
+
+const SEVERITY: Record<VerdictLevel, number> = { trustworthy: 0, 'run-longer': 1, 'do-not-use': 2 };
+
+interface RuleOutcome {
+  rule: string;
+  passed: boolean;
+  detail: string;
+  level: VerdictLevel;
+  advice: string;
+}
+
+const fmt = (v: number, digits = 3) =>
+  Number.isFinite(v) ? Number(v.toPrecision(digits)).toString() : String(v);
+
+export function judgeRun(input: VerdictInput): Verdict {
+  const t = THRESHOLDS;
+  const out: RuleOutcome[] = [];
+  const rhatName = input.worstRhatName ? ` (${input.worstRhatName})` : '';
+  const essName = input.worstEssName ? ` (${input.worstEssName})` : '';
+
+  out.push({
+    rule: `chains agree: max R̂ ≤ ${t.rhatDoNotUse}`,
+    passed: input.maxRhat <= t.rhatDoNotUse,
+    detail: `max R̂ = ${fmt(input.maxRhat, 4)}${rhatName}`,
+    level: 'do-not-use',
+    advice: 'the chains disagree about the posterior',
+  });
+  out.push({
+    rule: `chains agree closely: max R̂ ≤ ${t.rhatRunLonger} (Vehtari et al. 2021)`,
+    passed: input.maxRhat <= t.rhatRunLonger,
+    detail: `max R̂ = ${fmt(input.maxRhat, 4)}${rhatName}`,
+    level: 'run-longer',
+    advice: 'the chains have not yet mixed well enough',
+  });
+  const essNeeded = t.essPerChain * input.chains;
+  out.push({
+    rule: `enough draws in the bulk: min bulk-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} (Vehtari et al. 2021)`,
+    passed: input.minEssBulk >= essNeeded,
+    detail: `min bulk-ESS = ${fmt(input.minEssBulk)}`,
+    level: 'run-longer',
+    advice: 'too few effective draws for stable means and medians',
+  });
+  out.push({
+    rule: `enough draws in the tails: min tail-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} (Vehtari et al. 2021)`,
+    passed: input.minEssTail >= essNeeded,
+    detail: `min tail-ESS = ${fmt(input.minEssTail)}${essName}`,
+    level: 'run-longer',
+    advice: 'too few effective draws for stable 5% and 95% quantiles',
+  });
+  const kept = input.chains * input.draws;
+  const share = kept > 0 ? input.divergences / kept : 0;
+  out.push({
+    rule: 'no divergent transitions while sampling',
+    passed: input.divergences === 0,
+    detail: `${input.divergences} of ${kept} draws (${fmt(100 * share, 2)}%)`,
+    level: share > t.divergenceShareDoNotUse ? 'do-not-use' : 'run-longer',
+    advice:
+      share > t.divergenceShareDoNotUse
+        ? `more than ${100 * t.divergenceShareDoNotUse}% of transitions diverged, so parts of the region were not explored`
+        : 'a few transitions diverged; inspect where they occur',
+  });
+  if (input.efmi && input.efmi.length > 0) {
+    const low = Math.min(...input.efmi);
+    out.push({
+      rule: `energy explored: every chain's E-FMI ≥ ${t.efmiMin}`,
+      passed: low >= t.efmiMin,
+      detail: `lowest E-FMI = ${fmt(low)}`,
+      level: 'run-longer',
+      advice: 'the sampler moves slowly between energy levels, so the tails may be under-explored',
+    });
+  } else {
+    out.push({
+      rule: `energy explored: every chain's E-FMI ≥ ${t.efmiMin}`,
+      passed: true,
+      detail: 'not applicable: this sampler has no energy',
+      level: 'run-longer',
+      advice: '',
+    });
+  }
+
+  let level: VerdictLevel = 'trustworthy';
+  let first: RuleOutcome | undefined;
+  for (const r of out) {
+    if (r.passed) continue;
+    if (SEVERITY[r.level] > SEVERITY[level]) {
+      level = r.level;
+      first = r;
+    }
+  }
+  let reason: string;
+  if (level === 'trustworthy') {
+    reason = 'Every check passed: the chains agree and there are enough effective draws.';
+  } else {
+    const failed = out.filter((r) => !r.passed);
+    const others = failed.length - 1;
+    const head = level === 'do-not-use' ? 'Do not use these results' : 'Run longer before relying on these results';
+    reason =
+      `${head}: ${first!.advice} (${first!.detail})` +
+      (others > 0 ? `; ${others} more check${others > 1 ? 's' : ''} failed.` : '.');
+  }
+  return {
+    level,
+    reason,
+    rules: out.map(({ rule, passed, detail }) => ({ rule, passed, detail })),
+  };
+}

@@ -1,0 +1,507 @@
+/**
+ * Fit orchestration: from a target spec and settings to draws, diagnostics and a verdict.
+ *
+ *   spec → target (compile the program, or import the module factory) → prepare (presolve, centre)
+ *   → sampler (settings, or the automatic choice with its reason) → dispersed starts
+ *   → chains (worker threads, at most os.availableParallelism() at once; or in-process)
+ *   → constraint check of every draw → summaries, run diagnostics, verdict → schema validation.
+ *
+ * Reproducibility: the starts come from one seeded stream in the main thread and every chain runs
+ * with (seed, chain index), so the same seed gives identical draws whether the chains run in
+ * workers, in-process, or with any number of workers.
+ */
+import { Worker } from 'node:worker_threads';
+import os from 'node:os';
+import {
+  fitSettingsSchema,
+  fitSummarySchema,
+  FIT_LIMITS,
+  type FitProgress,
+  type FitSettings,
+  type FitSummary,
+  type QuantitySummary,
+} from '../../shared/fit';
+import type { ChainResult, FitResult, SamplerName, TargetSpec } from './types';
+import { Rng } from './rng';
+import { dispersedStarts, type PreparedTarget } from './geometry';
+import { chooseSampler } from './samplers';
+import { findMode } from './mode';
+import { efmi, judgeRun, summarizeQuantity } from './diagnostics';
+import { preparedFor, runChainOnPrepared, type ChainJob } from './fit-worker';
+
+export interface RunFitOptions {
+  onProgress?(p: FitProgress): void;
+  signal?: AbortSignal;
+  /** Run chains on worker threads (default true). false runs them one after another in-process. */
+  parallel?: boolean;
+  /** Also compute the maximum a posteriori point (default false). */
+  computeMode?: boolean;
+  /** Cap on concurrent workers (default os.availableParallelism()). */
+  maxWorkers?: number;
+  /** Called with each chain as soon as it finishes (e.g. to store it before the others end). */
+  onChainDone?(chain: ChainResult): void;
+  /**
+   * Chains finished by an earlier attempt of the same fit (same spec and settings): they are kept
+   * and only the missing chains run. Chains are deterministic in (seed, chain index), so the result
+   * equals an uninterrupted fit.
+   */
+  resume?: ChainResult[];
+}
+
+/** Seed stream of the dispersed starts; chains use their own streams inside the samplers. */
+const STARTS_STREAM = 0x5eed;
+
+/** Tolerance of the constraint check on returned draws, relative to the row's scale. */
+const CONSTRAINT_TOL = 1e-7;
+
+export class FitCancelledError extends Error {
+  constructor() {
+    super('The fit was cancelled.');
+    this.name = 'AbortError';
+  }
+}
+
+export async function runFit(
+  spec: TargetSpec,
+  settingsIn: Partial<FitSettings>,
+  opts: RunFitOptions = {},
+): Promise<FitResult> {
+  const started = performance.now();
+  const settings = fitSettingsSchema.parse(settingsIn);
+  if (opts.signal?.aborted) throw new FitCancelledError();
+
+  const p = await preparedFor(spec);
+  const target = p.target;
+  if (target.dim > FIT_LIMITS.dimension) {
+    throw new Error(`The model has ${target.dim} unknowns; a fit allows at most ${FIT_LIMITS.dimension}.`);
+  }
+
+  let sampler: SamplerName;
+  let samplerReason: string;
+  if (settings.sampler === 'auto') {
+    const choice = chooseSampler(p);
+    sampler = choice.sampler;
+    samplerReason = choice.reason;
+  } else {
+    sampler = settings.sampler;
+    samplerReason = `Chosen in the fit settings (${settings.sampler}).`;
+  }
+
+  const starts = dispersedStarts(p, settings.chains, new Rng(settings.seed, STARTS_STREAM));
+  const jobs: ChainJob[] = starts.map((start, chain) => ({
+    spec,
+    sampler,
+    start: Array.from(start),
+    warmup: settings.warmup,
+    draws: settings.draws,
+    seed: settings.seed,
+    chain,
+  }));
+
+  const kept = new Map<number, ChainResult>();
+  for (const c of opts.resume ?? []) {
+    const dimOk = c.draws.length === settings.draws * target.dim;
+    if (c.chain < 0 || c.chain >= settings.chains || !dimOk) {
+      throw new Error(`A resumed chain (${c.chain + 1}) does not match this fit's settings or model.`);
+    }
+    kept.set(c.chain, c);
+  }
+  const reporter = makeProgressReporter(settings, opts.onProgress);
+  const progress: ChainProgress = (chain, phase, iteration) => {
+    reporter(chain, phase, iteration);
+    if (phase === 'done') opts.onChainDone?.(finished.get(chain)!);
+  };
+  const finished = new Map<number, ChainResult>();
+  const todo = jobs.filter((j) => !kept.has(j.chain));
+  const ran =
+    opts.parallel === false
+      ? await runInProcess(p, todo, progress, opts.signal, finished)
+      : await runOnWorkers(todo, progress, opts.signal, opts.maxWorkers, finished);
+  const chains = [...kept.values(), ...ran].sort((a, b) => a.chain - b.chain);
+
+  checkConstraints(p, chains);
+
+  const summary = summarise(p, chains, settings, sampler, samplerReason);
+  if (opts.computeMode) {
+    // Absent when the Newton iterations did not converge (the draws are still summarised).
+    const mode = findMode(p);
+    if (mode.converged && mode.theta.every(Number.isFinite)) {
+      summary.mode = Object.fromEntries(target.names.map((n, i) => [n, mode.theta[i]]));
+    }
+  }
+  summary.seconds = (performance.now() - started) / 1000;
+  return {
+    unknownNames: target.names.slice(),
+    derivedNames: target.derived?.names.slice() ?? [],
+    chains,
+    summary: fitSummarySchema.parse(summary),
+  };
+}
+
+/* ------------------------------------------------------------------------------------------ */
+/* Progress                                                                                     */
+/* ------------------------------------------------------------------------------------------ */
+
+type ChainProgress = (chain: number, phase: 'warmup' | 'sampling' | 'done', iteration: number) => void;
+
+/**
+ * Turns the samplers' (phase, iteration) calls — iteration is the 0-based index over warm-up and
+ * sampling together, as the samplers count — into FitProgress records whose `iteration` is the
+ * number of iterations completed out of `total` = warm-up + draws.
+ */
+function makeProgressReporter(settings: FitSettings, onProgress?: (p: FitProgress) => void): ChainProgress {
+  const total = settings.warmup + settings.draws;
+  const startedAt = new Map<number, number>();
+  return (chain, phase, iteration) => {
+    if (!onProgress) return;
+    const now = performance.now();
+    if (!startedAt.has(chain)) startedAt.set(chain, now);
+    const overall = phase === 'done' ? total : Math.min(total, iteration + 1);
+    const seconds = (now - startedAt.get(chain)!) / 1000;
+    onProgress({
+      chain,
+      phase,
+      iteration: overall,
+      total,
+      itersPerSecond: seconds > 0 ? overall / seconds : 0,
+    });
+  };
+}
+
+/* ------------------------------------------------------------------------------------------ */
+/* Running chains                                                                               */
+/* ------------------------------------------------------------------------------------------ */
+
+async function runInProcess(
+  p: PreparedTarget,
+  jobs: ChainJob[],
+  progress: ChainProgress,
+  signal: AbortSignal | undefined,
+  finished: Map<number, ChainResult>,
+): Promise<ChainResult[]> {
+  const out: ChainResult[] = [];
+  for (const job of jobs) {
+    // Let the event loop run between chains so a cancel from outside can land.
+    await new Promise((r) => setImmediate(r));
+    if (signal?.aborted) throw new FitCancelledError();
+    progress(job.chain, 'warmup', -1);
+    try {
+      const result = runChainOnPrepared(p, job, (phase, it) => progress(job.chain, phase, it), signal);
+      finished.set(job.chain, result);
+      out.push(result);
+    } catch (e) {
+      if (signal?.aborted || (e instanceof Error && e.name === 'AbortError')) throw new FitCancelledError();
+      throw e;
+    }
+    progress(job.chain, 'done', 0);
+  }
+  return out;
+}
+
+function rebuildError(err: { name: string; message: string; messages?: unknown; conflicting?: unknown }): Error {
+  const e = new Error(err.message) as Error & { messages?: unknown; conflicting?: unknown };
+  e.name = err.name;
+  if (err.messages !== undefined) e.messages = err.messages;
+  if (err.conflicting !== undefined) e.conflicting = err.conflicting;
+  return e;
+}
+
+const WORKER_BOOT = new URL('./fit-worker-boot.mjs', import.meta.url);
+
+type WorkerMessage =
+  | { type: 'progress'; chain: number; phase: 'warmup' | 'sampling'; iteration: number }
+  | { type: 'done'; result: ChainResult }
+  | { type: 'error'; error: { name: string; message: string; messages?: unknown; conflicting?: unknown } };
+
+/**
+ * Worker threads kept between fits: starting a thread and its TypeScript loader costs far more
+ * than a small chain, so idle workers wait (unref'd: they never keep the process alive) for the
+ * next chain. At most `cap` workers exist at once across all fits of the process; chains beyond
+ * that wait their turn.
+ */
+class ChainWorkerPool {
+  private idle: Worker[] = [];
+  private live = new Set<Worker>();
+  private waiting: Array<(w: Worker) => void> = [];
+
+  constructor(readonly cap: number) {}
+
+  acquire(): Promise<Worker> {
+    const w = this.idle.pop();
+    if (w) {
+      w.ref();
+      return Promise.resolve(w);
+    }
+    if (this.live.size < this.cap) return Promise.resolve(this.spawn());
+    return new Promise((resolve) => this.waiting.push(resolve));
+  }
+
+  release(w: Worker): void {
+    if (!this.live.has(w)) return;
+    const next = this.waiting.shift();
+    if (next) return next(w);
+    w.unref();
+    this.idle.push(w);
+  }
+
+  /** Terminates a worker (cancelled or broken) and lets a waiting chain start a fresh one. */
+  discard(w: Worker): void {
+    if (!this.live.delete(w)) return;
+    this.idle = this.idle.filter((x) => x !== w);
+    void w.terminate();
+    const next = this.waiting.shift();
+    if (next) next(this.spawn());
+  }
+
+  /** Terminates every worker (for shutdown and tests). */
+  async close(): Promise<void> {
+    const all = [...this.live];
+    this.live.clear();
+    this.idle = [];
+    await Promise.all(all.map((w) => w.terminate()));
+  }
+
+  private spawn(): Worker {
+    const w = new Worker(WORKER_BOOT, { workerData: { slacklineFitWorker: true } });
+    // A worker that dies while idle leaves the pool quietly; a busy one is reported by its job.
+    w.on('error', () => this.discard(w));
+    w.on('exit', () => {
+      this.live.delete(w);
+      this.idle = this.idle.filter((x) => x !== w);
+    });
+    this.live.add(w);
+    return w;
+  }
+}
+
+let sharedPool: ChainWorkerPool | null = null;
+
+function pool(): ChainWorkerPool {
+  sharedPool ??= new ChainWorkerPool(Math.max(1, os.availableParallelism()));
+  return sharedPool;
+}
+
+/** Stops the fit worker threads kept between fits (they are unref'd, so this is optional). */
+export async function closeFitWorkers(): Promise<void> {
+  const p = sharedPool;
+  sharedPool = null;
+  await p?.close();
+}
+
+/** Runs one chain on a pooled worker. */
+function runJobOnWorker(
+  w: Worker,
+  job: ChainJob,
+  progress: ChainProgress,
+  signal?: AbortSignal,
+): Promise<ChainResult> {
+  return new Promise<ChainResult>((resolve, reject) => {
+    const cleanup = () => {
+      w.off('message', onMessage);
+      w.off('error', onError);
+      w.off('exit', onExit);
+      signal?.removeEventListener('abort', onAbort);
+    };
+    const onMessage = (msg: WorkerMessage) => {
+      if (msg.type === 'progress') progress(msg.chain, msg.phase, msg.iteration);
+      else if (msg.type === 'done') {
+        cleanup();
+        pool().release(w);
+        resolve(msg.result);
+      } else if (msg.type === 'error') {
+        cleanup();
+        pool().release(w);
+        reject(rebuildError(msg.error));
+      }
+    };
+    const onError = (e: Error) => {
+      cleanup();
+      reject(e);
+    };
+    const onExit = (code: number) => {
+      cleanup();
+      reject(new Error(`A chain's worker thread stopped with exit code ${code}.`));
+    };
+    const onAbort = () => {
+      cleanup();
+      pool().discard(w);
+      reject(new FitCancelledError());
+    };
+    w.on('message', onMessage);
+    w.on('error', onError);
+    w.on('exit', onExit);
+    signal?.addEventListener('abort', onAbort);
+    progress(job.chain, 'warmup', -1);
+    w.postMessage({ type: 'run', job });
+  });
+}
+
+/** Runs the jobs on pooled worker threads, at most `maxWorkers` of this fit's chains at once. */
+async function runOnWorkers(
+  jobs: ChainJob[],
+  progress: ChainProgress,
+  signal: AbortSignal | undefined,
+  maxWorkers: number | undefined,
+  finished: Map<number, ChainResult>,
+): Promise<ChainResult[]> {
+  if (jobs.length === 0) return [];
+  const lanes = Math.max(1, Math.min(jobs.length, maxWorkers ?? os.availableParallelism()));
+  const queue = jobs.slice();
+  const results: ChainResult[] = [];
+  // Stops the other chains at once when one fails or the caller cancels.
+  const stop = new AbortController();
+  const onOuterAbort = () => stop.abort();
+  signal?.addEventListener('abort', onOuterAbort);
+  if (signal?.aborted) stop.abort();
+  let firstError: unknown = null;
+  const lane = async () => {
+    while (queue.length > 0 && !stop.signal.aborted) {
+      const job = queue.shift()!;
+      const w = await pool().acquire();
+      if (stop.signal.aborted) {
+        pool().release(w);
+        return;
+      }
+      try {
+        const result = await runJobOnWorker(w, job, progress, stop.signal);
+        finished.set(job.chain, result);
+        results.push(result);
+      } catch (e) {
+        if (!stop.signal.aborted) {
+          firstError = e;
+          stop.abort();
+        }
+        return;
+      }
+      progress(job.chain, 'done', 0);
+    }
+  };
+  try {
+    await Promise.all(Array.from({ length: lanes }, lane));
+  } finally {
+    signal?.removeEventListener('abort', onOuterAbort);
+  }
+  if (firstError) throw firstError;
+  if (signal?.aborted) throw new FitCancelledError();
+  return results;
+}
+
+/* ------------------------------------------------------------------------------------------ */
+/* Checks and summaries                                                                         */
+/* ------------------------------------------------------------------------------------------ */
+
+/** Every returned draw must satisfy every constraint (A θ ≤ b, E θ = e) up to rounding. */
+function checkConstraints(p: PreparedTarget, chains: ChainResult[]): void {
+  const t = p.target;
+  const dim = t.dim;
+  for (const [sys, isEq] of [
+    [t.inequalities, false],
+    [t.equalities, true],
+  ] as const) {
+    if (sys.rows === 0) continue;
+    const scale = new Float64Array(sys.rows);
+    for (let r = 0; r < sys.rows; r++) {
+      let s = Math.abs(sys.b[r]);
+      for (let j = 0; j < dim; j++) s = Math.max(s, Math.abs(sys.A[r * dim + j]));
+      scale[r] = 1 + s;
+    }
+    for (const ch of chains) {
+      const n = ch.draws.length / dim;
+      for (let i = 0; i < n; i++) {
+        for (let r = 0; r < sys.rows; r++) {
+          let v = -sys.b[r];
+          for (let j = 0; j < dim; j++) v += sys.A[r * dim + j] * ch.draws[i * dim + j];
+          const bad = isEq ? Math.abs(v) > CONSTRAINT_TOL * scale[r] : v > CONSTRAINT_TOL * scale[r];
+          if (bad) {
+            throw new Error(
+              `Chain ${ch.chain + 1}, draw ${i + 1} breaks the constraint "${sys.labels[r] ?? `row ${r + 1}`}" ` +
+                `by ${v.toExponential(2)}: the sampler returned an infeasible draw, which is a bug.`,
+            );
+          }
+        }
+      }
+    }
+  }
+}
+
+/** Column `j` of a row-major draws × width matrix. */
+function column(data: Float64Array, width: number, j: number): Float64Array {
+  const n = data.length / width;
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) out[i] = data[i * width + j];
+  return out;
+}
+
+function summarise(
+  p: PreparedTarget,
+  chains: ChainResult[],
+  settings: FitSettings,
+  sampler: SamplerName,
+  samplerReason: string,
+): FitSummary {
+  const t = p.target;
+  const quantities: QuantitySummary[] = [];
+  for (let j = 0; j < t.dim; j++) {
+    quantities.push(summarizeQuantity(t.names[j], 'unknown', chains.map((c) => column(c.draws, t.dim, j))));
+  }
+  const dn = t.derived?.names ?? [];
+  for (let j = 0; j < dn.length; j++) {
+    quantities.push(summarizeQuantity(dn[j], 'derived', chains.map((c) => column(c.derivedDraws, dn.length, j))));
+  }
+
+  let divergences = 0;
+  let acceptSum = 0;
+  let acceptCount = 0;
+  for (const c of chains) {
+    for (let i = 0; i < c.divergent.length; i++) divergences += c.divergent[i];
+    for (let i = 0; i < c.acceptStat.length; i++) {
+      acceptSum += c.acceptStat[i];
+      acceptCount++;
+    }
+  }
+  const stepSizes = chains.map((c) => c.stepSize).filter(Number.isFinite);
+  const efmis = chains.every((c) => c.energy && c.energy.length > 1) ? chains.map((c) => efmi(c.energy!)) : undefined;
+  const fps = chains.map((c) => c.factorizationsPerStep).filter((v): v is number => Number.isFinite(v));
+
+  let worstRhat = quantities[0];
+  let worstEss = quantities[0];
+  for (const q of quantities) {
+    if (q.rhat > worstRhat.rhat) worstRhat = q;
+    if (Math.min(q.essBulk, q.essTail) < Math.min(worstEss.essBulk, worstEss.essTail)) worstEss = q;
+  }
+  const maxRhat = quantities.length ? Math.max(...quantities.map((q) => q.rhat)) : 1;
+  const minEssBulk = quantities.length ? Math.min(...quantities.map((q) => q.essBulk)) : 0;
+  const minEssTail = quantities.length ? Math.min(...quantities.map((q) => q.essTail)) : 0;
+
+  const verdict = judgeRun({
+    chains: settings.chains,
+    draws: settings.draws,
+    divergences,
+    maxRhat,
+    minEssBulk,
+    minEssTail,
+    worstRhatName: worstRhat?.name,
+    worstEssName: worstEss?.name,
+    efmi: efmis?.filter(Number.isFinite),
+  });
+
+  return {
+    quantities,
+    diagnostics: {
+      divergences,
+      acceptance: acceptCount ? acceptSum / acceptCount : 0,
+      // 0 stands for "not applicable" (samplers without a step size, such as hit-and-run).
+      stepSize: stepSizes.length ? stepSizes.reduce((a, b) => a + b, 0) / stepSizes.length : 0,
+      maxRhat,
+      minEssBulk,
+      minEssTail,
+      ...(efmis ? { efmi: efmis.map((v) => (Number.isFinite(v) ? v : 0)) } : {}),
+      ...(fps.length ? { factorizationsPerStep: fps.reduce((a, b) => a + b, 0) / fps.length } : {}),
+      samplerUsed: sampler,
+      samplerReason,
+    },
+    verdict,
+    settings,
+    seconds: 0,
+  };
+}

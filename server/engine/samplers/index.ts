@@ -1,0 +1,95 @@
+/**
+ * Sampler entry points: one chain from a prepared target, and the automatic choice of method.
+ */
+import type { ChainOptions, ChainOutput, SamplerName } from '../types';
+import type { PreparedTarget } from '../geometry';
+import { isFlat } from '../geometry';
+import { Rng } from '../rng';
+import { hitRunChain } from './hitrun';
+import { rhmcChain } from './rhmc';
+
+/**
+ * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
+ * tolerance of 1e-9 relative to the row's scale. Throws if a draw violates a constraint.
+ */
+export function makeDrawCheck(p: PreparedTarget): (z: Float64Array, out: Float64Array) => void {
+  const { inequalities: I, equalities: E, dim } = p.target;
+  return (z, out) => {
+    p.toTheta(z, out);
+    for (let j = 0; j < dim; j++) if (!Number.isFinite(out[j])) throw new Error('A draw is not finite.');
+    for (let i = 0; i < I.rows; i++) {
+      let s = 0;
+      let mag = Math.abs(I.b[i]);
+      for (let j = 0; j < dim; j++) {
+        const t = I.A[i * dim + j] * out[j];
+        s += t;
+        mag += Math.abs(t);
+      }
+      if (s > I.b[i] + 1e-9 * (1 + mag)) {
+        throw new Error(`Internal error: a draw violates the constraint "${I.labels[i] ?? i + 1}" (by ${(s - I.b[i]).toExponential(2)}).`);
+      }
+    }
+    for (let i = 0; i < E.rows; i++) {
+      let s = 0;
+      let mag = Math.abs(E.b[i]);
+      for (let j = 0; j < dim; j++) {
+        const t = E.A[i * dim + j] * out[j];
+        s += t;
+        mag += Math.abs(t);
+      }
+      if (Math.abs(s - E.b[i]) > 1e-9 * (1 + mag)) {
+        throw new Error(`Internal error: a draw violates the equality "${E.labels[i] ?? i + 1}".`);
+      }
+    }
+  };
+}
+
+/** Runs warm-up then keeps opts.draws draws; the returned draws are in θ coordinates. */
+export function sampleChain(p: PreparedTarget, sampler: SamplerName, start: Float64Array, opts: ChainOptions): ChainOutput {
+  if (start.length !== p.n) throw new Error(`start has length ${start.length}, expected the reduced dimension ${p.n}`);
+  const rng = new Rng(opts.seed, opts.chain);
+  const check = makeDrawCheck(p);
+  // A non-finite log-density at the start is reported before any work.
+  const l = p.logDensity(start, new Float64Array(p.n));
+  if (!Number.isFinite(l)) {
+    const theta = new Float64Array(p.target.dim);
+    p.toTheta(start, theta);
+    const shown = p.target.names
+      .slice(0, 6)
+      .map((nm, j) => `${nm} = ${theta[j].toPrecision(4)}`)
+      .join(', ');
+    throw new Error(
+      `The log-density is ${Number.isNaN(l) ? 'not a number' : l} at the chain's starting point (${shown}${p.target.dim > 6 ? ', …' : ''}). Check that every term is defined everywhere the constraints allow.`,
+    );
+  }
+  if (isFlat(p) && !p.bounded) {
+    throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
+  }
+  if (sampler === 'hitrun') return hitRunChain(p, start, opts, rng, check);
+  if (sampler === 'rhmc') return rhmcChain(p, start, opts, rng, check);
+  throw new Error(`unknown sampler "${String(sampler)}"`);
+}
+
+/** Picks a sampler by the model's structure and says why in one sentence. */
+export function chooseSampler(p: PreparedTarget): { sampler: SamplerName; reason: string } {
+  const flat = isFlat(p);
+  if (flat && p.m > 0 && p.bounded) {
+    return {
+      sampler: 'hitrun',
+      reason: 'The log-density is constant and the constraints enclose a bounded region, so hit-and-run with exact uniform chords samples it directly.',
+    };
+  }
+  if (flat) {
+    throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
+  }
+  if (p.m === 0) {
+    return {
+      sampler: 'rhmc',
+      reason: 'There are no inequality constraints, so Hamiltonian Monte Carlo with an adapted diagonal metric is used.',
+    };
+  }
+  return {
+    sampler: 'rhmc',
+    reason: 'The log-density varies over a region bounded by inequalities, so barrier-metric Riemannian HMC is used: it adapts to the likelihood and slows near the faces instead of leaving them.',
+  };
+}

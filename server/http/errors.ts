@@ -1,0 +1,21 @@
+/** Errors that map to the API's one JSON error shape. */
+import type { ErrorCode } from '../../shared/api/common';
+
+export class HttpError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: ErrorCode,
+    message: string,
+    readonly fields?: Record<string, string>,
+  ) {
+    super(message);
+  }
+}
+
+export const badRequest = (message: string, fields?: Record<string, string>) =>
+  new HttpError(400, 'bad_request', message, fields);
+export const unauthenticated = (message = 'Sign in first') => new HttpError(401, 'unauthenticated', message);
+export const forbidden = (message = 'Your role does not allow this') => new HttpError(403, 'forbidden', message);
+export const notFound = (message = 'Not found') => new HttpError(404, 'not_found', message);
+export const conflict = (message: string, fields?: Record<string, string>) =>
+  new HttpError(409, 'conflict', message, fields);

@@ -1,0 +1,264 @@
+/**
+ * CSV → data table, for the headless fit command and the notebook's data cell (browser-safe: no
+ * Node APIs; TextDecoder exists in browsers and Node).
+ *
+ * Parsing by papaparse; on top of it:
+ * - decoding: bytes are decoded as UTF-8 (a UTF-8 byte-order mark is dropped), or UTF-16 when the
+ *   bytes start with a UTF-16 byte-order mark; invalid bytes become U+FFFD and are reported with
+ *   their row and column ("not UTF-8");
+ * - the first row must be a header of distinct, non-empty column names; a first row made only of
+ *   numbers is reported as a missing header;
+ * - rows with more or fewer cells than the header are reported (ragged rows), with the row number;
+ * - cells are trimmed; a cell is missing when it is empty or one of MISSING_TOKENS (any case);
+ *   missing cells become NaN and are reported per column with their rows;
+ * - column types: `integer` when every present cell is a whole number, `numeric` when every present
+ *   cell is a decimal number, otherwise `category`, coded 1..K in the order of the levels sorted
+ *   by natural string order (so "dose 2" comes before "dose 10").
+ *
+ * Row numbers in messages count data rows from 1 (the header is not counted); column names are the
+ * header's.
+ */
+import Papa from 'papaparse';
+import type { ParsedTable, TableColumn } from './types';
+
+export const MISSING_TOKENS = ['', 'na', 'n/a', 'nan', 'null'] as const;
+
+const NUMBER_RE = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
+/** Names a model can refer to: a letter or underscore, then letters, digits, underscores. */
+const IDENTIFIER_RE = /^[A-Za-z_][A-Za-z0-9_]*$/;
+
+export interface CsvIssue {
+  severity: 'error' | 'warning';
+  /** 1-based data row (header excluded), when the issue is tied to a row. */
+  row?: number;
+  /** Column name (or "column 3" when the header has none), when tied to a column. */
+  column?: string;
+  message: string;
+}
+
+export interface ColumnInfo {
+  name: string;
+  type: TableColumn['type'];
+  /** Number of missing cells and the first few of their rows (1-based). */
+  missing: number;
+  missingRows: number[];
+  levels?: string[];
+  min?: number;
+  max?: number;
+}
+
+export interface CsvResult {
+  /** The table, or null when there is an error. */
+  table: ParsedTable | null;
+  columns: ColumnInfo[];
+  issues: CsvIssue[];
+}
+
+export interface CsvOptions {
+  /** Field delimiter; detected by papaparse when absent. */
+  delimiter?: string;
+  /** At most this many rows listed per issue kind (default 5). */
+  maxListed?: number;
+}
+
+/** Decodes bytes to text: UTF-16 by its byte-order mark, otherwise UTF-8 (BOM dropped). */
+export function decodeBytes(bytes: Uint8Array | ArrayBuffer): string {
+  const u8 = bytes instanceof Uint8Array ? bytes : new Uint8Array(bytes);
+  if (u8.length >= 2 && u8[0] === 0xff && u8[1] === 0xfe) return new TextDecoder('utf-16le').decode(u8);
+  if (u8.length >= 2 && u8[0] === 0xfe && u8[1] === 0xff) return new TextDecoder('utf-16be').decode(u8);
+  // TextDecoder drops a leading UTF-8 BOM and replaces invalid sequences with U+FFFD.
+  return new TextDecoder('utf-8').decode(u8);
+}
+
+function naturalCompare(a: string, b: string): number {
+  return a.localeCompare(b, 'en', { numeric: true, sensitivity: 'variant' });
+}
+
+function isMissing(cell: string): boolean {
+  return (MISSING_TOKENS as readonly string[]).includes(cell.toLowerCase());
+}
+
+function listRows(rows: number[], total: number): string {
+  const shown = rows.join(', ');
+  return total > rows.length ? `${shown} and ${total - rows.length} more` : shown;
+}
+
+/** Parses CSV text or bytes into a data table with column information and every issue found. */
+export function parseCsv(input: string | Uint8Array | ArrayBuffer, opts: CsvOptions = {}): CsvResult {
+  const maxListed = opts.maxListed ?? 5;
+  let text = typeof input === 'string' ? input : decodeBytes(input);
+  if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+  const issues: CsvIssue[] = [];
+
+  const parsed = Papa.parse<string[]>(text, {
+    header: false,
+    skipEmptyLines: 'greedy',
+    dynamicTyping: false,
+    ...(opts.delimiter ? { delimiter: opts.delimiter } : {}),
+  });
+  for (const e of parsed.errors) {
+    // UndetectableDelimiter is harmless for one-column files; anything else is a real problem.
+    if (e.code === 'UndetectableDelimiter') continue;
+    issues.push({
+      severity: 'error',
+      ...(e.row !== undefined && e.row !== null ? { row: e.row } : {}),
+      message: `${e.message}${e.row !== undefined && e.row !== null ? ` (row ${e.row})` : ''}`,
+    });
+  }
+  const records = parsed.data;
+  if (records.length === 0) {
+    issues.push({ severity: 'error', message: 'The file is empty: a header row with column names is required.' });
+    return { table: null, columns: [], issues };
+  }
+
+  const header = records[0].map((h) => h.trim());
+  const body = records.slice(1);
+  const colLabel = (j: number) => (header[j] ? header[j] : `column ${j + 1}`);
+
+  // Header checks.
+  if (header.every((h) => h !== '' && NUMBER_RE.test(h))) {
+    issues.push({
+      severity: 'error',
+      message: 'The first row holds only numbers: the file seems to lack a header row with column names.',
+    });
+  }
+  const seen = new Map<string, number>();
+  header.forEach((h, j) => {
+    if (h.includes('\ufffd')) {
+      issues.push({
+        severity: 'error',
+        column: colLabel(j),
+        message: `The name of column ${j + 1} has characters that are not valid UTF-8: save the file as UTF-8.`,
+      });
+    }
+    if (h === '') {
+      issues.push({ severity: 'error', column: colLabel(j), message: `Column ${j + 1} has no name in the header row.` });
+    } else if (seen.has(h)) {
+      issues.push({
+        severity: 'error',
+        column: h,
+        message: `Column name "${h}" appears twice (columns ${seen.get(h)! + 1} and ${j + 1}).`,
+      });
+    } else {
+      seen.set(h, j);
+      if (!IDENTIFIER_RE.test(h)) {
+        issues.push({
+          severity: 'warning',
+          column: h,
+          message: `Column name "${h}" cannot be used in a model: use letters, digits and underscores, starting with a letter.`,
+        });
+      }
+    }
+  });
+
+  // Ragged rows.
+  const short: number[] = [];
+  const long: number[] = [];
+  let shortCount = 0;
+  let longCount = 0;
+  body.forEach((r, i) => {
+    if (r.length < header.length) {
+      shortCount++;
+      if (short.length < maxListed) short.push(i + 1);
+    } else if (r.length > header.length) {
+      longCount++;
+      if (long.length < maxListed) long.push(i + 1);
+    }
+  });
+  if (shortCount > 0) {
+    issues.push({
+      severity: 'error',
+      row: short[0],
+      message: `${shortCount} row${shortCount > 1 ? 's have' : ' has'} fewer cells than the header's ${header.length} (row ${listRows(short, shortCount)}).`,
+    });
+  }
+  if (longCount > 0) {
+    issues.push({
+      severity: 'error',
+      row: long[0],
+      message: `${longCount} row${longCount > 1 ? 's have' : ' has'} more cells than the header's ${header.length} (row ${listRows(long, longCount)}).`,
+    });
+  }
+
+  // Columns.
+  const nRows = body.length;
+  const columns: ColumnInfo[] = [];
+  const tableColumns: Record<string, TableColumn> = {};
+  for (let j = 0; j < header.length; j++) {
+    const name = colLabel(j);
+    const cells = body.map((r) => (r[j] ?? '').trim());
+    const missingRows: number[] = [];
+    let missing = 0;
+    let allNumeric = true;
+    let allInteger = true;
+    let badEncodingRow = 0;
+    for (let i = 0; i < nRows; i++) {
+      const c = cells[i];
+      if (c.includes('\ufffd') && !badEncodingRow) badEncodingRow = i + 1;
+      if (isMissing(c)) {
+        missing++;
+        if (missingRows.length < maxListed) missingRows.push(i + 1);
+        continue;
+      }
+      if (!NUMBER_RE.test(c)) {
+        allNumeric = false;
+        allInteger = false;
+      } else if (allInteger) {
+        const v = Number(c);
+        if (!Number.isInteger(v) || Math.abs(v) > Number.MAX_SAFE_INTEGER) allInteger = false;
+      }
+    }
+    if (badEncodingRow) {
+      issues.push({
+        severity: 'error',
+        row: badEncodingRow,
+        column: name,
+        message: `Row ${badEncodingRow}, column "${name}" has characters that are not valid UTF-8: save the file as UTF-8.`,
+      });
+    }
+    if (missing > 0) {
+      issues.push({
+        severity: 'warning',
+        row: missingRows[0],
+        column: name,
+        message: `Column "${name}" has ${missing} missing value${missing > 1 ? 's' : ''} (row ${listRows(missingRows, missing)}).`,
+      });
+    }
+    const values = new Float64Array(nRows);
+    let info: ColumnInfo;
+    if (missing === nRows) {
+      values.fill(NaN);
+      info = { name, type: 'numeric', missing, missingRows };
+      if (nRows > 0) {
+        issues.push({ severity: 'warning', column: name, message: `Column "${name}" has no values.` });
+      }
+      tableColumns[name] = { type: 'numeric', values };
+    } else if (allNumeric) {
+      let min = Infinity;
+      let max = -Infinity;
+      for (let i = 0; i < nRows; i++) {
+        const v = isMissing(cells[i]) ? NaN : Number(cells[i]);
+        values[i] = v;
+        if (v < min) min = v;
+        if (v > max) max = v;
+      }
+      const type = allInteger ? 'integer' : 'numeric';
+      info = { name, type, missing, missingRows, min, max };
+      tableColumns[name] = { type, values };
+    } else {
+      const levels = [...new Set(cells.filter((c) => !isMissing(c)))].sort(naturalCompare);
+      const code = new Map(levels.map((l, k) => [l, k + 1]));
+      for (let i = 0; i < nRows; i++) values[i] = isMissing(cells[i]) ? NaN : code.get(cells[i])!;
+      info = { name, type: 'category', missing, missingRows, levels };
+      tableColumns[name] = { type: 'category', values, levels };
+    }
+    columns.push(info);
+  }
+
+  const hasError = issues.some((i) => i.severity === 'error');
+  return {
+    table: hasError ? null : { rows: nRows, columns: tableColumns },
+    columns,
+    issues,
+  };
+}

@@ -1,0 +1,50 @@
+/**
+ * Debian's Chromium driven by playwright-core, for the browser tests.
+ * The profile folder goes through launchPersistentContext (Chromium refuses --user-data-dir in args).
+ */
+import { mkdir, mkdtemp, rm } from 'node:fs/promises';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type BrowserContext } from 'playwright-core';
+import { REPO_ROOT } from '../helpers/server';
+
+export const CHROMIUM_FLAGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
+
+export interface Browser {
+  context: BrowserContext;
+  close(): Promise<void>;
+}
+
+export async function launchBrowser(): Promise<Browser> {
+  const profile = await mkdtemp(path.join(os.tmpdir(), 'slackline-chromium-'));
+  const context = await chromium.launchPersistentContext(profile, {
+    executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
+    headless: true,
+    args: CHROMIUM_FLAGS,
+    viewport: { width: 1280, height: 860 },
+    locale: 'en-GB',
+  });
+  return {
+    context,
+    async close() {
+      await context.close();
+      await rm(profile, { recursive: true, force: true });
+    },
+  };
+}
+
+/** test-results/ at the repository root (git-ignored). */
+export async function screenshotPath(name: string): Promise<string> {
+  const dir = path.join(REPO_ROOT, 'test-results');
+  await mkdir(dir, { recursive: true });
+  return path.join(dir, name);
+}
