@@ -43,31 +43,45 @@ const fenced = (runId: string, workerId: string) => and(eq(runs.id, runId), eq(r
 
 /**
  * Claim the oldest claimable run: queued, or running with an expired lease. A run whose lease
- * expired `maxAttempts` times is marked failed instead. Returns null when nothing is claimable.
+ * expired `maxAttempts` times is marked failed instead. Returns null when nothing is claimable
+ * (or every candidate is being claimed by another worker at this moment).
  */
 export async function claimRun(db: Db, workerId: string, now: Date, leaseMs: number): Promise<RunRow | null> {
+  const claimable = or(eq(runs.status, 'queued'), and(eq(runs.status, 'running'), lt(runs.leaseExpiresAt, now)));
+  // Candidates are read without locks: InnoDB locks every row a locking read scans (a sort
+  // reads them all), so one claim would hide every queued row from the others. Each candidate is
+  // then locked by primary key with SKIP LOCKED and checked again under the lock.
   for (;;) {
-    const outcome = await db.transaction(async (tx) => {
-      const [row] = await tx
-        .select()
-        .from(runs)
-        .where(or(eq(runs.status, 'queued'), and(eq(runs.status, 'running'), lt(runs.leaseExpiresAt, now))))
-        .orderBy(asc(runs.createdAt), asc(runs.id))
-        .limit(1)
-        .for('update', { skipLocked: true });
-      if (!row) return null;
-      if (row.status === 'running' && row.attempts >= RUN_LIMITS.maxAttempts) {
-        await tx
-          .update(runs)
-          .set({ status: 'failed', leaseOwner: null, leaseExpiresAt: null, finishedAt: now, error: `The worker running this fit stopped answering ${row.attempts} times; the fit was given up.` })
-          .where(eq(runs.id, row.id));
-        return 'retry' as const;
+    const candidates = await db.select({ id: runs.id }).from(runs).where(claimable).orderBy(asc(runs.createdAt), asc(runs.id)).limit(16);
+    if (candidates.length === 0) return null;
+    let retry = false;
+    for (const { id } of candidates) {
+      const outcome = await db.transaction(async (tx) => {
+        const [row] = await tx
+          .select()
+          .from(runs)
+          .where(and(eq(runs.id, id), claimable))
+          .for('update', { skipLocked: true });
+        if (!row) return null;
+        if (row.status === 'running' && row.attempts >= RUN_LIMITS.maxAttempts) {
+          await tx
+            .update(runs)
+            .set({ status: 'failed', leaseOwner: null, leaseExpiresAt: null, finishedAt: now, error: `The worker running this fit stopped answering ${row.attempts} times; the fit was given up.` })
+            .where(eq(runs.id, row.id));
+          return 'gave-up' as const;
+        }
+        const claimed = { status: 'running' as const, leaseOwner: workerId, leaseExpiresAt: new Date(now.getTime() + leaseMs), attempts: row.attempts + 1, startedAt: row.startedAt ?? now };
+        await tx.update(runs).set(claimed).where(eq(runs.id, row.id));
+        return { ...row, ...claimed };
+      });
+      if (outcome === 'gave-up') {
+        retry = true;
+        continue;
       }
-      const claimed = { status: 'running' as const, leaseOwner: workerId, leaseExpiresAt: new Date(now.getTime() + leaseMs), attempts: row.attempts + 1, startedAt: row.startedAt ?? now };
-      await tx.update(runs).set(claimed).where(eq(runs.id, row.id));
-      return { ...row, ...claimed };
-    });
-    if (outcome !== 'retry') return outcome;
+      if (outcome) return outcome;
+    }
+    // Every candidate was taken by someone else meanwhile (or given up): look again once more.
+    if (!retry) return null;
   }
 }
 

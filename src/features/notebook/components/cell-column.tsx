@@ -95,7 +95,8 @@ export function CellColumn<C extends { id: string }>({ cells, activeId, onActiva
       ))}
       {cells.length === 0 && (
         <p className="sl-cell-sub py-8 text-center">
-          This notebook has no cells yet.{onAdd ? ' Add notes, data, a model and a fit with the line above.' : ''}
+          <span>This notebook has no cells yet</span>.
+          {onAdd && <span> Add notes, data, a model and a fit with the line above.</span>}
         </p>
       )}
     </div>
