@@ -44,3 +44,17 @@ export function decodeFlags(runs: readonly (readonly [number, number])[], length
   for (const [start, len] of runs) out.fill(1, start, Math.min(length, start + len));
   return out;
 }
+
+/** A per-draw statistic (acceptance, energy) as base64 of little-endian Float64: exact and compact. */
+export function encodeFloats(values: Float64Array): string {
+  const buf = Buffer.alloc(values.length * 8);
+  for (let i = 0; i < values.length; i++) buf.writeDoubleLE(values[i], i * 8);
+  return buf.toString('base64');
+}
+
+export function decodeFloats(text: string): Float64Array {
+  const buf = Buffer.from(text, 'base64');
+  const out = new Float64Array(buf.length / 8);
+  for (let i = 0; i < out.length; i++) out[i] = buf.readDoubleLE(i * 8);
+  return out;
+}

@@ -7,9 +7,11 @@
  *                        └─ lease expired ─▶ claimable again (attempts + 1; failed after maxAttempts)
  *
  * A worker claims with SELECT … FOR UPDATE SKIP LOCKED so concurrent workers never take the same
- * row, holds a lease it extends with a heartbeat, writes per-chain progress, and marks the run done
- * in one transaction together with its chains and summary. Every write after the claim is fenced
- * on (lease_owner = me AND status = 'running'), so a worker that lost its lease changes nothing.
+ * row, holds a lease it extends with a heartbeat, writes per-chain progress, stores each chain as it
+ * finishes, and marks the run done in one transaction together with its summary. Every write after
+ * the claim is fenced on (lease_owner = me AND status = 'running'), so a worker that lost its lease
+ * changes nothing. Stored chains outlive a lost lease: the next worker to claim the run resumes
+ * from them and runs only the missing chains. A run that ends failed or cancelled drops them.
  */
 import { and, asc, eq, inArray, lt, or, sql } from 'drizzle-orm';
 import { RUN_LIMITS } from '../../shared/api/notebook';
@@ -18,7 +20,7 @@ import type { Db } from '../db/client';
 import { runChains, runs, runSummaries } from '../db/schema';
 import { newId } from '../lib/ids';
 import type { ChainResult } from '../engine/types';
-import { encodeDraws, encodeFlags } from './draws-codec';
+import { decodeDraws, decodeFlags, decodeFloats, encodeDraws, encodeFlags, encodeFloats } from './draws-codec';
 
 export type RunRow = typeof runs.$inferSelect;
 
@@ -37,6 +39,15 @@ export interface ChainStats {
   stepSize: number | null;
   meanAcceptStat: number;
   factorizationsPerStep?: number;
+  /** Per-draw acceptance statistic and energy (encodeFloats), so a resumed fit summarises exactly. */
+  acceptStat?: string;
+  energy?: string;
+}
+
+/** Names of the columns of a run's draws: the unknowns' coordinates, then derived quantities. */
+export interface DrawNames {
+  unknownNames: string[];
+  derivedNames: string[];
 }
 
 const fenced = (runId: string, workerId: string) => and(eq(runs.id, runId), eq(runs.leaseOwner, workerId), eq(runs.status, 'running'));
@@ -68,6 +79,7 @@ export async function claimRun(db: Db, workerId: string, now: Date, leaseMs: num
             .update(runs)
             .set({ status: 'failed', leaseOwner: null, leaseExpiresAt: null, finishedAt: now, error: `The worker running this fit stopped answering ${row.attempts} times; the fit was given up.` })
             .where(eq(runs.id, row.id));
+          await tx.delete(runChains).where(eq(runChains.runId, row.id));
           return 'gave-up' as const;
         }
         const claimed = { status: 'running' as const, leaseOwner: workerId, leaseExpiresAt: new Date(now.getTime() + leaseMs), attempts: row.attempts + 1, startedAt: row.startedAt ?? now };
@@ -96,37 +108,99 @@ export async function writeProgress(db: Db, runId: string, workerId: string, pro
   return res.affectedRows === 1;
 }
 
-/** Store the chains and the summary and mark the run done, all in one transaction. */
+function chainRow(run: Pick<RunRow, 'id' | 'workspaceId'>, names: DrawNames, ch: ChainResult, now: Date): typeof runChains.$inferInsert {
+  const enc = encodeDraws(ch.draws, names.unknownNames.length, ch.derivedDraws, names.derivedNames.length);
+  let accept = 0;
+  for (let i = 0; i < ch.acceptStat.length; i++) accept += ch.acceptStat[i];
+  const stats: ChainStats = {
+    unknownNames: names.unknownNames,
+    derivedNames: names.derivedNames,
+    divergent: encodeFlags(ch.divergent),
+    stepSize: Number.isFinite(ch.stepSize) ? ch.stepSize : null,
+    meanAcceptStat: ch.acceptStat.length ? accept / ch.acceptStat.length : NaN,
+    ...(ch.factorizationsPerStep !== undefined ? { factorizationsPerStep: ch.factorizationsPerStep } : {}),
+    acceptStat: encodeFloats(ch.acceptStat),
+    ...(ch.energy ? { energy: encodeFloats(ch.energy) } : {}),
+  };
+  return {
+    id: newId(), workspaceId: run.workspaceId, runId: run.id, chainIndex: ch.chain, drawCount: enc.drawCount,
+    dimension: enc.dimension, draws: enc.buffer, stats, createdAt: now,
+  };
+}
+
+/**
+ * Store one finished chain while the run goes on. Fenced like every write: false (and nothing
+ * written) when this worker no longer holds the run.
+ */
+export async function storeChain(db: Db, run: Pick<RunRow, 'id' | 'workspaceId'>, workerId: string, names: DrawNames, chain: ChainResult, now: Date): Promise<boolean> {
+  return db.transaction(async (tx) => {
+    const [mine] = await tx.select({ id: runs.id }).from(runs).where(fenced(run.id, workerId)).for('update');
+    if (!mine) return false;
+    await tx.delete(runChains).where(and(eq(runChains.runId, run.id), eq(runChains.chainIndex, chain.chain)));
+    await tx.insert(runChains).values(chainRow(run, names, chain, now));
+    return true;
+  });
+}
+
+/**
+ * The chains an earlier attempt of a run stored, as the engine returned them (to resume the fit).
+ * A row without its per-draw statistics cannot be resumed exactly and is left out (it is run again).
+ */
+export async function storedChains(db: Pick<Db, 'select'>, run: Pick<RunRow, 'id' | 'workspaceId'>): Promise<ChainResult[]> {
+  const rows = await db
+    .select()
+    .from(runChains)
+    .where(and(eq(runChains.workspaceId, run.workspaceId), eq(runChains.runId, run.id)))
+    .orderBy(asc(runChains.chainIndex));
+  const out: ChainResult[] = [];
+  for (const r of rows) {
+    const st = r.stats as ChainStats;
+    if (st.acceptStat === undefined) continue;
+    const dimU = st.unknownNames.length;
+    const dimD = st.derivedNames.length;
+    if (r.dimension !== dimU + dimD) continue;
+    const all = decodeDraws(r.draws, r.drawCount, r.dimension);
+    const draws = new Float64Array(r.drawCount * dimU);
+    const derivedDraws = new Float64Array(r.drawCount * dimD);
+    for (let t = 0; t < r.drawCount; t++) {
+      draws.set(all.subarray(t * r.dimension, t * r.dimension + dimU), t * dimU);
+      derivedDraws.set(all.subarray(t * r.dimension + dimU, (t + 1) * r.dimension), t * dimD);
+    }
+    out.push({
+      chain: r.chainIndex,
+      draws,
+      derivedDraws,
+      divergent: decodeFlags(st.divergent, r.drawCount),
+      acceptStat: decodeFloats(st.acceptStat),
+      ...(st.energy !== undefined ? { energy: decodeFloats(st.energy) } : {}),
+      stepSize: st.stepSize ?? NaN,
+      ...(st.factorizationsPerStep !== undefined ? { factorizationsPerStep: st.factorizationsPerStep } : {}),
+    });
+  }
+  return out;
+}
+
+/**
+ * Store the summary and mark the run done, in one transaction. The chains were stored as they
+ * finished (storeChain); any the run lacks (a chain write that failed) are stored here, so the
+ * run never ends with missing or duplicated chains.
+ */
 export async function finishRun(
   db: Db,
   run: Pick<RunRow, 'id' | 'workspaceId'>,
   workerId: string,
-  result: { unknownNames: string[]; derivedNames: string[]; chains: ChainResult[]; summary: FitSummary },
+  result: DrawNames & { chains: ChainResult[]; summary: FitSummary },
   now: Date,
   timings: Record<string, number>,
 ): Promise<boolean> {
   return db.transaction(async (tx) => {
     const [mine] = await tx.select({ id: runs.id }).from(runs).where(fenced(run.id, workerId)).for('update');
     if (!mine) return false;
-    const dimU = result.unknownNames.length;
-    const dimD = result.derivedNames.length;
-    await tx.delete(runChains).where(and(eq(runChains.workspaceId, run.workspaceId), eq(runChains.runId, run.id)));
+    const have = new Set(
+      (await tx.select({ chainIndex: runChains.chainIndex }).from(runChains).where(and(eq(runChains.workspaceId, run.workspaceId), eq(runChains.runId, run.id)))).map((r) => r.chainIndex),
+    );
     for (const ch of result.chains) {
-      const enc = encodeDraws(ch.draws, dimU, ch.derivedDraws, dimD);
-      let accept = 0;
-      for (let i = 0; i < ch.acceptStat.length; i++) accept += ch.acceptStat[i];
-      const stats: ChainStats = {
-        unknownNames: result.unknownNames,
-        derivedNames: result.derivedNames,
-        divergent: encodeFlags(ch.divergent),
-        stepSize: Number.isFinite(ch.stepSize) ? ch.stepSize : null,
-        meanAcceptStat: ch.acceptStat.length ? accept / ch.acceptStat.length : NaN,
-        ...(ch.factorizationsPerStep !== undefined ? { factorizationsPerStep: ch.factorizationsPerStep } : {}),
-      };
-      await tx.insert(runChains).values({
-        id: newId(), workspaceId: run.workspaceId, runId: run.id, chainIndex: ch.chain, drawCount: enc.drawCount,
-        dimension: enc.dimension, draws: enc.buffer, stats, createdAt: now,
-      });
+      if (!have.has(ch.chain)) await tx.insert(runChains).values(chainRow(run, result, ch, now));
     }
     await tx.delete(runSummaries).where(eq(runSummaries.runId, run.id));
     await tx.insert(runSummaries).values({ runId: run.id, workspaceId: run.workspaceId, summary: result.summary, createdAt: now });
@@ -137,21 +211,31 @@ export async function finishRun(
   });
 }
 
+/** Mark the run failed and drop the chains it stored (a failed run shows no draws). */
 export async function failRun(db: Db, runId: string, workerId: string, message: string, now: Date): Promise<boolean> {
-  const [res] = await db
-    .update(runs)
-    .set({ status: 'failed', error: message.slice(0, 4000), finishedAt: now, leaseOwner: null, leaseExpiresAt: null })
-    .where(fenced(runId, workerId));
-  return res.affectedRows === 1;
+  return db.transaction(async (tx) => {
+    const [res] = await tx
+      .update(runs)
+      .set({ status: 'failed', error: message.slice(0, 4000), finishedAt: now, leaseOwner: null, leaseExpiresAt: null })
+      .where(fenced(runId, workerId));
+    if (res.affectedRows !== 1) return false;
+    await tx.delete(runChains).where(eq(runChains.runId, runId));
+    return true;
+  });
 }
 
 /** Cancel from the API: a queued run stops at once; a running one when its worker next beats. */
 export async function cancelRun(db: Db, workspaceId: string, runId: string, now: Date): Promise<boolean> {
-  const [res] = await db
-    .update(runs)
-    .set({ status: 'cancelled', finishedAt: now, leaseOwner: null, leaseExpiresAt: null })
-    .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId), inArray(runs.status, ['queued', 'running'])));
-  return res.affectedRows === 1;
+  return db.transaction(async (tx) => {
+    const [res] = await tx
+      .update(runs)
+      .set({ status: 'cancelled', finishedAt: now, leaseOwner: null, leaseExpiresAt: null })
+      .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId), inArray(runs.status, ['queued', 'running'])));
+    if (res.affectedRows !== 1) return false;
+    // Chains a worker stored before the cancel (its later writes are fenced out).
+    await tx.delete(runChains).where(and(eq(runChains.workspaceId, workspaceId), eq(runChains.runId, runId)));
+    return true;
+  });
 }
 
 /** Runs queued or running in a workspace (for the per-workspace limit). */

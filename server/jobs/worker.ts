@@ -1,6 +1,8 @@
 /**
  * A run worker: claims runs from the database one at a time and fits them with the engine's
- * runFit. Several workers (in several processes or hosts) can share one database.
+ * runFit. Several workers (in several processes or hosts) can share one database. Each chain is
+ * stored as soon as it finishes; a run claimed again after a lost lease resumes from its stored
+ * chains and runs only the missing ones (same seed, so the same draws as an uninterrupted fit).
  */
 import os from 'node:os';
 import { and, eq, inArray } from 'drizzle-orm';
@@ -9,11 +11,13 @@ import { RUN_LIMITS } from '../../shared/api/notebook';
 import type { Db } from '../db/client';
 import { datasets } from '../db/schema';
 import { runFit } from '../engine/fit';
+import { preparedFor } from '../engine/fit-worker';
+import type { TargetSpec } from '../engine/types';
 import type { Clock } from '../lib/clock';
 import { systemClock } from '../lib/clock';
 import { newId } from '../lib/ids';
 import { toDataTables } from '../notebook/datasets';
-import { claimRun, failRun, finishRun, heartbeat, writeProgress, type RunRow, type RunSpec } from './queue';
+import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type RunRow, type RunSpec } from './queue';
 
 export interface WorkerOptions {
   db: Db;
@@ -106,6 +110,7 @@ export class RunWorker {
     this.current = ac;
     let why: 'lost' | 'wall' | null = null;
     const progress = new Map<number, FitProgress>();
+    let chainWrites: Promise<void> = Promise.resolve();
     let lastWrite = 0;
     let writing = false;
     const flush = async (force = false) => {
@@ -142,16 +147,38 @@ export class RunWorker {
       const missing = Object.entries(spec.tables).filter(([, id]) => !byId.has(id)).map(([name]) => name);
       if (missing.length) throw new Error(`The data of table ${missing.map((m) => `"${m}"`).join(', ')} was deleted before the fit ran.`);
       const tables = toDataTables(Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
+      const target: TargetSpec = { kind: 'program', source: spec.source, tables };
+      // The column names every stored chain carries (the engine caches the prepared target).
+      const prepared = (await preparedFor(target)).target;
+      const names: DrawNames = { unknownNames: prepared.names.slice(), derivedNames: prepared.derived?.names.slice() ?? [] };
+      const resume = await storedChains(this.db, run);
+      const total = settings.warmup + settings.draws;
+      for (const c of resume) progress.set(c.chain, { chain: c.chain + 1, phase: 'done', iteration: total, total, itersPerSecond: 0 });
+      if (resume.length) this.log(`run ${run.id}: resuming with ${resume.length} stored chain(s)`);
       const tLoad = performance.now();
-      const result = await runFit({ kind: 'program', source: spec.source, tables }, settings, {
+      const result = await runFit(target, settings, {
         signal: ac.signal,
         parallel: this.parallel,
+        resume,
         onProgress: (p) => {
           // The engine numbers chains from 0 in progress; the API shows them from 1.
           progress.set(p.chain, { ...p, chain: p.chain + 1 });
           void flush();
         },
+        onChainDone: (ch) => {
+          this.log(`run ${run.id}: chain ${ch.chain + 1} finished`);
+          // One write at a time, in order; finishRun stores any chain whose write failed.
+          chainWrites = chainWrites
+            .then(async () => {
+              if (!(await storeChain(this.db, run, this.id, names, ch, this.clock.now())) && !ac.signal.aborted) {
+                why = 'lost';
+                ac.abort();
+              }
+            })
+            .catch((e: unknown) => this.log(`run ${run.id}: storing chain ${ch.chain + 1} failed: ${(e as Error).message}`));
+        },
       });
+      await chainWrites;
       const tFit = performance.now();
       const ok = await finishRun(this.db, run, this.id, result, this.clock.now(), {
         load: Math.round(tLoad - started),
@@ -169,6 +196,8 @@ export class RunWorker {
         this.log(`run ${run.id} failed: ${message}`);
       }
     } finally {
+      // A chain write still under way ends before the run is let go (it is fenced either way).
+      await chainWrites;
       clearInterval(beat);
       clearTimeout(wall);
       this.current = null;

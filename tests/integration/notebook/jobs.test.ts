@@ -1,13 +1,15 @@
 /**
  * Runs as jobs: claim with SKIP LOCKED, lease and heartbeat, expiry and requeue, cancel, give up
- * after too many lost leases, and one fit end to end on a tiny model through a real worker.
+ * after too many lost leases, chains stored as they finish and resumed after a lost lease, and one
+ * fit end to end on a tiny model through a real worker.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { eq } from 'drizzle-orm';
+import { asc, eq } from 'drizzle-orm';
 import Papa from 'papaparse';
-import { runs } from '../../../server/db/schema';
+import { runChains, runs, runSummaries } from '../../../server/db/schema';
+import { ManualClock } from '../../../server/lib/clock';
 import { newId } from '../../../server/lib/ids';
-import { claimRun, heartbeat, failRun, writeProgress } from '../../../server/jobs/queue';
+import { claimRun, heartbeat, failRun, storeChain, storedChains, writeProgress } from '../../../server/jobs/queue';
 import { RunWorker } from '../../../server/jobs/worker';
 import { RUN_LIMITS } from '../../../shared/api/notebook';
 import { notebookWorld, postFile, type NotebookWorld } from './setup';
@@ -99,6 +101,124 @@ describe('queue', () => {
     expect((await w.editor.post(`/api/workspaces/${w.ws}/runs/${r}/cancel`, {})).body.run.status).toBe('cancelled');
     expect(await heartbeat(db, r, 'busy', t0, 10_000)).toBe(false);
     expect((await w.editor.post(`/api/workspaces/${w.ws}/runs/${r}/cancel`, {})).status).toBe(409);
+  });
+});
+
+describe('chains stored as they finish; a lost lease resumes from them', () => {
+  // An invented scenario: sediment depth (cm) settling in a river bend, a normal belief bounded to
+  // the 0–5 cm a core sampler can hold. The model is tiny; what is checked is the bookkeeping.
+  const spec = { source: 'unknown depth\nterm ld_normal(depth, 2, 1)\nconstrain depth >= 0\nconstrain depth <= 5\n', tables: {} };
+  const resumeSettings = { chains: 3, warmup: 150, draws: 200, seed: 4242, sampler: 'auto' as const };
+  const clock = new ManualClock(new Date('2026-12-01T14:00:00Z'));
+
+  async function queueFit(): Promise<string> {
+    const id = newId();
+    await w.server.db.db.insert(runs).values({
+      id, workspaceId: w.ws, notebookId: w.nb, cellId: null, status: 'queued', settings: resumeSettings, seed: resumeSettings.seed,
+      modelHash: '1'.repeat(64), spec, progress: [], attempts: 0, createdAt: clock.now(),
+    });
+    return id;
+  }
+  const chainsOf = (id: string) => w.server.db.db.select().from(runChains).where(eq(runChains.runId, id)).orderBy(asc(runChains.chainIndex));
+  const summaryOf = async (id: string) => (await w.server.db.db.select().from(runSummaries).where(eq(runSummaries.runId, id)))[0].summary as {
+    quantities: unknown; diagnostics: unknown; verdict: unknown;
+  };
+  const finishedNumbers = (logs: string[]) => logs.map((m) => /chain (\d+) finished/.exec(m)?.[1]).filter((x) => x !== undefined).map(Number).sort();
+
+  it('a second worker runs only the missing chains; the draws equal an uninterrupted fit; a fenced-out write is refused', async () => {
+    const db = w.server.db.db;
+    // Reference: the same fit, uninterrupted.
+    const ref = await queueFit();
+    const whole = new RunWorker({ db, clock, parallel: false, progressMs: 0, heartbeatMs: 60_000, log: () => {} });
+    expect(await whole.runOnce()).toBe(true);
+    expect((await rowOf(ref)).status).toBe('done');
+    const refChains = await chainsOf(ref);
+    expect(refChains.map((c) => c.chainIndex)).toEqual([0, 1, 2]);
+
+    // The first worker stops as its first chain finishes (in-process chains run one after another,
+    // and the log line comes synchronously as the chain ends), keeping its lease until it expires.
+    const id = await queueFit();
+    const logsA: string[] = [];
+    const first: RunWorker = new RunWorker({
+      db, clock, workerId: 'first', leaseMs: 60_000, parallel: false, progressMs: 0, heartbeatMs: 60_000,
+      log: (m) => {
+        logsA.push(m);
+        if (/chain 1 finished/.test(m)) void first.stop(true);
+      },
+    });
+    expect(await first.runOnce()).toBe(true);
+    const kept = await chainsOf(id);
+    expect(kept.map((c) => c.chainIndex)).toEqual([0]);
+    expect(finishedNumbers(logsA)).toEqual([1]);
+    const stalled = await rowOf(id);
+    expect(stalled.status).toBe('running');
+    expect(stalled.leaseOwner).toBe('first');
+    // Before the lease expires nobody else takes the run.
+    expect(await claimRun(db, 'early', clock.now(), 60_000)).toBeNull();
+
+    // The lease expires; a second worker claims the run and resumes.
+    clock.advance(120_000);
+    const logsB: string[] = [];
+    const second = new RunWorker({ db, clock, workerId: 'second', parallel: false, progressMs: 0, heartbeatMs: 60_000, log: (m) => logsB.push(m) });
+    expect(await second.runOnce()).toBe(true);
+    const done = await rowOf(id);
+    expect(done.status).toBe('done');
+    expect(done.attempts).toBe(2);
+    expect(logsB).toContain(`run ${id}: resuming with ${kept.length} stored chain(s)`);
+    // Only the missing chains ran (and were stored) on the second worker…
+    expect(finishedNumbers(logsB)).toEqual([2, 3]);
+    // …the first worker's rows were kept as they were, with no duplicates…
+    const all = await chainsOf(id);
+    expect(all.map((c) => c.chainIndex)).toEqual([0, 1, 2]);
+    for (const k of kept) expect(all.find((c) => c.chainIndex === k.chainIndex)?.id).toBe(k.id);
+    // …and every chain's draws equal the uninterrupted fit's, byte for byte (same seed and chain
+    // index give the same draws: the engine's reproducibility contract), as does the summary,
+    // whose acceptance and E-FMI come from the per-draw statistics stored with each chain.
+    for (let k = 0; k < 3; k++) {
+      expect(all[k].draws.equals(refChains[k].draws)).toBe(true);
+      expect(all[k].stats).toEqual(refChains[k].stats);
+    }
+    const [sRef, sRes] = [await summaryOf(ref), await summaryOf(id)];
+    expect(sRes.quantities).toEqual(sRef.quantities);
+    expect(sRes.diagnostics).toEqual(sRef.diagnostics);
+    expect(sRes.verdict).toEqual(sRef.verdict);
+    expect((done.progress as { phase: string }[]).map((p) => p.phase)).toEqual(['done', 'done', 'done']);
+    // The export reads the stored chains: identical CSV for both runs.
+    const [csvRef, csvRes] = await Promise.all([ref, id].map((r) => w.viewer.get(`/api/workspaces/${w.ws}/runs/${r}/draws.csv`)));
+    expect(csvRes.status).toBe(200);
+    expect(Papa.parse<string[]>(csvRes.text.trim()).data.length - 1).toBe(resumeSettings.chains * resumeSettings.draws);
+    expect(csvRes.text).toBe(csvRef.text);
+
+    // The fenced-out first worker's late chain write is refused and changes nothing.
+    const late = (await storedChains(db, { id, workspaceId: w.ws }))[0];
+    late.draws.fill(0);
+    const names = { unknownNames: ['depth'], derivedNames: [] };
+    expect(await storeChain(db, { id, workspaceId: w.ws }, 'first', names, late, clock.now())).toBe(false);
+    const after = await chainsOf(id);
+    expect(after.map((c) => c.id)).toEqual(all.map((c) => c.id));
+    expect(after[0].draws.equals(refChains[0].draws)).toBe(true);
+  });
+
+  it('a cancelled or failed run drops the chains it stored, and its worker can store no more', async () => {
+    const db = w.server.db.db;
+    for (const end of ['cancel', 'fail'] as const) {
+      const id = await queueFit();
+      const worker: RunWorker = new RunWorker({
+        db, clock, workerId: `w-${end}`, parallel: false, progressMs: 0, heartbeatMs: 60_000,
+        log: (m) => {
+          if (/chain 1 finished/.test(m)) void worker.stop(true);
+        },
+      });
+      expect(await worker.runOnce()).toBe(true);
+      const kept = await storedChains(db, { id, workspaceId: w.ws });
+      expect(kept.map((c) => c.chain)).toEqual([0]);
+      if (end === 'cancel') expect((await w.editor.post(`/api/workspaces/${w.ws}/runs/${id}/cancel`, {})).body.run.status).toBe('cancelled');
+      else expect(await failRun(db, id, `w-${end}`, 'test', clock.now())).toBe(true);
+      expect(await chainsOf(id)).toHaveLength(0);
+      expect(await storeChain(db, { id, workspaceId: w.ws }, `w-${end}`, { unknownNames: ['depth'], derivedNames: [] }, kept[0], clock.now())).toBe(false);
+      expect(await chainsOf(id)).toHaveLength(0);
+      expect((await w.viewer.get(`/api/workspaces/${w.ws}/runs/${id}/draws`)).status).toBe(404);
+    }
   });
 });
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { decodeDraws, decodeFlags, encodeDraws, encodeFlags } from '../../../server/jobs/draws-codec';
+import { decodeDraws, decodeFlags, decodeFloats, encodeDraws, encodeFlags, encodeFloats } from '../../../server/jobs/draws-codec';
 
 describe('draws codec', () => {
   it('round-trips unknowns and derived draws exactly, draw-major', () => {
@@ -18,5 +18,12 @@ describe('draws codec', () => {
     const f = [0, 0, 1, 1, 0, 1];
     expect(encodeFlags(f)).toEqual([[2, 2], [5, 1]]);
     expect(Array.from(decodeFlags(encodeFlags(f), 6))).toEqual(f);
+  });
+  it('per-draw statistics round-trip bit for bit, NaN and infinities included', () => {
+    const v = new Float64Array([0.8123456789012345, 1, 0, -0, 1e-310, NaN, Infinity, -2.5]);
+    const back = decodeFloats(encodeFloats(v));
+    expect(back.length).toBe(v.length);
+    expect(Buffer.from(back.buffer).equals(Buffer.from(v.buffer))).toBe(true);
+    expect(decodeFloats(encodeFloats(new Float64Array(0))).length).toBe(0);
   });
 });
