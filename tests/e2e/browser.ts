@@ -5,7 +5,7 @@
 import { mkdir, mkdtemp, rm } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
-import { chromium, type BrowserContext } from 'playwright-core';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { REPO_ROOT } from '../helpers/server';
 
 export const CHROMIUM_FLAGS = [
@@ -47,4 +47,23 @@ export async function screenshotPath(name: string): Promise<string> {
   const dir = path.join(REPO_ROOT, 'test-results');
   await mkdir(dir, { recursive: true });
   return path.join(dir, name);
+}
+
+/** A page whose uncaught errors and refused resources (content security policy) are collected. */
+export interface WatchedPage {
+  page: Page;
+  /** Uncaught page exceptions and CSP refusals seen so far; a test expects it to stay empty. */
+  errors: string[];
+}
+
+/** Opens a page in the browser's context with a default timeout and the error watch attached. */
+export async function openWatchedPage(browser: Browser, timeoutMs = 15_000): Promise<WatchedPage> {
+  const page = await browser.context.newPage();
+  page.setDefaultTimeout(timeoutMs);
+  const errors: string[] = [];
+  page.on('pageerror', (e) => errors.push(e.message));
+  page.on('console', (m) => {
+    if (m.type() === 'error' && /Content Security Policy|Refused to/i.test(m.text())) errors.push(m.text());
+  });
+  return { page, errors };
 }

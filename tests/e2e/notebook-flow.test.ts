@@ -13,22 +13,20 @@ import { seedDemoNotebook } from '../../server/db/seed-notebook';
 import { RunWorker } from '../../server/jobs/worker';
 import { startTestServer, type TestServer } from '../helpers/server';
 import { TestClient, signIn, signUp, TEST_PASSWORD } from '../helpers/http';
-import { launchBrowser, screenshotPath, type Browser } from './browser';
+import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';
 
 let server: TestServer;
 let browser: Browser;
 let page: Page;
 let worker: RunWorker | null = null;
-const pageErrors: string[] = [];
+let pageErrors: string[] = [];
 
 beforeAll(async () => {
   server = await startTestServer();
   const demo = await seedDemo(server.db.db);
   await seedDemoNotebook(server.db.db, demo);
   browser = await launchBrowser();
-  page = await browser.context.newPage();
-  page.setDefaultTimeout(20_000);
-  page.on('pageerror', (e) => pageErrors.push(e.message));
+  ({ page, errors: pageErrors } = await openWatchedPage(browser, 20_000));
 });
 
 afterAll(async () => {

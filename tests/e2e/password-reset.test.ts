@@ -5,23 +5,17 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { startTestServer, type TestServer } from '../helpers/server';
-import { launchBrowser, screenshotPath, type Browser } from './browser';
+import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';
 
 let server: TestServer;
 let browser: Browser;
 let page: Page;
-const pageErrors: string[] = [];
+let pageErrors: string[] = [];
 
 beforeAll(async () => {
   server = await startTestServer();
   browser = await launchBrowser();
-  page = await browser.context.newPage();
-  page.setDefaultTimeout(15_000);
-  // uncaught exceptions and refused resources (content security policy) fail the test at the end
-  page.on('pageerror', (e) => pageErrors.push(e.message));
-  page.on('console', (m) => {
-    if (m.type() === 'error' && /Content Security Policy|Refused to/i.test(m.text())) pageErrors.push(m.text());
-  });
+  ({ page, errors: pageErrors } = await openWatchedPage(browser));
 });
 
 afterAll(async () => {
