@@ -34,6 +34,8 @@ export interface ChainStats {
   unknownNames: string[];
   derivedNames: string[];
   divergent: [number, number][];
+  /** Draws whose transition was rejected (a step could not be completed); absent in older rows = none. */
+  rejected?: [number, number][];
   stepSize: number | null;
   meanAcceptStat: number;
   factorizationsPerStep?: number;
@@ -119,6 +121,7 @@ export async function finishRun(
         unknownNames: result.unknownNames,
         derivedNames: result.derivedNames,
         divergent: encodeFlags(ch.divergent),
+        ...(ch.rejected ? { rejected: encodeFlags(ch.rejected) } : {}),
         stepSize: Number.isFinite(ch.stepSize) ? ch.stepSize : null,
         meanAcceptStat: ch.acceptStat.length ? accept / ch.acceptStat.length : NaN,
         ...(ch.factorizationsPerStep !== undefined ? { factorizationsPerStep: ch.factorizationsPerStep } : {}),
