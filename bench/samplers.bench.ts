@@ -31,12 +31,14 @@ function measure(target: ModelTarget, sampler: SamplerName, warmup: number, draw
   }
   const total = CHAINS * draws;
   const div = outs.reduce((s, o) => s + o.divergent.reduce((a, b) => a + b, 0), 0);
+  const rej = outs.reduce((s, o) => s + (o.rejected ?? new Uint8Array(0)).reduce((a, b) => a + b, 0), 0);
   return {
     essPerDraw: minEss / total,
     seconds,
     stepSize: outs.reduce((s, o) => s + o.stepSize, 0) / CHAINS,
     fps: outs.reduce((s, o) => s + (o.factorizationsPerStep ?? NaN), 0) / CHAINS,
     divergentFraction: div / total,
+    rejectedFraction: rej / total,
     acceptance: outs.reduce((s, o) => s + o.acceptStat.reduce((a, b) => a + b, 0), 0) / total,
   };
 }
@@ -58,6 +60,7 @@ export async function run(): Promise<Record<string, number | string>> {
     out[`${name}.rhmc.stepSize`] = r.stepSize;
     out[`${name}.rhmc.acceptance`] = r.acceptance;
     out[`${name}.rhmc.divergentFraction`] = r.divergentFraction;
+    out[`${name}.rhmc.rejectedFraction`] = r.rejectedFraction;
     out[`${name}.rhmc.seconds`] = r.seconds;
     const steps = Object.values(stepResultCounts).reduce((a, b) => a + b, 0);
     out[`${name}.rhmc.failedStepFraction`] = steps > 0 ? 1 - (stepResultCounts.ok ?? 0) / steps : NaN;
@@ -82,7 +85,7 @@ export async function run(): Promise<Record<string, number | string>> {
   }
   DEFAULT_RHMC.metricAdaptation = 'curvature';
   // A realistic posterior: ordered group means with a shared scale (divergent share matters for the
-  // run verdict, which flags any divergence).
+  // run verdict, which flags any divergence; a rejected share above 10% is flagged too).
   const groups = orderedGroupsTarget({
     y: [
       [2.1, 2.9, 1.7, 2.5, 3.0, 2.2],
@@ -94,6 +97,7 @@ export async function run(): Promise<Record<string, number | string>> {
   const g = measure(groups, 'rhmc', 400, 1000, 8);
   out['orderedGroups.rhmc.essPerDraw'] = g.essPerDraw;
   out['orderedGroups.rhmc.divergentFraction'] = g.divergentFraction;
+  out['orderedGroups.rhmc.rejectedFraction'] = g.rejectedFraction;
   out['orderedGroups.rhmc.stepSize'] = g.stepSize;
   out['orderedGroups.rhmc.seconds'] = g.seconds;
   // Cholesky kernel: the same short RHMC run with ml-matrix's decomposition and with the in-place loop.

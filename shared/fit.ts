@@ -55,7 +55,14 @@ export const verdictSchema = z.object({
 export type Verdict = z.infer<typeof verdictSchema>;
 
 export const runDiagnosticsSchema = z.object({
+  /** Kept draws whose transition diverged (energy error non-finite or above 1000). */
   divergences: z.number().int(),
+  /**
+   * Kept draws whose transition was rejected because a step could not be completed (implicit solve
+   * not converged, M not positive definite, step left the region, run-back mismatch). Exact but
+   * costly in efficiency. Optional so summaries stored before it existed stay valid.
+   */
+  rejectedSteps: z.number().int().optional(),
   acceptance: z.number(),
   stepSize: z.number(),
   maxRhat: z.number(),

@@ -125,7 +125,7 @@ if (parentPort && (workerData as { slacklineFitWorker?: boolean } | undefined)?.
         port.postMessage({ type: 'progress', chain: job.chain, phase, iteration }),
       );
       const buffers = new Set<ArrayBuffer>();
-      for (const a of [result.draws, result.divergent, result.acceptStat, result.derivedDraws, result.energy]) {
+      for (const a of [result.draws, result.divergent, result.rejected, result.acceptStat, result.derivedDraws, result.energy]) {
         if (a && a.buffer instanceof ArrayBuffer) buffers.add(a.buffer);
       }
       port.postMessage({ type: 'done', result }, [...buffers]);

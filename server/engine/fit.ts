@@ -450,10 +450,13 @@ function summarise(
   }
 
   let divergences = 0;
+  let rejectedSteps = 0;
   let acceptSum = 0;
   let acceptCount = 0;
   for (const c of chains) {
     for (let i = 0; i < c.divergent.length; i++) divergences += c.divergent[i];
+    // A missing `rejected` (hit-and-run, chains stored before it existed) reads as zeros.
+    if (c.rejected) for (let i = 0; i < c.rejected.length; i++) rejectedSteps += c.rejected[i];
     for (let i = 0; i < c.acceptStat.length; i++) {
       acceptSum += c.acceptStat[i];
       acceptCount++;
@@ -477,6 +480,7 @@ function summarise(
     chains: settings.chains,
     draws: settings.draws,
     divergences,
+    rejectedSteps,
     maxRhat,
     minEssBulk,
     minEssTail,
@@ -489,6 +493,7 @@ function summarise(
     quantities,
     diagnostics: {
       divergences,
+      rejectedSteps,
       acceptance: acceptCount ? acceptSum / acceptCount : 0,
       // 0 stands for "not applicable" (samplers without a step size, such as hit-and-run).
       stepSize: stepSizes.length ? stepSizes.reduce((a, b) => a + b, 0) / stepSizes.length : 0,

@@ -85,8 +85,18 @@ export interface ChainOutput {
   draws: Float64Array;
   /** Hamiltonian at each kept draw (RHMC only), for E-FMI. */
   energy?: Float64Array;
-  /** 1 where the transition that produced the draw diverged or was rejected for leaving the region. */
+  /**
+   * 1 where the transition that produced the draw diverged: its energy error blew up (non-finite,
+   * or above 1000 as in common practice), which marks a region the integrator cannot resolve.
+   */
   divergent: Uint8Array;
+  /**
+   * 1 where the transition was rejected because a step could not be completed (an implicit solve
+   * did not converge, M was not positive definite, the step left the region, or the run-back check
+   * failed). Such rejections keep the chain exact and only cost efficiency. Absent (read as zeros)
+   * for samplers without such rejections (hit-and-run) and in chains stored before it existed.
+   */
+  rejected?: Uint8Array;
   /** Metropolis acceptance statistic per kept draw (1 for exact-chord moves). */
   acceptStat: Float64Array;
   /** Final adapted step size (NaN where not applicable). */

@@ -1,7 +1,7 @@
 /**
  * Compact binary storage of one chain's draws: little-endian Float64, draw-major
  * (drawCount × dimension), the unknowns' coordinates first and then the derived quantities.
- * Per-draw flags (divergent) travel in the chain's stats as a run-length list to stay small.
+ * Per-draw flags (divergent, rejected) travel in the chain's stats as a run-length list to stay small.
  */
 
 export function encodeDraws(unknowns: Float64Array, dimU: number, derived: Float64Array, dimD: number): { buffer: Buffer; drawCount: number; dimension: number } {

@@ -36,6 +36,8 @@ export interface ChainStats {
   unknownNames: string[];
   derivedNames: string[];
   divergent: [number, number][];
+  /** Draws whose transition was rejected (a step could not be completed); absent in older rows = none. */
+  rejected?: [number, number][];
   stepSize: number | null;
   meanAcceptStat: number;
   factorizationsPerStep?: number;
@@ -116,6 +118,7 @@ function chainRow(run: Pick<RunRow, 'id' | 'workspaceId'>, names: DrawNames, ch:
     unknownNames: names.unknownNames,
     derivedNames: names.derivedNames,
     divergent: encodeFlags(ch.divergent),
+    ...(ch.rejected ? { rejected: encodeFlags(ch.rejected) } : {}),
     stepSize: Number.isFinite(ch.stepSize) ? ch.stepSize : null,
     meanAcceptStat: ch.acceptStat.length ? accept / ch.acceptStat.length : NaN,
     ...(ch.factorizationsPerStep !== undefined ? { factorizationsPerStep: ch.factorizationsPerStep } : {}),
@@ -171,6 +174,7 @@ export async function storedChains(db: Pick<Db, 'select'>, run: Pick<RunRow, 'id
       draws,
       derivedDraws,
       divergent: decodeFlags(st.divergent, r.drawCount),
+      ...(st.rejected !== undefined ? { rejected: decodeFlags(st.rejected, r.drawCount) } : {}),
       acceptStat: decodeFloats(st.acceptStat),
       ...(st.energy !== undefined ? { energy: decodeFloats(st.energy) } : {}),
       stepSize: st.stepSize ?? NaN,

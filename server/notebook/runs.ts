@@ -61,7 +61,7 @@ export async function cellRuns(exec: Exec, workspaceId: string, notebookId: stri
 export interface LoadedChains {
   unknownNames: string[];
   derivedNames: string[];
-  chains: { chain: number; draws: Float64Array; drawCount: number; dimension: number; divergent: Uint8Array }[];
+  chains: { chain: number; draws: Float64Array; drawCount: number; dimension: number; divergent: Uint8Array; rejected: Uint8Array }[];
 }
 
 export async function loadChains(exec: Exec, workspaceId: string, runId: string): Promise<LoadedChains> {
@@ -81,6 +81,8 @@ export async function loadChains(exec: Exec, workspaceId: string, runId: string)
       drawCount: r.drawCount,
       dimension: r.dimension,
       divergent: decodeFlags((r.stats as ChainStats).divergent, r.drawCount),
+      // Rows stored before rejected steps were recorded have no list: read as none.
+      rejected: decodeFlags((r.stats as ChainStats).rejected ?? [], r.drawCount),
     })),
   };
 }

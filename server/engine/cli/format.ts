@@ -106,6 +106,7 @@ export function summaryTable(summary: FitSummary, model?: string): string {
   out.push('');
   const parts = [
     `divergences ${d.divergences}`,
+    ...(d.rejectedSteps !== undefined ? [`rejected steps ${d.rejectedSteps}`] : []),
     `acceptance ${fmtNum(d.acceptance, 3)}`,
     `step size ${d.stepSize > 0 ? fmtNum(d.stepSize, 3) : 'n/a'}`,
     `max R̂ ${d.maxRhat.toFixed(3)}`,

@@ -10,6 +10,7 @@
  * | enough-tail-draws       | min tail-ESS < 100 × chains            | run-longer  | Vehtari et al. (2021), §4.4      |
  * | no-divergences          | divergent share of kept draws > 1%     | do-not-use  | ours (a judgement call)          |
  * | no-divergences          | 0 < divergent share ≤ 1%               | run-longer  | ours (a judgement call)          |
+ * | steps-completed         | rejected share of kept draws > 10%     | run-longer  | ours (a judgement call)          |
  * | energy-explored         | any chain's E-FMI < 0.2                | run-longer  | ours; see below                  |
  *
  * Sources and judgement calls:
@@ -18,10 +19,17 @@
  *   chains. Below that, more draws are the remedy: "run-longer".
  * - R̂ above 1.05 means the chains describe visibly different distributions; we treat that as
  *   "do-not-use" (our threshold, the older 1.1 convention made stricter).
- * - Divergent transitions (energy error blow-up, leaving the region, an implicit step that does not
- *   converge) mark parts of the region the integrator cannot follow, and running longer does not fix
- *   the bias they signal. Any divergence fails the rule; more than 1% of draws is "do-not-use",
- *   fewer is "run-longer" with an advice to inspect them (our thresholds).
+ * - Divergent transitions — the energy error blowing up (non-finite or above 1000, the threshold in
+ *   common use) — mark parts of the region the integrator cannot resolve, and running longer does
+ *   not fix the bias they signal. Any divergence fails the rule; more than 1% of draws is
+ *   "do-not-use", fewer is "run-longer" with an advice to inspect them (our thresholds).
+ * - Rejected steps — a transition rejected because an implicit step could not be completed (solver
+ *   non-convergence, M not positive definite, leaving the region, run-back mismatch) — are not
+ *   divergences: with the run-back check the proposal map restricted to where the forward and
+ *   backward solves succeed is an involution (Noble, De Bortoli & Durmus 2023), so the chain stays
+ *   exact and the cost is efficiency, which ESS already measures. We still flag a rejected share
+ *   above 10% as "run-longer" because it signals slow mixing near the faces; the 10% is our
+ *   judgement call, not a published threshold. Runs stored without the count pass as unknown.
  * - E-FMI: Betancourt (2016, arXiv:1604.00695) reports that values below about 0.3 went with poor
  *   exploration in his examples (from memory); we flag below 0.2 as "run-longer" (our threshold).
  *   Samplers without an energy (hit-and-run) pass this rule as not applicable.
@@ -33,6 +41,8 @@ export const THRESHOLDS = {
   rhatRunLonger: 1.01,
   essPerChain: 100,
   divergenceShareDoNotUse: 0.01,
+  /** Our judgement call (see the module notes): above this share of rejected steps, "run-longer". */
+  rejectedShareRunLonger: 0.1,
   efmiMin: 0.2,
 } as const;
 
@@ -40,7 +50,10 @@ export interface VerdictInput {
   chains: number;
   /** Kept draws per chain. */
   draws: number;
+  /** Classic divergences only: energy error non-finite or above 1000. */
   divergences: number;
+  /** Transitions rejected because a step could not be completed (absent: not recorded). */
+  rejectedSteps?: number;
   maxRhat: number;
   minEssBulk: number;
   minEssTail: number;
@@ -110,6 +123,17 @@ export function judgeRun(input: VerdictInput): Verdict {
         ? `more than ${100 * t.divergenceShareDoNotUse}% of transitions diverged, so parts of the region were not explored`
         : 'a few transitions diverged; inspect where they occur',
   });
+  if (input.rejectedSteps !== undefined) {
+    const rShare = kept > 0 ? input.rejectedSteps / kept : 0;
+    out.push({
+      rule: `steps completed: rejected steps ≤ ${100 * t.rejectedShareRunLonger}% of draws (our judgement call)`,
+      passed: rShare <= t.rejectedShareRunLonger,
+      detail: `${input.rejectedSteps} of ${kept} draws (${fmt(100 * rShare, 2)}%)`,
+      level: 'run-longer',
+      advice:
+        'the sampler often could not complete a step near the constraint faces: the draws are exact but mixing is slow; a smaller step or the hit-and-run cross-check may help',
+    });
+  }
   if (input.efmi && input.efmi.length > 0) {
     const low = Math.min(...input.efmi);
     out.push({

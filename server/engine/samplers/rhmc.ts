@@ -25,9 +25,14 @@
  * Exactness: each step is run back from (z', −p') with the same solvers and must land on z (the
  * involution check of Noble, De Bortoli & Durmus 2023, one more factorisation of M). A step whose
  * fixed point or Newton iteration does not converge, whose M is not positive definite, that leaves
- * the region or fails the run-back check rejects the whole trajectory and is counted as a
- * divergence, as is an energy error above 1000. Every kept draw is checked against the constraints
- * by the caller. Factorisations per step: 3 (forward M, g(z'), run-back M).
+ * the region or fails the run-back check rejects the whole trajectory and is counted as *rejected*
+ * (ChainOutput.rejected), not as a divergence: the proposal map restricted to where the forward and
+ * backward solves succeed is an involution, so the Metropolis step stays exact and such rejections
+ * only cost efficiency, which ESS measures. A *divergence* (ChainOutput.divergent) is the energy
+ * error blowing up, as in common practice: H non-finite along the trajectory (a step reaching a
+ * point where ℓ or the metric is not finite) or an energy error above 1000 at its end. Every kept
+ * draw is checked against the constraints by the caller. Factorisations per step: 3 (forward M,
+ * g(z'), run-back M).
  *
  * Step-size limit (measured, see bench/samplers.bench.ts): for a row whose Dikin velocity
  * c = (A v)ᵢ / sᵢ has ε|c| beyond about ½, the implicit equations have no solution (in one dimension they
@@ -68,10 +73,10 @@ export interface RhmcSettings {
   checkFullNewton: number;
   /**
    * Factor applied to dual averaging's final step size: solver failures rise steeply just above the
-   * adapted size (module notes), so a slightly smaller step keeps divergences rare after warm-up.
+   * adapted size (module notes), so a slightly smaller step keeps rejections rare after warm-up.
    * Measured (4 seeds × 2 chains × 500 draws each on a Gaussian on the 10-simplex, the normal on
-   * [−1, 1] and the ordered-groups posterior): divergent draws 36 / 26 / 5 with factor 1, 2 / 2 / 0
-   * with 0.7, at similar ESS per draw and run time.
+   * [−1, 1] and the ordered-groups posterior; solver failures and energy blow-ups counted together):
+   * failed draws 36 / 26 / 5 with factor 1, 2 / 2 / 0 with 0.7, at similar ESS per draw and run time.
    */
   finalStepScale: number;
   /** Run each step back and require the start (Noble, De Bortoli & Durmus 2023). */
@@ -81,10 +86,11 @@ export interface RhmcSettings {
 }
 
 export const DEFAULT_RHMC: RhmcSettings = {
-  // 0.95 rather than the usual 0.8: a failed implicit solve rejects the whole trajectory (and counts
-  // as a divergence), and those failures rise steeply past a step-size cliff (see the module notes).
-  // Measured on the ordered-groups posterior (3 chains × 1000 draws): target 0.9 gave 96 divergent
-  // draws, 0.95 gave 2; on the truncated normal 0.8 let chains stick near a face.
+  // 0.95 rather than the usual 0.8: a failed implicit solve rejects the whole trajectory, and those
+  // failures rise steeply past a step-size cliff (see the module notes). Measured on the
+  // ordered-groups posterior (3 chains × 1000 draws), when solver failures were still counted as
+  // divergences: target 0.9 gave 96 such draws, 0.95 gave 2; on the truncated normal 0.8 let chains
+  // stick near a face.
   targetAccept: 0.95,
   // Integration time in metric units: on the 50-simplex 1.2 gave ESS/draw 0.08, 2.5 gave 0.32 and 3
   // gave 0.43 (same seed), the best ESS per second of the three; the step cap only guards runaways.
@@ -514,19 +520,24 @@ export function rhmcChain(
   const p0 = new Float64Array(n);
   const xi = new Float64Array(n);
 
-  /** One trajectory of `steps` steps from `state`; returns acceptance statistic and whether it diverged. */
-  const transition = (eps: number, steps: number): { accept: number; divergent: boolean; energy: number } => {
+  /**
+   * One trajectory of `steps` steps from `state`. Returns the acceptance statistic, whether it
+   * diverged (the energy error blew up: a non-finite H along the way or an error above 1000, the
+   * threshold in common use) and whether it was rejected because a step could not be completed
+   * (solver non-convergence, M not positive definite, leaving the region, run-back mismatch).
+   */
+  const transition = (eps: number, steps: number): { accept: number; divergent: boolean; rejected: boolean; energy: number } => {
     rng.normals(xi);
     state.chol.multiplyL(xi, p0);
     const h0 = integ.energy(state, p0);
     pm.set(p0);
     cur.copyFrom(state);
-    let divergent = false;
+    let failure: StepResult = 'ok';
     for (let k = 0; k < steps; k++) {
       const r = integ.step(cur, next, pm, eps);
       stepResultCounts[r] = (stepResultCounts[r] ?? 0) + 1;
       if (r !== 'ok') {
-        divergent = true;
+        failure = r;
         break;
       }
       const t = cur;
@@ -534,18 +545,21 @@ export function rhmcChain(
       next = t;
     }
     const u = rng.uniformPositive();
-    if (divergent) return { accept: 0, divergent: true, energy: h0 };
+    // A step that reaches a point where ℓ (or the metric) is not finite makes H non-finite there:
+    // the energy error blew up, a divergence. Every other failure is a rejected, exact transition.
+    if (failure === 'not-finite') return { accept: 0, divergent: true, rejected: false, energy: h0 };
+    if (failure !== 'ok') return { accept: 0, divergent: false, rejected: true, energy: h0 };
     const h1 = integ.energy(cur, pm);
     const dH = h1 - h0;
-    if (!Number.isFinite(dH) || dH > 1000) return { accept: 0, divergent: true, energy: h0 };
+    if (!Number.isFinite(dH) || dH > 1000) return { accept: 0, divergent: true, rejected: false, energy: h0 };
     const a = dH <= 0 ? 1 : Math.exp(-dH);
     if (u < a) {
       const t = state;
       state = cur;
       cur = t;
-      return { accept: a, divergent: false, energy: h1 };
+      return { accept: a, divergent: false, rejected: false, energy: h1 };
     }
-    return { accept: a, divergent: false, energy: h0 };
+    return { accept: a, divergent: false, rejected: false, energy: h0 };
   };
 
   // Initial step size: double or halve until the one-step acceptance crosses ½ (common practice).
@@ -579,6 +593,7 @@ export function rhmcChain(
   const draws = new Float64Array(opts.draws * dim);
   const energy = new Float64Array(opts.draws);
   const divergentOut = new Uint8Array(opts.draws);
+  const rejectedOut = new Uint8Array(opts.draws);
   const acceptOut = new Float64Array(opts.draws);
   const theta = new Float64Array(dim);
   const total = opts.warmup + opts.draws;
@@ -667,6 +682,7 @@ export function rhmcChain(
       draws.set(theta, k * dim);
       energy[k] = res.energy;
       divergentOut[k] = res.divergent ? 1 : 0;
+      rejectedOut[k] = res.rejected ? 1 : 0;
       acceptOut[k] = res.accept;
     }
     if (opts.onProgress && (it % 20 === 0 || it === total - 1)) opts.onProgress(warm ? 'warmup' : 'sampling', it);
@@ -676,6 +692,7 @@ export function rhmcChain(
     draws,
     energy,
     divergent: divergentOut,
+    rejected: rejectedOut,
     acceptStat: acceptOut,
     stepSize: eps,
     factorizationsPerStep: sSteps > 0 ? (integ.factorizations - factAtSampling) / sSteps : NaN,

@@ -9,6 +9,7 @@ const good: VerdictInput = {
   chains: 4,
   draws: 1000,
   divergences: 0,
+  rejectedSteps: 0,
   maxRhat: 1.003,
   minEssBulk: 1500,
   minEssTail: 1200,
@@ -16,8 +17,8 @@ const good: VerdictInput = {
 };
 
 // The rule table documented in verdict.ts: R̂ 1.01 and ESS 100 per chain from Vehtari et al. (2021);
-// 1.05, the 1% divergence share and E-FMI 0.2 are our judgement calls.
-const cases: Array<{ name: string; change: Partial<VerdictInput>; level: string; failed: number }> = [
+// 1.05, the 1% divergence share, the 10% rejected-step share and E-FMI 0.2 are our judgement calls.
+const cases: Array<{ name: string; change: Partial<VerdictInput>; level: string; failed: number; rules?: number }> = [
   { name: 'all good', change: {}, level: 'trustworthy', failed: 0 },
   { name: 'R̂ exactly 1.01 passes', change: { maxRhat: 1.01 }, level: 'trustworthy', failed: 0 },
   { name: 'R̂ 1.02', change: { maxRhat: 1.02 }, level: 'run-longer', failed: 1 },
@@ -31,6 +32,19 @@ const cases: Array<{ name: string; change: Partial<VerdictInput>; level: string;
   { name: '41 divergences in 4000', change: { divergences: 41 }, level: 'do-not-use', failed: 1 },
   { name: 'E-FMI 0.15 in one chain', change: { efmi: [0.9, 0.15, 1, 1] }, level: 'run-longer', failed: 1 },
   { name: 'no energy (hit-and-run)', change: { efmi: undefined }, level: 'trustworthy', failed: 0 },
+  // Rejected steps (a step could not be completed) keep the chain exact: only a large share fails,
+  // and only as run-longer; they never count as divergences.
+  { name: '4 rejected steps in 4000 pass', change: { rejectedSteps: 4 }, level: 'trustworthy', failed: 0 },
+  { name: '400 rejected steps in 4000 (10%) pass', change: { rejectedSteps: 400 }, level: 'trustworthy', failed: 0 },
+  { name: '401 rejected steps in 4000', change: { rejectedSteps: 401 }, level: 'run-longer', failed: 1 },
+  { name: 'half the steps rejected is still run-longer', change: { rejectedSteps: 2000 }, level: 'run-longer', failed: 1 },
+  {
+    name: 'rejections and one divergence fail separately',
+    change: { rejectedSteps: 500, divergences: 1 },
+    level: 'run-longer',
+    failed: 2,
+  },
+  { name: 'summary stored without the count: rule not shown', change: { rejectedSteps: undefined }, level: 'trustworthy', failed: 0, rules: 6 },
   {
     name: 'several failures take the worst level',
     change: { maxRhat: 1.2, minEssBulk: 50, divergences: 3 },
@@ -47,7 +61,7 @@ describe('verdict rules (table in verdict.ts)', () => {
       expect(v.level).toBe(c.level);
       expect(v.rules.filter((r) => !r.passed)).toHaveLength(c.failed);
       // Every rule is shown, passed or not.
-      expect(v.rules).toHaveLength(6);
+      expect(v.rules).toHaveLength(c.rules ?? 7);
       if (c.level !== 'trustworthy') expect(v.reason).toMatch(/Run longer|Do not use/);
     });
   }
@@ -57,8 +71,14 @@ describe('verdict rules (table in verdict.ts)', () => {
       rhatRunLonger: 1.01,
       essPerChain: 100,
       divergenceShareDoNotUse: 0.01,
+      rejectedShareRunLonger: 0.1,
       efmiMin: 0.2,
     });
+  });
+  it('gives the rejected-steps advice when that is the failing rule', () => {
+    const v = judgeRun({ ...good, rejectedSteps: 1000 });
+    expect(v.reason).toContain('could not complete a step near the constraint faces');
+    expect(v.reason).toContain('1000 of 4000 draws (25%)');
   });
   it('names the quantity with the worst R̂ in the detail', () => {
     const v = judgeRun({ ...good, maxRhat: 1.3, worstRhatName: 'mu[2]' });

@@ -82,7 +82,7 @@ describe('fit command (module model, in-process chains)', () => {
     for (const k of ['name', 'mean', 'sd', 'q5', 'q50', 'q95', 'rhat', 'essBulk', 'essTail', 'mcseMean']) {
       expect(doc.quantities[0]).toHaveProperty(k);
     }
-    for (const k of ['divergences', 'acceptance', 'stepSize', 'maxRhat', 'minEssBulk', 'minEssTail']) {
+    for (const k of ['divergences', 'rejectedSteps', 'acceptance', 'stepSize', 'maxRhat', 'minEssBulk', 'minEssTail']) {
       expect(doc.diagnostics).toHaveProperty(k);
     }
     expect(doc.verdict).toHaveProperty('level');
@@ -106,6 +106,8 @@ describe('fit command (module model, in-process chains)', () => {
     expect(io.out).toMatch(/\nshift \(derived\)/);
     expect(io.out).toMatch(/Verdict: (TRUSTWORTHY|RUN LONGER|DO NOT USE) — /);
     expect(io.out).toMatch(/ (pass|FAIL) {2}chains agree/);
+    expect(io.out).toMatch(/Diagnostics: divergences \d+ · rejected steps \d+ · acceptance/);
+    expect(io.out).toMatch(/ (pass|FAIL) {2}steps completed: rejected steps ≤ 10% of draws/);
     // A warning line under the header whenever the verdict is not "trustworthy".
     const doc = io.out.split('\n');
     expect(doc[2].startsWith('Warning — ')).toBe(!io.out.includes('Verdict: TRUSTWORTHY'));

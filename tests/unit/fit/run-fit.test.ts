@@ -25,8 +25,13 @@ describe('runFit', () => {
       expect(Array.from(b.chains[c].draws)).toEqual(Array.from(a.chains[c].draws));
       expect(Array.from(b.chains[c].derivedDraws)).toEqual(Array.from(a.chains[c].derivedDraws));
       expect(Array.from(b.chains[c].energy!)).toEqual(Array.from(a.chains[c].energy!));
+      // Per-draw flags cross the thread boundary too.
+      expect(Array.from(b.chains[c].divergent)).toEqual(Array.from(a.chains[c].divergent));
+      expect(b.chains[c].rejected).toHaveLength(150);
+      expect(Array.from(b.chains[c].rejected!)).toEqual(Array.from(a.chains[c].rejected!));
     }
     expect(b.summary.quantities).toEqual(a.summary.quantities);
+    expect(b.summary.diagnostics.rejectedSteps).toBe(a.summary.diagnostics.rejectedSteps);
     // Another seed gives other draws.
     const c = await runFit(trunc, { ...settings, seed: 4243 }, { parallel: false });
     expect(Array.from(c.chains[0].draws)).not.toEqual(Array.from(a.chains[0].draws));
@@ -123,6 +128,14 @@ describe('runFit', () => {
     const resumed = await runFit(trunc, settings, { resume: [full.chains[2]], onChainDone: (c) => resumedHanded.push(c.chain) });
     expect(resumedHanded.sort()).toEqual([0, 1]);
     expect(resumed.summary.quantities).toEqual(full.summary.quantities);
+    // The summary counts flags over every chain's kept draws; a kept chain without `rejected`
+    // (stored before it existed) reads as zeros.
+    const flagged = (c: { rejected?: Uint8Array }) => (c.rejected ? c.rejected.reduce((s, x) => s + x, 0) : 0);
+    expect(full.summary.diagnostics.rejectedSteps).toBe(full.chains.reduce((s, c) => s + flagged(c), 0));
+    const { rejected: _dropped, ...older } = full.chains[2];
+    const fromOlder = await runFit(trunc, settings, { parallel: false, resume: [older] });
+    expect(fromOlder.summary.diagnostics.rejectedSteps).toBe(flagged(full.chains[0]) + flagged(full.chains[1]));
+    expect(fromOlder.summary.quantities).toEqual(full.summary.quantities);
     await expect(runFit(trunc, { ...settings, draws: 90 }, { parallel: false, resume: [full.chains[0]] })).rejects.toThrow(
       /does not match/,
     );

@@ -23,7 +23,8 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
       <SummaryTable quantities={s.quantities} chains={s.settings.chains} />
       <p className="sl-hint" data-testid="run-diagnostics">
         {s.settings.chains} chains × {s.settings.draws} draws after {s.settings.warmup} warm-up · sampler {d.samplerUsed} ({d.samplerReason}) ·
-        divergences <span className={d.divergences > 0 ? 'sl-fail' : ''}>{d.divergences}</span> · acceptance {formatEstimate(d.acceptance, 2)} · step size{' '}
+        divergences <span className={d.divergences > 0 ? 'sl-fail' : ''}>{d.divergences}</span>
+        {d.rejectedSteps !== undefined ? ` · rejected steps ${d.rejectedSteps}` : ''} · acceptance {formatEstimate(d.acceptance, 2)} · step size{' '}
         {formatEstimate(d.stepSize, 2)}
         {d.efmi && d.efmi.length > 0 ? ` · E-FMI ${d.efmi.map((x) => formatEstimate(x, 2)).join(', ')}` : ''}
         {d.factorizationsPerStep !== undefined ? ` · ${formatEstimate(d.factorizationsPerStep, 2)} factorisations per step` : ''} · {formatSeconds(s.seconds)}
