@@ -362,6 +362,7 @@ export async function run(): Promise<Record<string, number | string>> {
 
     // ---- opening the notebook ----
     const loads: Required<Marks>[] = [];
+    const apiLoads: { count: number; firstStart: number; lastEnd: number }[] = [];
     let drawsMs = NaN;
     let drawsKiB = NaN;
     let bigPlotAfterDrawsMs: number[] = [];
@@ -371,14 +372,17 @@ export async function run(): Promise<Record<string, number | string>> {
         const m = (window as unknown as { __benchMarks?: Marks }).__benchMarks;
         return !!m && m.content !== undefined && m.plots !== undefined && m.bigPlot !== undefined;
       }, null, { polling: 100 });
-      const { marks, draws } = await page.evaluate((runId) => {
+      const { marks, draws, api } = await page.evaluate((runId) => {
         const e = performance.getEntriesByType('resource').find((r) => r.name.includes(`/runs/${runId}/draws`)) as PerformanceResourceTiming | undefined;
+        const api = performance.getEntriesByType('resource').filter((r) => r.name.includes('/api/')) as PerformanceResourceTiming[];
         return {
           marks: (window as unknown as { __benchMarks: Required<Marks> }).__benchMarks,
           draws: e ? { start: e.startTime, end: e.responseEnd, bytes: e.encodedBodySize } : null,
+          api: { count: api.length, firstStart: Math.min(...api.map((r) => r.startTime)), lastEnd: Math.max(...api.map((r) => r.responseEnd)) },
         };
       }, seeded.bigRunId);
       loads.push(marks);
+      apiLoads.push(api);
       if (draws) {
         bigPlotAfterDrawsMs.push(marks.bigPlot - draws.end);
         drawsMs = draws.end - draws.start;
@@ -421,6 +425,9 @@ export async function run(): Promise<Record<string, number | string>> {
       'open.content_ms': round1(openMs),
       'open.all_plots_ms': round1(median(warm.map((m) => m.plots))),
       'open.big_plot_ms': round1(median(warm.map((m) => m.bigPlot))),
+      'open.api_requests': median(apiLoads.slice(1).map((a) => a.count)),
+      'open.first_api_request_ms': round1(median(apiLoads.slice(1).map((a) => a.firstStart))),
+      'open.last_api_response_ms': round1(median(apiLoads.slice(1).map((a) => a.lastEnd))),
       'plots.draws_request_ms': round1(drawsMs),
       'plots.draws_response_kib': Math.round(drawsKiB),
       'plots.panel_after_draws_ms': round1(plotInitial),
