@@ -362,7 +362,7 @@ export async function run(): Promise<Record<string, number | string>> {
 
     // ---- opening the notebook ----
     const loads: Required<Marks>[] = [];
-    const apiLoads: { count: number; firstStart: number; lastEnd: number }[] = [];
+    const apiLoads: { count: number; firstStart: number; lastEnd: number; byKind: [string, number][] }[] = [];
     let drawsMs = NaN;
     let drawsKiB = NaN;
     let bigPlotAfterDrawsMs: number[] = [];
@@ -378,7 +378,17 @@ export async function run(): Promise<Record<string, number | string>> {
         return {
           marks: (window as unknown as { __benchMarks: Required<Marks> }).__benchMarks,
           draws: e ? { start: e.startTime, end: e.responseEnd, bytes: e.encodedBodySize } : null,
-          api: { count: api.length, firstStart: Math.min(...api.map((r) => r.startTime)), lastEnd: Math.max(...api.map((r) => r.responseEnd)) },
+          api: {
+            count: api.length,
+            firstStart: Math.min(...api.map((r) => r.startTime)),
+            lastEnd: Math.max(...api.map((r) => r.responseEnd)),
+            // Per kind of request: the time from request start to the end of the answer.
+            byKind: api.map((r) => {
+              const u = new URL(r.name).pathname;
+              const kind = u.endsWith('/compile') ? 'compile' : u.includes('/datasets/') ? 'dataset' : u.endsWith('/draws') ? 'draws' : u.endsWith('/runs') ? 'cell_runs' : u.endsWith('/comments') ? 'comments' : /\/notebooks\/[^/]+$/.test(u) ? 'notebook' : 'other';
+              return [kind, r.responseEnd - r.startTime] as [string, number];
+            }),
+          },
         };
       }, seeded.bigRunId);
       loads.push(marks);
@@ -428,6 +438,16 @@ export async function run(): Promise<Record<string, number | string>> {
       'open.api_requests': median(apiLoads.slice(1).map((a) => a.count)),
       'open.first_api_request_ms': round1(median(apiLoads.slice(1).map((a) => a.firstStart))),
       'open.last_api_response_ms': round1(median(apiLoads.slice(1).map((a) => a.lastEnd))),
+      'open.api_counts': (() => {
+        const c: Record<string, number> = {};
+        for (const [k] of apiLoads[apiLoads.length - 1].byKind) c[k] = (c[k] ?? 0) + 1;
+        return Object.entries(c).map(([k, n]) => `${k} ${n}`).join(', ');
+      })(),
+      'open.api_median_ms_by_kind': (() => {
+        const d: Record<string, number[]> = {};
+        for (const a of apiLoads.slice(1)) for (const [k, ms] of a.byKind) (d[k] ??= []).push(ms);
+        return Object.entries(d).map(([k, xs]) => `${k} ${Math.round(median(xs))}`).join(', ');
+      })(),
       'plots.draws_request_ms': round1(drawsMs),
       'plots.draws_response_kib': Math.round(drawsKiB),
       'plots.panel_after_draws_ms': round1(plotInitial),
