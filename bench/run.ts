@@ -7,7 +7,7 @@
  * with the machine's CPU model, core count and Node version. Speed is recorded here, never asserted
  * in a test.
  */
-import { appendFileSync, existsSync, readdirSync, writeFileSync } from 'node:fs';
+import { appendFileSync, existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -38,8 +38,8 @@ function fmt(v: number | string): string {
 
 const README_HEAD = `# Benchmark results
 
-One row per benchmark per run of \`npm run bench\` (newest last); \`latest.json\` holds the full
-record of the last run. Figures depend on the machine and on what else it was doing: compare rows
+One row per benchmark per run of \`npm run bench\` (newest last); \`latest.json\` holds the newest
+record of each benchmark. Figures depend on the machine and on what else it was doing: compare rows
 from the same machine.
 
 | date (UTC) | benchmark | cpu | cores | node | seconds | results |
@@ -88,8 +88,13 @@ async function main(): Promise<void> {
   for (const r of rows) console.log(line(r));
 
   // Files.
-  const record = { date: started.toISOString(), machine, results };
-  writeFileSync(path.join(resultsDir, 'latest.json'), JSON.stringify(record, null, 2) + '\n');
+  // latest.json keeps the newest record of every benchmark, so a filtered run (npm run bench --
+  // notebook) replaces only the benchmarks it ran.
+  const latestPath = path.join(resultsDir, 'latest.json');
+  const previous = existsSync(latestPath) ? (JSON.parse(readFileSync(latestPath, 'utf8')) as { results?: Record<string, unknown> }) : {};
+  const stamped = Object.fromEntries(Object.entries(results).map(([k, v]) => [k, { date: started.toISOString(), machine, ...v }]));
+  const record = { date: started.toISOString(), machine, results: { ...(previous.results ?? {}), ...stamped } };
+  writeFileSync(latestPath, JSON.stringify(record, null, 2) + '\n');
   const readme = path.join(resultsDir, 'README.md');
   if (!existsSync(readme)) writeFileSync(readme, README_HEAD);
   const date = started.toISOString().slice(0, 16).replace('T', ' ');

@@ -15,8 +15,13 @@ const PLOT_WORDS: Record<PlotKind, string> = {
   pair: 'Pair',
 };
 
-/** Points per chain drawn in traces and clouds (summaries always use every draw). */
+/** Points per chain drawn in traces and densities (summaries always use every draw). */
 const MAX_PER_CHAIN = 1000;
+/**
+ * Points drawn in a pair cloud over all chains, as in the feasible-region cloud: every one is an
+ * SVG element, and 4 chains × 1,000 circles took about twice as long to draw as 2,000.
+ */
+const MAX_CLOUD_POINTS = 2000;
 
 export function FitPlots({ draws }: { draws: RunDraws }) {
   const hasRegion = draws.region !== null && draws.unknownCount >= 2 && (draws.region.A.length > 0 || draws.region.E.length > 0);
@@ -47,7 +52,14 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
       }
       case 'pair': {
         const [i, j] = pair;
-        const rows = draws.chains.flatMap((c) => thinIndices(c.values[i]?.length ?? 0, MAX_PER_CHAIN).map((t) => ({ x: c.values[i][t], y: c.values[j][t], chain: c.chain, divergent: c.divergent[t] ?? 0 })));
+        // Thinned evenly per chain, but every divergent transition is kept: they are what the cloud is read for.
+        const perChain = Math.max(1, Math.floor(MAX_CLOUD_POINTS / Math.max(1, chains)));
+        const rows = draws.chains.flatMap((c) => {
+          const n = c.values[i]?.length ?? 0;
+          const keep = new Set(thinIndices(n, perChain));
+          for (let t = 0; t < n; t++) if (c.divergent[t]) keep.add(t);
+          return [...keep].sort((a, b) => a - b).map((t) => ({ x: c.values[i][t], y: c.values[j][t], chain: c.chain, divergent: c.divergent[t] ?? 0 }));
+        });
         return pairSpec(draws.names[i], draws.names[j], rows, chains);
       }
       case 'region': {
@@ -107,6 +119,9 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
         <PlotFrame spec={spec} label={`${PLOT_WORDS[kind]} plot`} />
       )}
       {draws.thin > 1 && <p className="sl-hint">Plotted from every {draws.thin}th draw; the summary uses them all.</p>}
+      {kind === 'pair' && (draws.chains[0]?.values[0]?.length ?? 0) * chains > MAX_CLOUD_POINTS && (
+        <p className="sl-hint">The cloud shows about {MAX_CLOUD_POINTS} evenly spaced draws and every divergent one.</p>
+      )}
     </div>
   );
 }

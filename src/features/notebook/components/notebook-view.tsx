@@ -2,7 +2,7 @@
  * The notebook page body: the column of cells with their tools, autosave, conflicts, comments and
  * the keyboard. Members edit according to their role; share-link visitors and viewers read only.
  */
-import { useMemo, useRef, useState, type ChangeEvent } from 'react';
+import { useEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
 import { useQueries, useQueryClient } from '@tanstack/react-query';
 import { useNavigate } from 'react-router-dom';
 import { CELL_KIND_LABELS, dataContentSchema, type NbCell, type NbCellKind } from '@shared/api/notebook';
@@ -24,6 +24,7 @@ import {
   type NotebookAccess,
 } from '../api/notebook-api';
 import { nbKeys } from '../api/keys';
+import { preloadCharts } from './plot-frame';
 import '../notebook.css';
 
 export interface NotebookViewProps {
@@ -43,6 +44,11 @@ const STATE_WORDS: Record<SaveState, string> = {
 
 export function NotebookView({ access, cells: rawCells, canEdit, canComment }: NotebookViewProps) {
   const cells = useMemo(() => [...rawCells].sort((a, b) => a.position - b.position), [rawCells]);
+  const hasFitCell = cells.some((c) => c.kind === 'fit');
+  useEffect(() => {
+    // Fetch the charting code alongside the runs' draws rather than after them.
+    if (hasFitCell) void preloadCharts().catch(() => undefined);
+  }, [hasFitCell]);
   const [activeId, setActiveId] = useState<string | null>(cells[0]?.id ?? null);
   const [runSignals, setRunSignals] = useState<Record<string, number>>({});
   const [editingNotes, setEditingNotes] = useState<Record<string, boolean>>({});

@@ -5,8 +5,22 @@ import type { Spec } from '@/lib/plot/specs';
  * Charts render through react-vega's VegaEmbed, loaded with a dynamic import() so vega stays out
  * of the main bundle and only loads when a fit's plots are first shown.
  */
+let chartModules: Promise<[typeof import('react-vega'), typeof import('vega-interpreter')]> | null = null;
+
+/**
+ * Starts loading the charting code (once). The notebook calls it as soon as it holds a fit cell,
+ * so the library downloads while the run's draws are still being fetched instead of after.
+ */
+export function preloadCharts() {
+  chartModules ??= Promise.all([import('react-vega'), import('vega-interpreter')]).catch((e: unknown) => {
+    chartModules = null; // a failed download is tried again by the next chart
+    throw e;
+  });
+  return chartModules;
+}
+
 const LazyVega = lazy(async () => {
-  const [mod, interp] = await Promise.all([import('react-vega'), import('vega-interpreter')]);
+  const [mod, interp] = await preloadCharts();
   // The app's Content-Security-Policy forbids eval: Vega evaluates its expressions with the
   // AST interpreter instead of generated functions.
   const options = { actions: false, renderer: 'svg' as const, ast: true, expr: interp.expressionInterpreter };
