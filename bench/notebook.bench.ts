@@ -25,13 +25,12 @@ import { and, eq, max } from 'drizzle-orm';
 import type { Db } from '../server/db/client';
 import { cells, datasets, runs } from '../server/db/schema';
 import { DEMO_USER, seedDemo } from '../server/db/seed';
-import { seedDemoNotebook } from '../server/db/seed-notebook';
+import { notebookWriter, seedDemoNotebook } from '../server/db/seed-notebook';
 import { closeFitWorkers, runFit } from '../server/engine/fit';
 import { Rng } from '../server/engine/rng';
 import { finishRun, type RunSpec } from '../server/jobs/queue';
 import { newId } from '../server/lib/ids';
 import { runMigrations } from '../server/db/migrate';
-import { readUpload } from '../server/notebook/datasets';
 import { parseCsv } from '../shared/data';
 import type { FitSettings } from '../shared/fit';
 import { startThrowawayMariaDb } from './lib/throwaway-db';
@@ -175,20 +174,8 @@ async function seedNotebook(db: Db): Promise<Seeded> {
   const t = { userId: demo.userId, workspaceId: demo.workspaceId, notebookId: demo.notebookId };
   const where = and(eq(cells.workspaceId, t.workspaceId), eq(cells.notebookId, t.notebookId));
   const [{ last }] = await db.select({ last: max(cells.position) }).from(cells).where(where);
-  let position = (last ?? -1) + 1;
-
-  const addDataset = async (name: string, csv: string) => {
-    const bytes = Buffer.from(csv, 'utf8');
-    const { columns, rows } = readUpload(bytes);
-    const id = newId();
-    await db.insert(datasets).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId: null, name, columns, rowCount: rows, bytes: bytes.length, content: bytes, createdBy: t.userId, createdAt: now });
-    return id;
-  };
-  const addCell = async (kind: 'notes' | 'data' | 'model' | 'fit', source: string, content: unknown) => {
-    const id = newId();
-    await db.insert(cells).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, kind, position: position++, source, content, version: 1, collapsed: false, createdBy: t.userId, updatedBy: t.userId, createdAt: now, updatedAt: now });
-    return id;
-  };
+  const writer = notebookWriter(db, t, (last ?? -1) + 1, now);
+  const { addDataset, addCell } = writer;
 
   // The 20-quantity fit, stored as the job worker stores one: a claimed run row, the engine's
   // result, then finishRun (chains, summary, status) in one transaction.
@@ -217,15 +204,15 @@ async function seedNotebook(db: Db): Promise<Seeded> {
 
   // Groups of notes, data, model and a fit cell (settings only, not yet run) up to 49 cells,
   // then closing notes.
-  for (let k = 1; position < CELLS - 1; k++) {
+  for (let k = 1; writer.position < CELLS - 1; k++) {
     const orchard = k % 2 === 1;
     await addCell('notes', groupNotes(k, orchard), null);
-    if (position >= CELLS - 1) break;
+    if (writer.position >= CELLS - 1) break;
     const ds = await addDataset(orchard ? `orchard${k}` : `blend${k}`, orchard ? orchardCsv(100 + k) : blendCsv(200 + k));
     await addCell('data', '', { datasetId: ds });
-    if (position >= CELLS - 1) break;
+    if (writer.position >= CELLS - 1) break;
     const model = await addCell('model', orchard ? orchardModel(k) : blendModel(k), null);
-    if (position >= CELLS - 1) break;
+    if (writer.position >= CELLS - 1) break;
     await addCell('fit', '', { modelCellId: model, settings: { chains: 4, warmup: 1000, draws: 1000, seed: 1000 + k, sampler: 'auto' } });
   }
   await addCell('notes', '## Next\n\nCompare the orchard models once their fits have run, and write up the blend shares.\n', null);

@@ -126,25 +126,38 @@ export interface DemoNotebookTarget {
   notebookId: string;
 }
 
+/**
+ * Appends datasets and cells to a notebook, as the seeding code and the benchmark build them:
+ * cells get consecutive positions from `startPosition`.
+ */
+export function notebookWriter(db: Db, t: DemoNotebookTarget, startPosition: number, now: Date) {
+  let position = startPosition;
+  return {
+    /** The position the next cell will take. */
+    get position() {
+      return position;
+    },
+    async addDataset(name: string, csv: string): Promise<string> {
+      const bytes = Buffer.from(csv, 'utf8');
+      const { columns, rows } = readUpload(bytes);
+      const id = newId();
+      await db.insert(datasets).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId: null, name, columns, rowCount: rows, bytes: bytes.length, content: bytes, createdBy: t.userId, createdAt: now });
+      return id;
+    },
+    async addCell(kind: 'notes' | 'data' | 'model' | 'fit', source: string, content: unknown): Promise<string> {
+      const id = newId();
+      await db.insert(cells).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, kind, position: position++, source, content, version: 1, collapsed: false, createdBy: t.userId, updatedBy: t.userId, createdAt: now, updatedAt: now });
+      return id;
+    },
+  };
+}
+
 /** Fill the demo notebook (after its first notes cell) and compute both fits. */
 export async function seedDemoNotebook(db: Db, t: DemoNotebookTarget, now: Date = new Date(), settings: FitSettings = DEMO_SETTINGS): Promise<string[]> {
   const existing = await db.select().from(cells).where(and(eq(cells.workspaceId, t.workspaceId), eq(cells.notebookId, t.notebookId)));
   if (existing.some((c) => c.kind === 'model')) return [];
-  let position = existing.length;
   const created: string[] = [];
-
-  const addDataset = async (name: string, csv: string) => {
-    const bytes = Buffer.from(csv, 'utf8');
-    const { columns, rows } = readUpload(bytes);
-    const id = newId();
-    await db.insert(datasets).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId: null, name, columns, rowCount: rows, bytes: bytes.length, content: bytes, createdBy: t.userId, createdAt: now });
-    return id;
-  };
-  const addCell = async (kind: 'notes' | 'data' | 'model' | 'fit', source: string, content: unknown) => {
-    const id = newId();
-    await db.insert(cells).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, kind, position: position++, source, content, version: 1, collapsed: false, createdBy: t.userId, updatedBy: t.userId, createdAt: now, updatedAt: now });
-    return id;
-  };
+  const { addDataset, addCell } = notebookWriter(db, t, existing.length, now);
   const addFinishedFit = async (fitCellId: string, source: string, tables: Record<string, { id: string; csv: string }>) => {
     const spec: RunSpec = { source, tables: Object.fromEntries(Object.entries(tables).map(([k, v]) => [k, v.id])) };
     const parsed = Object.fromEntries(Object.entries(tables).map(([k, v]) => [k, parseCsv(v.csv).table!]));
