@@ -23,7 +23,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { and, eq, max } from 'drizzle-orm';
 import type { Db } from '../server/db/client';
-import { cells, datasets, runs } from '../server/db/schema';
+import { cells, runs } from '../server/db/schema';
 import { DEMO_USER, seedDemo } from '../server/db/seed';
 import { notebookWriter, seedDemoNotebook } from '../server/db/seed-notebook';
 import { closeFitWorkers, runFit } from '../server/engine/fit';
