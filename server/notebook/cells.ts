@@ -1,13 +1,15 @@
 /** Cell storage: ordering, versioned saves, row mapping. Every query is scoped to the workspace. */
 import { and, asc, eq, gt, gte, lt, lte, sql } from 'drizzle-orm';
-import type { NbCell, NbCellKind } from '../../shared/api/notebook';
+import type { NbCellKind } from '../../shared/api/notebook';
+import type { Cell } from '../../shared/api/notebooks';
 import { cells, notebooks } from '../db/schema';
 import type { Exec } from '../lib/audit';
 import { notFound } from '../http/errors';
 
 export type CellRow = typeof cells.$inferSelect;
 
-export const toNbCell = (c: CellRow): NbCell => ({
+/** A cell row as the API answers it. */
+export const toCell = (c: CellRow): Cell => ({
   id: c.id,
   notebookId: c.notebookId,
   kind: c.kind,

@@ -12,7 +12,7 @@ import { cells } from '../db/schema';
 import { mount } from '../http/route';
 import { badRequest, notFound } from '../http/errors';
 import { newId } from '../lib/ids';
-import { closeGap, findCell, lockNotebook, moveWithin, openGap, orderedCells, toNbCell, touchNotebook } from '../notebook/cells';
+import { closeGap, findCell, lockNotebook, moveWithin, openGap, orderedCells, toCell, touchNotebook } from '../notebook/cells';
 
 export function cellsRouter(ctx: AppContext): Router {
   const r = Router();
@@ -51,7 +51,7 @@ export function cellsRouter(ctx: AppContext): Router {
       await touchNotebook(tx, ws.id, params.notebookId, now);
       return values;
     });
-    return { cell: toNbCell(row) };
+    return { cell: toCell(row) };
   });
 
   mount(r, ctx, routes.saveCell, async ({ params, body }, req, res) => {
@@ -76,13 +76,13 @@ export function cellsRouter(ctx: AppContext): Router {
           code: 'conflict',
           message: `This cell was saved by someone else (version ${latest.version}; your edit started from version ${body.baseVersion}). Nothing was overwritten.`,
         },
-        conflict: { current: toNbCell(latest), yours: { baseVersion: body.baseVersion, ...patch } },
+        conflict: { current: toCell(latest), yours: { baseVersion: body.baseVersion, ...patch } },
       };
       res.status(409).json(conflict);
       return undefined as never;
     }
     await touchNotebook(db, ws.id, params.notebookId, now);
-    return { cell: toNbCell(await findCell(db, ws.id, params.notebookId, params.cellId)) };
+    return { cell: toCell(await findCell(db, ws.id, params.notebookId, params.cellId)) };
   });
 
   mount(r, ctx, routes.moveCell, async ({ params, body }, req) => {
@@ -111,7 +111,7 @@ export function cellsRouter(ctx: AppContext): Router {
     const ws = req.workspace!;
     const cell = await findCell(db, ws.id, params.notebookId, params.cellId);
     await db.update(cells).set({ collapsed: body.collapsed }).where(and(eq(cells.workspaceId, ws.id), eq(cells.id, cell.id)));
-    return { cell: toNbCell({ ...cell, collapsed: body.collapsed }) };
+    return { cell: toCell({ ...cell, collapsed: body.collapsed }) };
   });
 
   mount(r, ctx, routes.deleteCell, async ({ params }, req) => {

@@ -2,7 +2,8 @@
 import { Router } from 'express';
 import { and, asc, desc, eq } from 'drizzle-orm';
 import { routes } from '../../shared/api/routes';
-import type { Cell, Notebook } from '../../shared/api/notebooks';
+import type { Notebook } from '../../shared/api/notebooks';
+import { toCell } from '../notebook/cells';
 import type { AppContext } from '../context';
 import type { Exec } from '../lib/audit';
 import { cells, notebooks } from '../db/schema';
@@ -17,19 +18,6 @@ export const toNotebook = (n: typeof notebooks.$inferSelect): Notebook => ({
   title: n.title,
   createdAt: n.createdAt.toISOString(),
   updatedAt: n.updatedAt.toISOString(),
-});
-
-export const toCell = (c: typeof cells.$inferSelect): Cell => ({
-  id: c.id,
-  notebookId: c.notebookId,
-  kind: c.kind,
-  position: c.position,
-  source: c.source,
-  content: c.content ?? null,
-  version: c.version,
-  collapsed: c.collapsed,
-  createdAt: c.createdAt.toISOString(),
-  updatedAt: c.updatedAt.toISOString(),
 });
 
 /** The notebook with this id inside this workspace, or 404. */

@@ -5,22 +5,19 @@
  */
 import { z } from 'zod';
 import { fitProgressSchema, fitSettingsSchema, fitSummarySchema } from '../fit';
+import { idSchema, isoDateSchema } from './common';
+import { CELL_KINDS, cellKindSchema, cellSchema } from './notebooks';
 
-/** Opaque server identifiers (lowercase base32 / alphanumerics). */
-export const nbIdSchema = z
-  .string()
-  .min(1, 'Required')
-  .max(64, 'Too long')
-  .regex(/^[a-z0-9]+$/, 'Not a valid identifier');
-
-const isoDate = z.string();
+/** Identifiers, dates, cell kinds and cells are the foundation's own schemas (one definition each). */
+export const nbIdSchema = idSchema;
+const isoDate = isoDateSchema;
 
 /* ------------------------------------------------------------------------------------------ */
 /* Cells                                                                                       */
 /* ------------------------------------------------------------------------------------------ */
 
-export const NB_CELL_KINDS = ['notes', 'data', 'model', 'fit', 'compare'] as const;
-export const nbCellKindSchema = z.enum(NB_CELL_KINDS);
+export const NB_CELL_KINDS = CELL_KINDS;
+export const nbCellKindSchema = cellKindSchema;
 export type NbCellKind = z.infer<typeof nbCellKindSchema>;
 
 /** How each kind is named on screen (cells are labelled by kind in words, never numbered). */
@@ -96,18 +93,7 @@ export function checkCellContent(
 }
 
 /** A cell as the notebook page sees it. */
-export const nbCellSchema = z.object({
-  id: nbIdSchema,
-  notebookId: nbIdSchema,
-  kind: nbCellKindSchema,
-  position: z.number().int(),
-  source: z.string(),
-  content: z.unknown().nullable(),
-  version: z.number().int(),
-  collapsed: z.boolean(),
-  createdAt: isoDate,
-  updatedAt: isoDate,
-});
+export const nbCellSchema = cellSchema;
 export type NbCell = z.infer<typeof nbCellSchema>;
 export const nbCellResponse = z.object({ cell: nbCellSchema });
 export const nbCellListResponse = z.object({ cells: z.array(nbCellSchema) });
