@@ -7,12 +7,26 @@ import { simpleParser, type AddressObject } from 'mailparser';
 import type { Db } from '../db/client';
 import { mailOutbox } from '../db/schema';
 import { newId } from '../lib/ids';
+import type { CapturedMail } from '../../shared/api/system';
 
 export interface CaptureServer {
   port: number;
   /** smtp://127.0.0.1:<port> for createSmtpMailer */
   url: string;
   close(): Promise<void>;
+}
+
+/** A stored message as the dev mail page and the tests read it. */
+export function toCapturedMail(m: typeof mailOutbox.$inferSelect): CapturedMail {
+  return {
+    id: m.id,
+    from: m.fromAddress,
+    to: m.toAddresses,
+    subject: m.subject,
+    text: m.textBody,
+    html: m.htmlBody,
+    createdAt: m.createdAt.toISOString(),
+  };
 }
 
 function addresses(a: AddressObject | AddressObject[] | undefined): string[] {

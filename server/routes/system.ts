@@ -5,6 +5,7 @@ import { routes } from '../../shared/api/routes';
 import type { AppContext } from '../context';
 import { mailOutbox } from '../db/schema';
 import { mount } from '../http/route';
+import { toCapturedMail } from '../mail/capture-server';
 
 export function systemRouter(ctx: AppContext): Router {
   const r = Router();
@@ -26,15 +27,7 @@ export function systemRouter(ctx: AppContext): Router {
       .limit(query.to ? 1000 : (query.limit ?? 50));
     const filtered = query.to ? rows.filter((m) => m.toAddresses.includes(query.to!)) : rows;
     return {
-      messages: filtered.slice(0, query.limit ?? 50).map((m) => ({
-        id: m.id,
-        from: m.fromAddress,
-        to: m.toAddresses,
-        subject: m.subject,
-        text: m.textBody,
-        html: m.htmlBody,
-        createdAt: m.createdAt.toISOString(),
-      })),
+      messages: filtered.slice(0, query.limit ?? 50).map(toCapturedMail),
     };
   });
 

@@ -49,7 +49,7 @@ import { defaultConfig, type AppConfig } from '../../server/config';
 import { pingDb } from '../../server/db/client';
 import { mailOutbox } from '../../server/db/schema';
 import { ManualClock } from '../../server/lib/clock';
-import { startCaptureServer } from '../../server/mail/capture-server';
+import { startCaptureServer, toCapturedMail } from '../../server/mail/capture-server';
 import { createSmtpMailer } from '../../server/mail/mailer';
 import type { CapturedMail } from '../../shared/api/system';
 import { createTestDatabase, type TestDatabase } from './db';
@@ -85,15 +85,7 @@ export interface TestServerOptions {
 function mailbox(tdb: TestDatabase): Mailbox {
   const all = async (): Promise<CapturedMail[]> => {
     const rows = await tdb.db.select().from(mailOutbox).orderBy(desc(mailOutbox.createdAt), desc(mailOutbox.id));
-    return rows.map((m) => ({
-      id: m.id,
-      from: m.fromAddress,
-      to: m.toAddresses,
-      subject: m.subject,
-      text: m.textBody,
-      html: m.htmlBody,
-      createdAt: m.createdAt.toISOString(),
-    }));
+    return rows.map(toCapturedMail);
   };
   const latestTo = async (email: string) => (await all()).find((m) => m.to.includes(email.toLowerCase()));
   return {
