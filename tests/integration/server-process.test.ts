@@ -3,22 +3,12 @@
  * the API, delivers mail into the capture, and exits cleanly on SIGTERM.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import net from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createTestDatabase, type TestDatabase } from '../helpers/db';
 import { TestClient, signUp, createWorkspace, uniqueEmail } from '../helpers/http';
 import { REPO_ROOT } from '../helpers/server';
+import { freePort } from '../helpers/net';
 
-function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const s = net.createServer();
-    s.once('error', reject);
-    s.listen(0, '127.0.0.1', () => {
-      const port = (s.address() as net.AddressInfo).port;
-      s.close(() => resolve(port));
-    });
-  });
-}
 
 let tdb: TestDatabase;
 let child: ChildProcess;

@@ -1,0 +1,14 @@
+/** Networking helpers for tests and benchmarks that start their own processes. */
+import net from 'node:net';
+
+/** A TCP port on 127.0.0.1 that was free a moment ago (the OS picks it). */
+export function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const s = net.createServer();
+    s.once('error', reject);
+    s.listen(0, '127.0.0.1', () => {
+      const port = (s.address() as net.AddressInfo).port;
+      s.close(() => resolve(port));
+    });
+  });
+}
