@@ -1,25 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import Papa from 'papaparse';
-import { main, type CliIo } from '../../../server/engine/cli/fit';
+import { main } from '../../../server/engine/cli/fit';
+import { memoryIo } from './memory-io';
 
 const ROOT = fileURLToPath(new URL('../../../', import.meta.url));
 const at = (p: string) => `${ROOT}${p}`;
 
-function memoryIo(files: Record<string, string> = {}): CliIo & { out: string; err: string; written: Record<string, string> } {
-  const io = {
-    out: '',
-    err: '',
-    written: {} as Record<string, string>,
-    progress: false,
-    stdout: (t: string) => void (io.out += t),
-    stderr: (t: string) => void (io.err += t),
-    readFile: (f: string) => (f in files ? new TextEncoder().encode(files[f]) : readFileSync(f)),
-    writeFile: (f: string, t: string) => void (io.written[f] = t),
-  };
-  return io;
-}
 
 const SMALL = ['--chains', '2', '--warmup', '200', '--draws', '300', '--seed', '8'];
 

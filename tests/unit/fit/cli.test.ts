@@ -1,33 +1,18 @@
 import { describe, expect, it } from 'vitest';
 import { execFile } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import Papa from 'papaparse';
 import { parseCliArgs } from '../../../server/engine/cli/args';
-import { main, type CliIo } from '../../../server/engine/cli/fit';
+import { main } from '../../../server/engine/cli/fit';
+import { memoryIo } from './memory-io';
 import { fmtNum, summaryTable } from '../../../server/engine/cli/format';
 
 const MODEL = fileURLToPath(new URL('./cli-model.ts', import.meta.url));
 const ROOT = fileURLToPath(new URL('../../../', import.meta.url));
 
-function memoryIo(files: Record<string, string> = {}): CliIo & { out: string; err: string; written: Record<string, string> } {
-  const io = {
-    out: '',
-    err: '',
-    written: {} as Record<string, string>,
-    progress: false,
-    stdout: (t: string) => void (io.out += t),
-    stderr: (t: string) => void (io.err += t),
-    readFile: (f: string) => {
-      if (f in files) return new TextEncoder().encode(files[f]);
-      return readFileSync(f);
-    },
-    writeFile: (f: string, t: string) => void (io.written[f] = t),
-  };
-  return io;
-}
 
 // y values of an invented orchard trial; mean 5.2.
 const TRIAL = 'plot,y\n1,4.8\n2,5.5\n3,5.1\n4,5.6\n5,5.0\n';
