@@ -9,7 +9,7 @@ import { and, eq } from 'drizzle-orm';
 import { routes } from '../../shared/api/routes';
 import { fitContentSchema, RUN_LIMITS, WORKSPACE_CONCURRENT_RUNS } from '../../shared/api/notebook';
 import { FIT_LIMITS, type FitSummary } from '../../shared/fit';
-import { drawsCsvHeader, summaryCsv, csvField } from '../../shared/export-csv';
+import { drawsCsvHeader, drawsCsvRows, summaryCsv } from '../../shared/export-csv';
 import type { AppContext } from '../context';
 import { cells, runs, workspaces } from '../db/schema';
 import { mount } from '../http/route';
@@ -124,15 +124,8 @@ export function runsRouter(ctx: AppContext): Router {
     sendCsv(res, `draws-${run.id}.csv`);
     res.status(200);
     res.write(drawsCsvHeader([...loaded.unknownNames, ...loaded.derivedNames]) + '\n');
-    for (const c of loaded.chains) {
-      const lines: string[] = [];
-      for (let t = 0; t < c.drawCount; t++) {
-        const parts = [String(c.chain), String(t + 1)];
-        for (let k = 0; k < c.dimension; k++) parts.push(csvField(c.draws[t * c.dimension + k]));
-        lines.push(parts.join(','));
-      }
-      res.write(lines.join('\n') + '\n');
-    }
+    // Stored draws hold unknowns and derived quantities side by side in one row.
+    for (const c of loaded.chains) res.write([...drawsCsvRows(c.chain, c.draws, c.dimension, new Float64Array(0), 0)].join('\n') + '\n');
     res.end();
   });
 

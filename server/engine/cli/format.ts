@@ -3,6 +3,7 @@
  * draws as CSV.
  */
 import type { FitSummary } from '../../../shared/fit';
+import { drawsCsvHeader, drawsCsvRows } from '../../../shared/export-csv';
 import type { FitResult } from '../types';
 import { THRESHOLDS } from '../diagnostics/verdict';
 
@@ -121,27 +122,15 @@ export function summaryTable(summary: FitSummary, model?: string): string {
   return out.join('\n');
 }
 
-function csvCell(s: string): string {
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
 /**
- * Every draw as CSV: columns chain, iteration (both 1-based; iteration counts kept draws), then the
- * unknowns' flat coordinates, then the derived quantities. Numbers in shortest round-trip form.
+ * Every draw as CSV, in the same format as the notebook's draws export (shared/export-csv):
+ * chain, iteration (both 1-based; iteration counts kept draws), then the unknowns' flat
+ * coordinates, then the derived quantities.
  */
 export function drawsCsv(result: FitResult): string {
-  const names = [...result.unknownNames, ...result.derivedNames];
-  const lines: string[] = [['chain', 'iteration', ...names].map(csvCell).join(',')];
+  const lines = [drawsCsvHeader([...result.unknownNames, ...result.derivedNames])];
   const du = result.unknownNames.length;
   const dd = result.derivedNames.length;
-  for (const ch of result.chains) {
-    const n = du > 0 ? ch.draws.length / du : ch.derivedDraws.length / Math.max(dd, 1);
-    for (let i = 0; i < n; i++) {
-      const cells: string[] = [String(ch.chain + 1), String(i + 1)];
-      for (let j = 0; j < du; j++) cells.push(String(ch.draws[i * du + j]));
-      for (let j = 0; j < dd; j++) cells.push(String(ch.derivedDraws[i * dd + j]));
-      lines.push(cells.join(','));
-    }
-  }
+  for (const ch of result.chains) lines.push(...drawsCsvRows(ch.chain + 1, ch.draws, du, ch.derivedDraws, dd));
   return lines.join('\n') + '\n';
 }
