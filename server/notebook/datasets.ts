@@ -31,8 +31,13 @@ export function describeCsvErrors(result: CsvResult): string {
 }
 
 /** Parse an uploaded CSV; throws a 400 naming rows and columns when it cannot be used. */
+/** Parses CSV bytes (an upload or a stored dataset's content) without copying them. */
+function parseBytes(bytes: Buffer): CsvResult {
+  return parseCsv(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+}
+
 export function readUpload(bytes: Buffer): { result: CsvResult; columns: DatasetColumn[]; rows: number } {
-  const result = parseCsv(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+  const result = parseBytes(bytes);
   if (!result.table) throw badRequest(describeCsvErrors(result), { file: result.issues.find((i) => i.severity === 'error')?.message ?? 'Not a usable CSV file' });
   const columns: DatasetColumn[] = result.columns.map((c) => ({
     name: c.name,
@@ -45,7 +50,7 @@ export function readUpload(bytes: Buffer): { result: CsvResult; columns: Dataset
 
 /** The first rows of a stored dataset for the preview table (numbers, labels, null when missing). */
 export function previewRows(d: DatasetRow, limit = DATASET_PREVIEW_ROWS): PreviewValue[][] {
-  const { table } = parseCsv(new Uint8Array(d.content.buffer, d.content.byteOffset, d.content.byteLength));
+  const { table } = parseBytes(d.content);
   if (!table) return [];
   const names = (d.columns as DatasetColumn[]).map((c) => c.name);
   const n = Math.min(limit, table.rows);
@@ -95,7 +100,7 @@ export async function notebookTables(exec: Exec, workspaceId: string, notebookId
 export function toDataTables(rows: Iterable<DatasetRow>): DataTables {
   const out: DataTables = {};
   for (const d of rows) {
-    const { table } = parseCsv(new Uint8Array(d.content.buffer, d.content.byteOffset, d.content.byteLength));
+    const { table } = parseBytes(d.content);
     if (!table) throw badRequest(`The stored table "${d.name}" can no longer be read`);
     out[d.name] = table;
   }
