@@ -75,7 +75,7 @@ describe('fit command (module model, in-process chains)', () => {
     expect(doc.settings).toEqual({ chains: 2, warmup: 100, draws: 200, seed: 5, sampler: 'auto' });
     expect(typeof doc.seconds).toBe('number');
     // Posterior of a normal mean with known σ = 1 and a flat prior (the bounds ±10 are ~20 sd away):
-    // N(ȳ, 1/n) = N(5.2, 0.2) (Gelman et al., Bayesian Data Analysis 3rd ed., §2.5). 4·MCSE tolerance.
+    // N(ȳ, 1/n) = N(5.2, 0.2) ("Bayesian Data Analysis", 3rd ed., CRC Press 2013, §2.5). 4·MCSE tolerance.
     const mu = doc.quantities[0];
     expect(Math.abs(mu.mean - 5.2)).toBeLessThan(4 * mu.mcseMean);
     expect(Math.abs(doc.quantities[1].mean - 0.2)).toBeLessThan(4 * doc.quantities[1].mcseMean);
