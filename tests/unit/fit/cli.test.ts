@@ -86,8 +86,10 @@ describe('fit command (module model, in-process chains)', () => {
     const code = await main([...base, '--draws-out', 'out.csv'], io, { parallel: false });
     expect(code).toBe(0);
     expect(io.out).toMatch(/^Fit of cli-model\.ts: 2 chains × 200 draws after 100 warm-up, seed 5/);
-    expect(io.out).toMatch(/quantity\s+mean\s+sd\s+5%\s+50%\s+95%\s+R̂\s+ess-bulk\s+ess-tail\s+mcse-mean/);
-    expect(io.out).toMatch(/\nmu\s+5\.\d+/);
+    // Estimate and interval first, mixing figures after the bar.
+    expect(io.out).toMatch(/quantity\s+median\s+90% interval\s+mean\s+sd\s+│\s+mixing R̂\s+eff\. draws centre\s+eff\. draws tails\s+MC error of median/);
+    expect(io.out).toMatch(/\nmu\s+5\.\d+\s+\S+ to \S+\s+5\.\d+/);
+    expect(io.out).toMatch(/fewest effective draws: centre \d+, tails \d+/);
     expect(io.out).toMatch(/\nshift \(derived\)/);
     expect(io.out).toMatch(/Verdict: (TRUSTWORTHY|RUN LONGER|DO NOT USE) — /);
     expect(io.out).toMatch(/ (pass|FAIL) {2}chains agree/);

@@ -102,11 +102,19 @@ describe('CSV exports', () => {
     const [row] = [...drawsCsvRows(1, new Float64Array([x]), 1, new Float64Array(0), 0)];
     expect(Number(row.split(',')[2])).toBe(x);
   });
-  it('summary CSV has one row per quantity', () => {
-    const csv = summaryCsv([{ name: 'mu[1]', kind: 'unknown', mean: 1, sd: 2, q5: 0, q50: 1, q95: 2, rhat: 1.001, essBulk: 900, essTail: 800, mcseMean: 0.01, mcseQ5: 0.02, mcseQ50: 0.01, mcseQ95: 0.02 }]);
+  it('summary CSV has one row per quantity, estimate and interval first, then mixing and precision', () => {
+    const csv = summaryCsv([
+      { name: 'mu[1]', kind: 'unknown', mean: 1.1, sd: 2, q5: -0.5, q50: 1, q95: 2.5, rhat: 1.001, essBulk: 900, essTail: 800, mcseMean: 0.01, mcseQ5: 0.03, mcseQ50: 0.015, mcseQ95: 0.02 },
+      { name: 'gain, net', kind: 'derived', mean: 3, sd: 0, q5: 3, q50: 3, q95: 3, rhat: 1, essBulk: 400, essTail: 400, mcseMean: 0, mcseQ5: 0, mcseQ50: 0, mcseQ95: 0 },
+    ]);
     const parsed = Papa.parse<string[]>(csv.trim()).data;
-    expect(parsed).toHaveLength(2);
-    expect(parsed[0][0]).toBe('quantity');
-    expect(parsed[1].slice(0, 3)).toEqual(['mu[1]', 'unknown', '1']);
+    expect(parsed).toHaveLength(3);
+    expect(parsed[0]).toEqual([
+      'quantity', 'origin', 'median', 'interval90_low', 'interval90_high', 'posterior_mean', 'posterior_sd',
+      'mixing_rhat', 'effective_draws_centre', 'effective_draws_tails',
+      'mc_error_median', 'mc_error_interval90_low', 'mc_error_interval90_high', 'mc_error_mean',
+    ]);
+    expect(parsed[1]).toEqual(['mu[1]', 'unknown', '1', '-0.5', '2.5', '1.1', '2', '1.001', '900', '800', '0.015', '0.03', '0.02', '0.01']);
+    expect(parsed[2].slice(0, 3)).toEqual(['gain, net', 'derived', '3']);
   });
 });
