@@ -186,6 +186,7 @@ export interface NotebookFileContents {
 
 export type ReadNotebookFile = { ok: true; file: NotebookFileContents } | { ok: false; message: string };
 
+const newer = (v: number) => `This file was written by a newer Slackline (format version ${v}; this one reads versions 1 to ${NOTEBOOK_FILE_VERSION})`;
 const NOT_A_FILE = `Not a Slackline notebook file (no "slackline_notebook" version field)`;
 
 /**
@@ -199,8 +200,7 @@ export function readNotebookFile(json: unknown): ReadNotebookFile {
     const v = o.slackline_notebook;
     if (typeof v !== 'number' || !Number.isInteger(v) || v < 2)
       return { ok: false, message: `Not a valid Slackline notebook file: slackline_notebook: expected the format version ${NOTEBOOK_FILE_VERSION}` };
-    if (v > NOTEBOOK_FILE_VERSION)
-      return { ok: false, message: `This file was written by a newer Slackline (format version ${v}; this one reads versions 1 to ${NOTEBOOK_FILE_VERSION})` };
+    if (v > NOTEBOOK_FILE_VERSION) return { ok: false, message: newer(v) };
     const r = notebookFileV2Schema.safeParse(json);
     if (!r.success) return { ok: false, message: describeNotebookFileError(r.error) };
     const f = r.data;
@@ -215,6 +215,8 @@ export function readNotebookFile(json: unknown): ReadNotebookFile {
     };
   }
   if ('slackline' in o) {
+    const v = o.slackline;
+    if (typeof v === 'number' && Number.isInteger(v) && v > 1) return { ok: false, message: newer(v) };
     const r = notebookFileSchema.safeParse(json);
     if (!r.success) return { ok: false, message: describeNotebookFileError(r.error) };
     const f = r.data;

@@ -129,7 +129,8 @@ describe('notebook file', () => {
     expect(refused({ title: 'x', blocks: [], tables: [] })).toMatch(/no "slackline_notebook" version field/);
     expect(refused({ ...json(), slackline_notebook: 3 })).toMatch(/newer Slackline \(format version 3; this one reads versions 1 to 2\)/);
     expect(refused({ ...json(), slackline_notebook: '2' })).toMatch(/slackline_notebook: expected the format version 2/);
-    expect(refused({ ...v1, slackline: 2 })).toMatch(/newer Slackline/);
+    expect(refused({ ...v1, slackline: 9 })).toMatch(/newer Slackline \(format version 9; this one reads versions 1 to 2\)/);
+    expect(refused({ ...v1, slackline: 0 })).toMatch(/^Not a valid Slackline notebook file: slackline/);
   });
 
   it('refuses malformed version 2 files, naming the place', () => {
