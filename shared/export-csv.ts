@@ -25,14 +25,33 @@ export function* drawsCsvRows(chain: number, unknowns: Float64Array, dimU: numbe
   }
 }
 
-export const SUMMARY_CSV_COLUMNS = ['quantity', 'kind', 'mean', 'sd', 'q5', 'q50', 'q95', 'rhat', 'ess_bulk', 'ess_tail', 'mcse_mean', 'mcse_q5', 'mcse_q50', 'mcse_q95'] as const;
+/**
+ * The summary file: one row per quantity, columns in the order a reader of a constrained model asks
+ * about them — where the quantity lies (median and the central 90 % interval), its posterior mean
+ * and spread, whether the chains mixed, and how precise the Monte Carlo estimates are. Column
+ * meanings are documented in docs/engine.md ("Summary file").
+ */
+const SUMMARY_COLUMNS: readonly { header: string; value: (q: QuantitySummary) => string | number }[] = [
+  { header: 'quantity', value: (q) => q.name },
+  { header: 'origin', value: (q) => q.kind },
+  { header: 'median', value: (q) => q.q50 },
+  { header: 'interval90_low', value: (q) => q.q5 },
+  { header: 'interval90_high', value: (q) => q.q95 },
+  { header: 'posterior_mean', value: (q) => q.mean },
+  { header: 'posterior_sd', value: (q) => q.sd },
+  { header: 'mixing_rhat', value: (q) => q.rhat },
+  { header: 'effective_draws_centre', value: (q) => q.essBulk },
+  { header: 'effective_draws_tails', value: (q) => q.essTail },
+  { header: 'mc_error_median', value: (q) => q.mcseQ50 },
+  { header: 'mc_error_interval90_low', value: (q) => q.mcseQ5 },
+  { header: 'mc_error_interval90_high', value: (q) => q.mcseQ95 },
+  { header: 'mc_error_mean', value: (q) => q.mcseMean },
+];
+
+export const SUMMARY_CSV_COLUMNS: readonly string[] = SUMMARY_COLUMNS.map((c) => c.header);
 
 export function summaryCsv(quantities: readonly QuantitySummary[]): string {
-  const lines = [SUMMARY_CSV_COLUMNS.join(',')];
-  for (const q of quantities) {
-    lines.push(
-      [q.name, q.kind, q.mean, q.sd, q.q5, q.q50, q.q95, q.rhat, q.essBulk, q.essTail, q.mcseMean, q.mcseQ5, q.mcseQ50, q.mcseQ95].map(csvField).join(','),
-    );
-  }
+  const lines = [SUMMARY_CSV_COLUMNS.map(csvField).join(',')];
+  for (const q of quantities) lines.push(SUMMARY_COLUMNS.map((c) => csvField(c.value(q))).join(','));
   return lines.join('\n') + '\n';
 }

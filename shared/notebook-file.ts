@@ -1,9 +1,41 @@
 /**
- * The notebook file of our own format (see shared/api/notebook.ts, notebookFileSchema):
- * building one from stored cells and datasets, and re-pointing its references on import.
+ * The Slackline notebook file: building one from stored cells and datasets (export), and reading
+ * one back (import) — the current layout, version 2, and the first layout, version 1
+ * (`notebookFileSchema` in shared/api/notebook.ts).
+ *
+ * Version 2:
+ *
+ *   {
+ *     "slackline_notebook": 2,
+ *     "title": "Orchard trial",
+ *     "saved_at": "2026-12-01T12:00:00.000Z",
+ *     "blocks": [
+ *       { "ref": "b1", "role": "notes",   "folded": false, "text": "# Irrigation" },
+ *       { "ref": "b2", "role": "data",    "folded": false, "text": "", "table_ref": "t1" },
+ *       { "ref": "b3", "role": "model",   "folded": false, "text": "table plots\n…" },
+ *       { "ref": "b4", "role": "fit",     "folded": false, "text": "", "model_ref": "b3", "settings": { … } },
+ *       { "ref": "b5", "role": "compare", "folded": false, "text": "", "model_refs": ["b3"] }
+ *     ],
+ *     "tables": [ { "ref": "t1", "name": "plots", "csv": "water,set\n…" } ]
+ *   }
+ *
+ * Blocks are the notebook's cells in order; `role` is the cell's kind and `text` its source. Refs
+ * are local to the file (letters, digits, _ and -); `table_ref`, `model_ref` and `model_refs`
+ * point at them and are re-pointed at new ids on import. Tables travel as CSV text and are parsed
+ * again on import, exactly like an upload. Runs are not part of the file: fits are re-run from their
+ * settings (seed included, so the same draws come back).
  */
-import type { NbCellKind, NotebookFile } from './api/notebook';
-import { NOTEBOOK_FILE_VERSION } from './api/notebook';
+import { z } from 'zod';
+import {
+  cellSourceSchema,
+  DATASET_MAX_BYTES,
+  describeNotebookFileError,
+  NOTEBOOK_FILE_VERSION,
+  notebookFileSchema,
+  tableNameSchema,
+  type NbCellKind,
+} from './api/notebook';
+import { fitSettingsSchema, type FitSettings } from './fit';
 
 export interface ExportCell {
   id: string;
@@ -49,26 +81,168 @@ export function remapContent(
   }
 }
 
-/** Build a notebook file: cells in order, datasets the data cells use, file-local keys. */
+/* ------------------------------------------------------------------------------------------ */
+/* Version 2                                                                                    */
+/* ------------------------------------------------------------------------------------------ */
+
+const fileRef = z.string().min(1).max(64).regex(/^[A-Za-z0-9_-]+$/, 'Refs use letters, digits, _ and -');
+const folded = z.boolean().default(false);
+
+export const notebookBlockSchema = z.discriminatedUnion('role', [
+  z.strictObject({ ref: fileRef, role: z.literal('notes'), folded, text: cellSourceSchema }),
+  z.strictObject({ ref: fileRef, role: z.literal('data'), folded, text: cellSourceSchema.default(''), table_ref: fileRef.nullable() }),
+  z.strictObject({ ref: fileRef, role: z.literal('model'), folded, text: cellSourceSchema }),
+  z.strictObject({ ref: fileRef, role: z.literal('fit'), folded, text: cellSourceSchema.default(''), model_ref: fileRef.nullable(), settings: fitSettingsSchema }),
+  z.strictObject({ ref: fileRef, role: z.literal('compare'), folded, text: cellSourceSchema.default(''), model_refs: z.array(fileRef).max(8, 'At most 8 models') }),
+]);
+export type NotebookBlock = z.infer<typeof notebookBlockSchema>;
+
+export const notebookTableSchema = z.strictObject({
+  ref: fileRef,
+  name: tableNameSchema,
+  csv: z.string().max(DATASET_MAX_BYTES, 'Table larger than the upload limit'),
+});
+
+export const notebookFileV2Schema = z
+  .strictObject({
+    slackline_notebook: z.literal(NOTEBOOK_FILE_VERSION),
+    title: z.string().trim().min(1, 'Required').max(160, 'At most 160 characters'),
+    saved_at: z.iso.datetime({ offset: true }).optional(),
+    blocks: z.array(notebookBlockSchema).max(500, 'At most 500 blocks'),
+    tables: z.array(notebookTableSchema).max(50, 'At most 50 tables'),
+  })
+  .superRefine((file, ctx) => {
+    const roles = new Map<string, string>();
+    file.blocks.forEach((b, i) => {
+      if (roles.has(b.ref)) ctx.addIssue({ code: 'custom', path: ['blocks', i, 'ref'], message: `Duplicate block ref "${b.ref}"` });
+      roles.set(b.ref, b.role);
+    });
+    const tableRefs = new Set<string>();
+    const tableNames = new Set<string>();
+    file.tables.forEach((t, i) => {
+      if (tableRefs.has(t.ref)) ctx.addIssue({ code: 'custom', path: ['tables', i, 'ref'], message: `Duplicate table ref "${t.ref}"` });
+      if (tableNames.has(t.name)) ctx.addIssue({ code: 'custom', path: ['tables', i, 'name'], message: `Duplicate table name "${t.name}"` });
+      tableRefs.add(t.ref);
+      tableNames.add(t.name);
+    });
+    const modelRef = (ref: string, path: (string | number)[]) => {
+      const role = roles.get(ref);
+      if (role !== 'model') ctx.addIssue({ code: 'custom', path, message: role ? `Block "${ref}" is a ${role} block, not a model block` : `No block with ref "${ref}"` });
+    };
+    file.blocks.forEach((b, i) => {
+      if (b.role === 'data' && b.table_ref !== null && !tableRefs.has(b.table_ref))
+        ctx.addIssue({ code: 'custom', path: ['blocks', i, 'table_ref'], message: `No table with ref "${b.table_ref}"` });
+      if (b.role === 'fit' && b.model_ref !== null) modelRef(b.model_ref, ['blocks', i, 'model_ref']);
+      if (b.role === 'compare') b.model_refs.forEach((r, j) => modelRef(r, ['blocks', i, 'model_refs', j]));
+    });
+  });
+export type NotebookFileV2 = z.infer<typeof notebookFileV2Schema>;
+
+/** Build a notebook file (version 2): cells in order, the datasets the data cells use, file refs. */
 export function buildNotebookFile(
   title: string,
   cells: readonly ExportCell[],
   datasets: readonly ExportDataset[],
   exportedAt: Date,
-): NotebookFile {
-  const cellKey = new Map(cells.map((c, i) => [c.id, `c${i + 1}`]));
-  const modelKeys = new Map(cells.filter((c) => c.kind === 'model').map((c) => [c.id, cellKey.get(c.id)!]));
-  const dataKey = new Map(datasets.map((d, i) => [d.id, `d${i + 1}`]));
+): NotebookFileV2 {
+  const blockRef = new Map(cells.map((c, i) => [c.id, `b${i + 1}`]));
+  const modelRefs = new Map(cells.filter((c) => c.kind === 'model').map((c) => [c.id, blockRef.get(c.id)!]));
+  const tableRef = new Map(datasets.map((d, i) => [d.id, `t${i + 1}`]));
+  const blocks = cells.map((c): NotebookBlock => {
+    const head = { ref: blockRef.get(c.id)!, folded: c.collapsed, text: c.source };
+    const content = remapContent(c.kind, c.content, (id) => modelRefs.get(id), (id) => tableRef.get(id)) as Record<string, unknown> | null;
+    switch (c.kind) {
+      case 'notes':
+      case 'model':
+        return { ...head, role: c.kind };
+      case 'data':
+        return { ...head, role: 'data', table_ref: (content?.datasetId as string | null) ?? null };
+      case 'fit':
+        return { ...head, role: 'fit', model_ref: (content?.modelCellId as string | null) ?? null, settings: content?.settings as FitSettings };
+      case 'compare':
+        return { ...head, role: 'compare', model_refs: (content?.modelCellIds as string[] | undefined) ?? [] };
+    }
+  });
   return {
-    slackline: NOTEBOOK_FILE_VERSION,
-    notebook: { title, exportedAt: exportedAt.toISOString() },
-    cells: cells.map((c) => ({
-      key: cellKey.get(c.id)!,
-      kind: c.kind,
-      collapsed: c.collapsed,
-      source: c.source,
-      content: remapContent(c.kind, c.content, (id) => modelKeys.get(id), (id) => dataKey.get(id)),
-    })) as NotebookFile['cells'],
-    datasets: datasets.map((d) => ({ key: dataKey.get(d.id)!, name: d.name, csv: d.csv })),
+    slackline_notebook: NOTEBOOK_FILE_VERSION,
+    title,
+    saved_at: exportedAt.toISOString(),
+    blocks,
+    tables: datasets.map((d) => ({ ref: tableRef.get(d.id)!, name: d.name, csv: d.csv })),
   };
+}
+
+/* ------------------------------------------------------------------------------------------ */
+/* Reading either version                                                                       */
+/* ------------------------------------------------------------------------------------------ */
+
+/** A notebook file's contents, whichever version it was written in; references hold file refs. */
+export interface NotebookFileContents {
+  version: 1 | 2;
+  title: string;
+  cells: { key: string; kind: NbCellKind; source: string; collapsed: boolean; content: unknown }[];
+  datasets: { key: string; name: string; csv: string }[];
+}
+
+export type ReadNotebookFile = { ok: true; file: NotebookFileContents } | { ok: false; message: string };
+
+const newer = (v: number) => `This file was written by a newer Slackline (format version ${v}; this one reads versions 1 to ${NOTEBOOK_FILE_VERSION})`;
+const NOT_A_FILE = `Not a Slackline notebook file (no "slackline_notebook" version field)`;
+
+/**
+ * Validate parsed JSON as a notebook file of version 2 or 1 and return its contents, or one
+ * readable sentence naming the first problem and where it is.
+ */
+export function readNotebookFile(json: unknown): ReadNotebookFile {
+  if (typeof json !== 'object' || json === null || Array.isArray(json)) return { ok: false, message: NOT_A_FILE };
+  const o = json as Record<string, unknown>;
+  if ('slackline_notebook' in o) {
+    const v = o.slackline_notebook;
+    if (typeof v !== 'number' || !Number.isInteger(v) || v < 2)
+      return { ok: false, message: `Not a valid Slackline notebook file: slackline_notebook: expected the format version ${NOTEBOOK_FILE_VERSION}` };
+    if (v > NOTEBOOK_FILE_VERSION) return { ok: false, message: newer(v) };
+    const r = notebookFileV2Schema.safeParse(json);
+    if (!r.success) return { ok: false, message: describeNotebookFileError(r.error) };
+    const f = r.data;
+    return {
+      ok: true,
+      file: {
+        version: 2,
+        title: f.title,
+        cells: f.blocks.map((b) => ({ key: b.ref, kind: b.role, source: b.text, collapsed: b.folded, content: blockContent(b) })),
+        datasets: f.tables.map((t) => ({ key: t.ref, name: t.name, csv: t.csv })),
+      },
+    };
+  }
+  if ('slackline' in o) {
+    const v = o.slackline;
+    if (typeof v === 'number' && Number.isInteger(v) && v > 1) return { ok: false, message: newer(v) };
+    const r = notebookFileSchema.safeParse(json);
+    if (!r.success) return { ok: false, message: describeNotebookFileError(r.error) };
+    const f = r.data;
+    return {
+      ok: true,
+      file: {
+        version: 1,
+        title: f.notebook.title,
+        cells: f.cells.map((c) => ({ key: c.key, kind: c.kind, source: c.source, collapsed: c.collapsed, content: c.content })),
+        datasets: f.datasets.map((d) => ({ key: d.key, name: d.name, csv: d.csv })),
+      },
+    };
+  }
+  return { ok: false, message: NOT_A_FILE };
+}
+
+/** A block's references in the shape of the stored cell content (still holding file refs). */
+function blockContent(b: NotebookBlock): unknown {
+  switch (b.role) {
+    case 'data':
+      return { datasetId: b.table_ref };
+    case 'fit':
+      return { modelCellId: b.model_ref, settings: b.settings };
+    case 'compare':
+      return { modelCellIds: b.model_refs };
+    default:
+      return null;
+  }
 }

@@ -1,6 +1,6 @@
 /**
- * Maximum a posteriori by an interior-point (barrier) Newton method (Boyd & Vandenberghe, Convex
- * Optimization, §11.3): minimise f_μ(z) = −ℓ(z) − μ Σ log(bᵢ − aᵢ z) for μ = 1, 0.1, 0.01, … down to
+ * Maximum a posteriori by an interior-point (barrier) Newton method ("Convex Optimization",
+ * Cambridge University Press 2004, §11.3): minimise f_μ(z) = −ℓ(z) − μ Σ log(bᵢ − aᵢ z) for μ = 1, 0.1, 0.01, … down to
  * m·μ ≤ 1e-11·(1 + |ℓ|), each stage by damped Newton from the previous stage's point.
  * ∇²ℓ comes from central differences of the gradient (2n gradient evaluations per Newton step), with
  * Levenberg damping when −∇²ℓ is not positive definite. Starts at the analytic centre.

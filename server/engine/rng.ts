@@ -1,7 +1,7 @@
 /**
  * Seeded pseudo-random numbers for reproducible chains: same seed ⇒ same stream.
- * Generator: xoshiro128** (Blackman & Vigna, "Scrambled linear pseudorandom number generators",
- * ACM TOMS 2021), state seeded through splitmix32 so small seeds give well-mixed states.
+ * Generator: xoshiro128** ("Scrambled linear pseudorandom number generators", ACM TOMS
+ * 2021), state seeded through splitmix32 so small seeds give well-mixed states.
  * Doubles use 53 random bits from two 32-bit outputs.
  */
 export class Rng {

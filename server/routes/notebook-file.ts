@@ -2,8 +2,8 @@
 import { Router } from 'express';
 import { and, eq, inArray } from 'drizzle-orm';
 import { routes } from '../../shared/api/routes';
-import { describeNotebookFileError, NOTEBOOK_FILE_MAX_BYTES, notebookFileSchema } from '../../shared/api/notebook';
-import { buildNotebookFile, remapContent } from '../../shared/notebook-file';
+import { NOTEBOOK_FILE_MAX_BYTES } from '../../shared/api/notebook';
+import { buildNotebookFile, readNotebookFile, remapContent } from '../../shared/notebook-file';
 import type { AppContext } from '../context';
 import { cells, datasets, notebooks } from '../db/schema';
 import { mount } from '../http/route';
@@ -50,9 +50,10 @@ export function notebookFileRouter(ctx: AppContext): Router {
     } catch {
       throw badRequest('Not a Slackline notebook file: the file is not valid JSON', { file: 'Not valid JSON' });
     }
-    const parsed = notebookFileSchema.safeParse(json);
-    if (!parsed.success) throw badRequest(describeNotebookFileError(parsed.error), { file: describeNotebookFileError(parsed.error) });
-    const nf = parsed.data;
+    // Version 2 (written by export) or version 1; one sentence naming the first problem otherwise.
+    const read = readNotebookFile(json);
+    if (!read.ok) throw badRequest(read.message, { file: read.message });
+    const nf = read.file;
     // Parse every dataset before writing anything: a bad table refuses the whole file.
     const tables = nf.datasets.map((d) => {
       try {
@@ -66,7 +67,7 @@ export function notebookFileRouter(ctx: AppContext): Router {
     const cellIds = new Map(nf.cells.map((c) => [c.key, newId()]));
     const dataIds = new Map(nf.datasets.map((d) => [d.key, newId()]));
     await db.transaction(async (tx) => {
-      await tx.insert(notebooks).values({ id: notebookId, workspaceId: ws.id, title: nf.notebook.title, createdBy: req.user!.id, createdAt: now, updatedAt: now });
+      await tx.insert(notebooks).values({ id: notebookId, workspaceId: ws.id, title: nf.title, createdBy: req.user!.id, createdAt: now, updatedAt: now });
       for (const t of tables) {
         const bytes = Buffer.from(t.d.csv, 'utf8');
         await tx.insert(datasets).values({
@@ -84,7 +85,7 @@ export function notebookFileRouter(ctx: AppContext): Router {
       }
     });
     res.status(201);
-    return { notebook: { id: notebookId, title: nf.notebook.title }, cells: nf.cells.length, datasets: nf.datasets.length };
+    return { notebook: { id: notebookId, title: nf.title }, cells: nf.cells.length, datasets: nf.datasets.length };
   });
 
   return r;

@@ -403,13 +403,19 @@ export type CommentCounts = z.infer<typeof commentCountsResponse>['counts'];
 /* Notebook file (our own format)                                                              */
 /* ------------------------------------------------------------------------------------------ */
 
-/** The format version written by this build. Readers accept every version up to this one. */
-export const NOTEBOOK_FILE_VERSION = 1;
+/**
+ * The format version written by this build (the layout is in shared/notebook-file.ts). Import
+ * accepts this version and version 1, whose layout is `notebookFileSchema` below.
+ */
+export const NOTEBOOK_FILE_VERSION = 2;
+/** The first layout's version number. */
+export const NOTEBOOK_FILE_V1 = 1;
 /** Largest notebook file accepted for import. */
 export const NOTEBOOK_FILE_MAX_BYTES = 12 * 1024 * 1024;
 
 /**
- * A notebook file: `{"slackline": 1, "notebook": {...}, "cells": [...], "datasets": [...]}`.
+ * A notebook file of version 1 (still accepted on import; export writes version 2, see
+ * shared/notebook-file.ts): `{"slackline": 1, "notebook": {...}, "cells": [...], "datasets": [...]}`.
  * Cells and datasets carry file-local keys; references inside content (datasetId, modelCellId,
  * modelCellIds) hold those keys and are re-pointed at new ids on import. Datasets travel as CSV
  * text and are parsed again on import, exactly like an upload. Runs are not part of the file:
@@ -438,7 +444,7 @@ export const notebookFileSchema = z
       .number({ error: 'Not a Slackline notebook file (no "slackline" version field)' })
       .int()
       .min(1)
-      .max(NOTEBOOK_FILE_VERSION, `This file was written by a newer Slackline (format version above ${NOTEBOOK_FILE_VERSION})`),
+      .max(NOTEBOOK_FILE_V1, `This file was written by a newer Slackline (format version above ${NOTEBOOK_FILE_VERSION})`),
     notebook: z.strictObject({
       title: z.string().trim().min(1, 'Required').max(160, 'At most 160 characters'),
       exportedAt: isoDate.optional(),

@@ -19,7 +19,7 @@ import type {
 } from './ast';
 import { extractConstraintsFrom, type LinearRows } from './affine';
 import { evaluateValue, isMat } from './evaluate';
-import { FUNCTIONS, KEYWORD_NAMES } from './functions';
+import { FUNCTIONS, KEYWORD_NAMES, RETIRED_FUNCTIONS, replacementCall } from './functions';
 import { LangError, parseLine } from './parse';
 import { closest } from './suggest';
 
@@ -282,6 +282,15 @@ class Checker {
 
   inferCall(e: Extract<Expr, { kind: 'call' }>): ExprType {
     const f = FUNCTIONS.get(e.fn);
+    const retired = f ? undefined : RETIRED_FUNCTIONS.get(e.fn);
+    if (retired) {
+      const spelled = replacementCall(retired, e.args.map((a) => this.currentText.slice(a.span.start, a.span.end)));
+      throw new LangError(
+        e.span,
+        `\`${e.fn}\` is not a function of this language; write the link as a function of its own: \`${spelled}\` (computed just as stably)`,
+        `did you mean \`${spelled}\`?`,
+      );
+    }
     if (!f) {
       if (this.syms.has(e.fn) || this.bareColumns.has(e.fn))
         throw new LangError(e.fnSpan, `\`${e.fn}\` is not a function; use [ ] to pick elements, as in ${e.fn}[1]`);

@@ -94,23 +94,20 @@ export const FUNCTION_SIGNATURES: readonly FunctionSignature[] = Object.freeze([
   sig('ld_exponential', 'density', ['x', 'rate'], 'scalar', 'Exponential log-density with rate.', 'term ld_exponential(sigma, 1)'),
   sig('ld_beta', 'density', ['x', 'a', 'b'], 'scalar', 'Beta log-density on (0, 1).', 'term ld_beta(p, 2, 2)'),
   sig('ld_halfnormal', 'density', ['x', 'sigma'], 'scalar', 'Half-normal log-density on x ≥ 0 with scale sigma.', 'term ld_halfnormal(sigma, 10)'),
-  sig('ld_poisson', 'density', [d('k'), 'rate'], 'scalar', 'Poisson log-mass of counts k with the given rate.', 'term ld_poisson(visits, rate)'),
-  sig('ld_poisson_lograte', 'density', [d('k'), 'lograte'], 'scalar', 'Poisson log-mass with the rate given on the log scale.', 'term ld_poisson_lograte(visits, a + b * shade)'),
-  sig('ld_binomial', 'density', [d('k'), d('n'), 'p'], 'scalar', 'Binomial log-mass of k successes in n trials with probability p.', 'term ld_binomial(sprouted, sown, p)'),
-  sig('ld_binomial_logodds', 'density', [d('k'), d('n'), 'logodds'], 'scalar', 'Binomial log-mass with the probability given as log-odds.', 'term ld_binomial_logodds(sprouted, sown, a + b * rain)'),
-  sig('ld_bernoulli', 'density', [d('y'), 'p'], 'scalar', 'Bernoulli log-mass of 0/1 outcomes y.', 'term ld_bernoulli(wilted, p)'),
-  sig('ld_bernoulli_logodds', 'density', [d('y'), 'logodds'], 'scalar', 'Bernoulli log-mass with the probability given as log-odds.', 'term ld_bernoulli_logodds(wilted, X * beta)'),
+  sig('ld_poisson', 'density', [d('k'), 'rate'], 'scalar', 'Poisson log-mass of counts k with the given rate. Written as ld_poisson(k, exp(eta)), it is computed from the log-rate eta directly (stable for any eta).', 'term ld_poisson(visits, exp(a + b * shade))'),
+  sig('ld_binomial', 'density', [d('k'), d('n'), 'p'], 'scalar', 'Binomial log-mass of k successes in n trials with probability p. Written as ld_binomial(k, n, logistic(eta)), it is computed from the log-odds eta directly (stable for any eta).', 'term ld_binomial(sprouted, sown, logistic(a + b * rain))'),
+  sig('ld_bernoulli', 'density', [d('y'), 'p'], 'scalar', 'Bernoulli log-mass of 0/1 outcomes y. Written as ld_bernoulli(y, logistic(eta)), it is computed from the log-odds eta directly (stable for any eta).', 'term ld_bernoulli(wilted, logistic(X * beta))'),
   sig('ld_dirichlet', 'density_vector', ['w', 'alpha'], 'scalar', 'Dirichlet log-density of a probability vector w with concentrations alpha (vector or scalar).', 'term ld_dirichlet(share, 1)'),
   sig('ld_multinomial', 'density_vector', [d('counts'), 'p'], 'scalar', 'Multinomial log-mass of a count vector with probabilities p.', 'term ld_multinomial(tally, share)'),
   // Elementwise math.
-  sig('exp', 'elementwise', ['x'], 'same shape', 'Exponential, elementwise.', 'let rate = exp(log_rate)'),
+  sig('exp', 'elementwise', ['x'], 'same shape', 'Exponential, elementwise. As the rate of ld_poisson it is fused into a stable log-rate kernel.', 'let rate = exp(log_rate)'),
   sig('log', 'elementwise', ['x'], 'same shape', 'Natural logarithm, elementwise.', 'derive log_gain = log(gain)'),
   sig('log1p', 'elementwise', ['x'], 'same shape', 'log(1 + x), accurate for small x.', 'term log1p(square(slope))'),
   sig('expm1', 'elementwise', ['x'], 'same shape', 'exp(x) − 1, accurate for small x.', 'derive rel = expm1(effect)'),
   sig('sqrt', 'elementwise', ['x'], 'same shape', 'Square root, elementwise.', 'let sd = sqrt(variance)'),
   sig('square', 'elementwise', ['x'], 'same shape', 'x², elementwise.', 'term -0.5 * sum(square(z))'),
   sig('abs', 'elementwise', ['x'], 'same shape', 'Absolute value (derivative 0 at 0).', 'derive size = abs(effect)'),
-  sig('logistic', 'elementwise', ['x'], 'same shape', '1 / (1 + exp(−x)), elementwise.', 'let p = logistic(a + b * rain)'),
+  sig('logistic', 'elementwise', ['x'], 'same shape', '1 / (1 + exp(−x)), elementwise. As the probability of ld_binomial or ld_bernoulli it is fused into a stable log-odds kernel.', 'let p = logistic(a + b * rain)'),
   sig('log_logistic', 'elementwise', ['x'], 'same shape', 'log(logistic(x)), computed stably.', 'term sum(log_logistic(eta))'),
   sig('softplus', 'elementwise', ['x'], 'same shape', 'log(1 + exp(x)), computed stably.', 'let scale = softplus(raw)'),
   sig('lgamma', 'elementwise', ['x'], 'same shape', 'Log of the gamma function, elementwise (x > 0).', 'term -lgamma(nu)'),
@@ -125,3 +122,36 @@ export const FUNCTION_SIGNATURES: readonly FunctionSignature[] = Object.freeze([
 ]);
 
 export const FUNCTIONS: ReadonlyMap<string, FunctionSignature> = new Map(FUNCTION_SIGNATURES.map((f) => [f.name, f]));
+
+/**
+ * Spellings the language no longer accepts, each with the form that replaces it: the density with
+ * its link written as an ordinary function, which the compiler fuses into the same stable kernel.
+ */
+export interface RetiredFunction {
+  name: string;
+  /** The density that replaces it. */
+  density: string;
+  /** The link function wrapped around one argument. */
+  link: 'logistic' | 'exp';
+  /** Position of that argument (0-based). */
+  linkArg: number;
+  /** Parameter names of the replacement, for a call with the wrong number of arguments. */
+  params: string[];
+}
+
+export const RETIRED_FUNCTIONS: ReadonlyMap<string, RetiredFunction> = new Map(
+  (
+    [
+      { name: 'ld_binomial_logodds', density: 'ld_binomial', link: 'logistic', linkArg: 2, params: ['k', 'n', 'eta'] },
+      { name: 'ld_bernoulli_logodds', density: 'ld_bernoulli', link: 'logistic', linkArg: 1, params: ['y', 'eta'] },
+      { name: 'ld_poisson_lograte', density: 'ld_poisson', link: 'exp', linkArg: 1, params: ['k', 'eta'] },
+    ] satisfies RetiredFunction[]
+  ).map((r) => [r.name, r]),
+);
+
+/** The replacement spelling of a retired call, given the text of its arguments. */
+export function replacementCall(r: RetiredFunction, argTexts: readonly string[]): string {
+  const args = argTexts.length === r.params.length ? argTexts.slice() : r.params.slice();
+  args[r.linkArg] = `${r.link}(${args[r.linkArg]})`;
+  return `${r.density}(${args.join(', ')})`;
+}

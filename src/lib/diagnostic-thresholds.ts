@@ -1,7 +1,7 @@
 /**
  * When a summary value counts as failing, for highlighting in the summary table.
- * Thresholds from Vehtari, Gelman, Simpson, Carpenter & Bürkner (2021), "Rank-normalization,
- * folding, and localization: an improved R̂", Bayesian Analysis 16(2): use a draw only when
+ * Thresholds from "Rank-normalization, folding, and localization: an improved R̂ for assessing
+ * convergence of MCMC", Bayesian Analysis 16(2), 2021: use a draw only when
  * R̂ < 1.01 and bulk- and tail-ESS are at least 100 per chain (e.g. 400 for four chains).
  */
 export const RHAT_LIMIT = 1.01;

@@ -85,20 +85,27 @@ export function summaryTable(summary: FitSummary, model?: string): string {
   const essNeeded = THRESHOLDS.essPerChain * s.chains;
   const flag = (q: FitSummary['quantities'][number]) =>
     q.rhat > THRESHOLDS.rhatRunLonger || q.essBulk < essNeeded || q.essTail < essNeeded ? '!' : '';
+  // Estimate first (median and central 90 % interval, then mean and sd), then how well the chains
+  // mixed and how precise the median is; a bar separates the two groups.
   const rows = summary.quantities.map((q) => [
     q.kind === 'derived' ? `${q.name} (derived)` : q.name,
+    fmtNum(q.q50),
+    `${fmtNum(q.q5)} to ${fmtNum(q.q95)}`,
     fmtNum(q.mean),
     fmtNum(q.sd, 3),
-    fmtNum(q.q5),
-    fmtNum(q.q50),
-    fmtNum(q.q95),
+    '│',
     q.rhat.toFixed(3),
     fmtInt(q.essBulk),
     fmtInt(q.essTail),
-    fmtNum(q.mcseMean, 2),
+    fmtNum(q.mcseQ50, 2),
     flag(q),
   ]);
-  out.push(table(['quantity', 'mean', 'sd', '5%', '50%', '95%', 'R̂', 'ess-bulk', 'ess-tail', 'mcse-mean', ''], rows));
+  out.push(
+    table(
+      ['quantity', 'median', '90% interval', 'mean', 'sd', '│', 'mixing R̂', 'eff. draws centre', 'eff. draws tails', 'MC error of median', ''],
+      rows,
+    ),
+  );
   if (summary.mode) {
     out.push('');
     out.push('Maximum a posteriori:');
@@ -111,8 +118,7 @@ export function summaryTable(summary: FitSummary, model?: string): string {
     `acceptance ${fmtNum(d.acceptance, 3)}`,
     `step size ${d.stepSize > 0 ? fmtNum(d.stepSize, 3) : 'n/a'}`,
     `max R̂ ${d.maxRhat.toFixed(3)}`,
-    `min ess-bulk ${fmtInt(d.minEssBulk)}`,
-    `min ess-tail ${fmtInt(d.minEssTail)}`,
+    `fewest effective draws: centre ${fmtInt(d.minEssBulk)}, tails ${fmtInt(d.minEssTail)}`,
   ];
   if (d.efmi) parts.push(`E-FMI ${d.efmi.map((v) => fmtNum(v, 2)).join(' ')}`);
   if (d.factorizationsPerStep !== undefined) parts.push(`factorisations/step ${fmtNum(d.factorizationsPerStep, 3)}`);

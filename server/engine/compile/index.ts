@@ -1,6 +1,7 @@
 /**
  * The model compiler: program text + data → ModelTarget (log-density with gradient, constraints,
- * derived quantities). See ./codegen.ts for the structure of the generated code.
+ * derived quantities). See ./codegen.ts for the structure of the generated code and ./fuse.ts for
+ * the densities whose link function is fused into a stable kernel.
  */
 import {
   checkProgram,
@@ -13,6 +14,7 @@ import {
 } from '../../../shared/lang/index';
 import type { DataTables, DerivedQuantities, LinearSystem, ModelTarget } from '../types';
 import { CodeGen, isRowReduction, lit, reductionLength, splitTerm } from './codegen';
+import { fuseLinks } from './fuse';
 import { RUNTIME } from './runtime';
 
 export class CompileError extends Error {
@@ -239,8 +241,10 @@ export function compileChecked(check: CheckResult, tables: DataTables): Compiled
   }
   const cons = extractConstraints(check, tables);
   if (cons.messages.length) throw new CompileError(cons.messages);
-  const ld = compileLogDensity(check, tables);
-  const der = compileDerived(check, tables);
+  // Densities written through their link (ld_binomial(k, n, logistic(η)), …) use fused kernels.
+  const fused: CheckResult = { ...check, program: fuseLinks(check.program).program };
+  const ld = compileLogDensity(fused, tables);
+  const der = compileDerived(fused, tables);
   const model: CompiledModel = {
     dim: check.dim,
     names: check.names.slice(),

@@ -3,7 +3,7 @@
  * exported names, nothing else. Generated code reaches it only as `R.<name>` where <name> comes
  * from the density tables (never from user text) and is validated as a plain identifier.
  */
-import { DENSITY_TABLE, MATH_TABLE, logSumExp, logSumExpGrad } from '../densities/index';
+import { DENSITY_TABLE, FUSED_DENSITY_TABLE, MATH_TABLE, logSumExp, logSumExpGrad, type DensityInfo } from '../densities/index';
 
 export type RuntimeFn = (...args: never[]) => number;
 
@@ -15,8 +15,7 @@ function build(): Readonly<Record<string, RuntimeFn>> {
     if (!IDENT.test(name) || typeof f !== 'function') throw new Error(`bad runtime entry ${name}`);
     r[name] = f as RuntimeFn;
   };
-  for (const key of Object.keys(DENSITY_TABLE)) {
-    const d = DENSITY_TABLE[key];
+  for (const d of [...Object.values(DENSITY_TABLE), ...Object.values(FUSED_DENSITY_TABLE)]) {
     put(d.valueFn, d.value);
     put(d.gradFn, d.grad);
   }
@@ -34,13 +33,16 @@ export const RUNTIME: Readonly<Record<string, RuntimeFn>> = build();
 
 /** Runtime member name for a density's value or value-with-partials function. */
 export function densityFn(lang: string, grad: boolean): string {
-  const d = Object.prototype.hasOwnProperty.call(DENSITY_TABLE, lang) ? DENSITY_TABLE[lang] : undefined;
+  const d = densityInfo(lang);
   if (!d) throw new Error(`no density ${lang}`);
   return grad ? d.gradFn : d.valueFn;
 }
 
-export function densityInfo(lang: string) {
-  return Object.prototype.hasOwnProperty.call(DENSITY_TABLE, lang) ? DENSITY_TABLE[lang] : undefined;
+/** A language density, or a fused kernel under its internal name (see compile/fuse.ts). */
+export function densityInfo(lang: string): DensityInfo | undefined {
+  if (Object.prototype.hasOwnProperty.call(DENSITY_TABLE, lang)) return DENSITY_TABLE[lang];
+  if (Object.prototype.hasOwnProperty.call(FUSED_DENSITY_TABLE, lang)) return FUSED_DENSITY_TABLE[lang];
+  return undefined;
 }
 
 /** Runtime member names for a math function: value and value-with-derivative. */

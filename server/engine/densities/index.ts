@@ -63,5 +63,5 @@ export {
   LOG_PI,
   LN2,
 } from './special';
-export { DENSITY_TABLE, MATH_TABLE } from './table';
-export type { DensityArg, DensityInfo, ScalarDensityInfo, VectorDensityInfo, MathFunctionInfo } from './table';
+export { DENSITY_TABLE, FUSED_DENSITY_TABLE, MATH_TABLE } from './table';
+export type { DensityArg, DensityInfo, FusedDensityInfo, ScalarDensityInfo, VectorDensityInfo, MathFunctionInfo } from './table';

@@ -94,11 +94,8 @@ export const DENSITY_TABLE: Readonly<Record<string, DensityInfo>> = Object.freez
   ld_beta: scalar('ld_beta', 'betaLpdf', beta.betaLpdf, beta.betaLpdfGrad, [c('y'), c('a'), c('b')], '0 ≤ y ≤ 1'),
   ld_halfnormal: scalar('ld_halfnormal', 'halfnormalLpdf', halfnormal.halfnormalLpdf, halfnormal.halfnormalLpdfGrad, [c('y'), c('sigma')], 'y ≥ 0'),
   ld_poisson: scalar('ld_poisson', 'poissonLpmf', poisson.poissonLpmf, poisson.poissonLpmfGrad, [d('k'), c('rate')], 'k = 0, 1, 2, …'),
-  ld_poisson_lograte: scalar('ld_poisson_lograte', 'poissonLogLpmf', poisson.poissonLogLpmf, poisson.poissonLogLpmfGrad, [d('k'), c('lograte')], 'k = 0, 1, 2, …'),
   ld_binomial: scalar('ld_binomial', 'binomialLpmf', binomial.binomialLpmf, binomial.binomialLpmfGrad, [d('k'), d('n'), c('p')], 'k = 0, 1, …, n'),
-  ld_binomial_logodds: scalar('ld_binomial_logodds', 'binomialLogitLpmf', binomial.binomialLogitLpmf, binomial.binomialLogitLpmfGrad, [d('k'), d('n'), c('logodds')], 'k = 0, 1, …, n'),
   ld_bernoulli: scalar('ld_bernoulli', 'bernoulliLpmf', bernoulli.bernoulliLpmf, bernoulli.bernoulliLpmfGrad, [d('y'), c('p')], 'y ∈ {0, 1}'),
-  ld_bernoulli_logodds: scalar('ld_bernoulli_logodds', 'bernoulliLogitLpmf', bernoulli.bernoulliLogitLpmf, bernoulli.bernoulliLogitLpmfGrad, [d('y'), c('logodds')], 'y ∈ {0, 1}'),
   ld_dirichlet: {
     kind: 'vector',
     name: 'ld_dirichlet',
@@ -120,6 +117,43 @@ export const DENSITY_TABLE: Readonly<Record<string, DensityInfo>> = Object.freez
     support: 'counts = non-negative integers',
   },
 } satisfies Record<string, DensityInfo>);
+
+/**
+ * A density whose parameter is written through a link function — `ld_binomial(k, n, logistic(η))`,
+ * `ld_bernoulli(y, logistic(η))`, `ld_poisson(k, exp(η))` — is compiled to a kernel that takes η
+ * itself and never forms the probability or the rate, so it stays finite and accurate for any η
+ * (the plain composition rounds logistic(40) to 1 and gives −∞ for a failure; exp(800) overflows).
+ * The compiler's fusion pass (compile/fuse.ts) rewrites such a call to the fused entry's `name`,
+ * an internal key that user text cannot spell (it contains `∘`).
+ */
+export interface FusedDensityInfo extends ScalarDensityInfo {
+  /** The language's density, e.g. "ld_binomial". */
+  base: string;
+  /** The link function that is absorbed, e.g. "logistic". */
+  link: 'logistic' | 'exp';
+  /** Position of the linked argument (0-based). */
+  linkArg: number;
+}
+
+function fused(
+  base: string,
+  link: 'logistic' | 'exp',
+  linkArg: number,
+  valueFn: string,
+  value: (...args: number[]) => number,
+  grad: (...args: never[]) => number,
+  args: DensityArg[],
+  support: string,
+): FusedDensityInfo {
+  return { ...scalar(`${base}∘${link}`, valueFn, value, grad, args, support), base, link, linkArg };
+}
+
+/** The fused kernels, keyed by their internal names. */
+export const FUSED_DENSITY_TABLE: Readonly<Record<string, FusedDensityInfo>> = Object.freeze({
+  'ld_binomial∘logistic': fused('ld_binomial', 'logistic', 2, 'binomialLogitLpmf', binomial.binomialLogitLpmf, binomial.binomialLogitLpmfGrad, [d('k'), d('n'), c('eta')], 'k = 0, 1, …, n'),
+  'ld_bernoulli∘logistic': fused('ld_bernoulli', 'logistic', 1, 'bernoulliLogitLpmf', bernoulli.bernoulliLogitLpmf, bernoulli.bernoulliLogitLpmfGrad, [d('y'), c('eta')], 'y ∈ {0, 1}'),
+  'ld_poisson∘exp': fused('ld_poisson', 'exp', 1, 'poissonLogLpmf', poisson.poissonLogLpmf, poisson.poissonLogLpmfGrad, [d('k'), c('eta')], 'k = 0, 1, 2, …'),
+} satisfies Record<string, FusedDensityInfo>);
 
 /**
  * Elementwise math functions: value(x[, y]) and grad(x[, y], out, offset) writing one partial

@@ -3,9 +3,9 @@
  *
  * acov[t] = (1/N) Σ_{i=0}^{N-1-t} (x_i − x̄)(x_{i+t} − x̄),  t = 0 … N−1
  *
- * This is the "biased" estimator (divisor N at every lag), the one Geyer (1992, "Practical Markov
- * chain Monte Carlo", Statistical Science 7) recommends for the initial-sequence estimators and the
- * one Vehtari et al. (2021) use. The series is zero-padded to at least 2N so the circular
+ * This is the "biased" estimator (divisor N at every lag), the one "Practical Markov chain Monte Carlo"
+ * (Statistical Science 1992) recommends for the initial-sequence estimators and the one "Rank-
+ * normalization, folding, and localization: an improved R̂" (Bayesian Analysis 2021) uses. The series is zero-padded to at least 2N so the circular
  * convolution of the FFT equals the linear one (Wiener–Khinchin: autocorrelation = inverse
  * transform of the power spectrum).
  */

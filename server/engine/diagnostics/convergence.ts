@@ -1,9 +1,8 @@
 /**
  * Convergence diagnostics for Markov chain output, following
  *
- *   A. Vehtari, A. Gelman, D. Simpson, B. Carpenter & P.-C. Bürkner (2021),
  *   "Rank-normalization, folding, and localization: an improved R̂ for assessing convergence of
- *   MCMC", Bayesian Analysis 16(2), 667–718  — below "Vehtari et al. (2021)".
+ *   MCMC", Bayesian Analysis 16(2), 667–718, 2021 — below "Improved R̂, Bayesian Analysis 2021".
  *
  * Every function takes one quantity's draws as an array of chains (each chain an array of equal
  * length, in iteration order).
@@ -11,10 +10,11 @@
  * - split chains: each chain is cut into its first and second half (the middle draw is dropped
  *   when the length is odd), so a trend within a chain shows up as disagreement between halves;
  * - rank normalisation: all draws pooled, ranked with ties averaged, z = Φ⁻¹((r − 3/8)/(S + 1/4))
- *   (Blom's offset, as in the paper, §4.1);
+ *   (the 3/8 offset, as in the paper, §4.1);
  * - R̂ = max(bulk R̂, tail R̂), bulk on the rank-normalised split chains, tail on the rank-normalised
  *   split chains of the folded draws |θ − median(θ)| (§4.2);
- * - ESS by Geyer's initial monotone sequence on the autocorrelations combined across chains
+ * - ESS by the initial monotone sequence estimator ("Practical Markov chain Monte Carlo",
+ *   Statistical Science 1992) on the autocorrelations combined across chains
  *   (§3.2 and the paper's Appendix A code), τ̂ floored at 1/log10(S) (the paper's antithetic guard);
  * - bulk-ESS on the rank-normalised split chains; tail-ESS = min of the ESS of the indicators
  *   I(θ ≤ q̂₀.₀₅) and I(θ ≤ q̂₀.₉₅) (§4.3);
@@ -64,8 +64,8 @@ function mapChains(chains: Chains, f: (v: number) => number): Float64Array[] {
 }
 
 /**
- * Sample quantile, definition 7 of Hyndman & Fan (1996, "Sample quantiles in statistical
- * packages", The American Statistician 50(4)): h = (n − 1)p, linear interpolation between the
+ * Sample quantile, definition 7 of "Sample quantiles in statistical packages"
+ * (The American Statistician 50(4), 1996): h = (n − 1)p, linear interpolation between the
  * order statistics x₍⌊h⌋₎ and x₍⌊h⌋+1₎ (0-based). `sorted` must be in ascending order.
  */
 export function quantileSorted(sorted: ArrayLike<number>, p: number): number {
@@ -136,8 +136,9 @@ export function rankNormalize(chains: Chains): Float64Array[] {
 /* ------------------------------------------------------------------------------------------ */
 
 /**
- * Classic potential scale reduction factor on the chains as given (Gelman & Rubin 1992 in the
- * form of Vehtari et al. 2021, eq. 3–4): R̂ = √(((n − 1)/n · W + B/n) / W).
+ * Classic potential scale reduction factor on the chains as given ("Inference from iterative
+ * simulation using multiple sequences", Statistical Science 1992, in the form of Improved R̂,
+ * Bayesian Analysis 2021, eq. 3–4): R̂ = √(((n − 1)/n · W + B/n) / W).
  * Returns NaN when the within-chain variance is zero and the chains agree, +∞ when it is zero
  * and they disagree.
  */
@@ -157,18 +158,18 @@ export function rhatBasic(chains: Chains): number {
   return Math.sqrt((b / w + n - 1) / n);
 }
 
-/** Rank-normalised split-R̂ of the bulk (Vehtari et al. 2021, §4.1). */
+/** Rank-normalised split-R̂ of the bulk (Improved R̂, Bayesian Analysis 2021, §4.1). */
 export function rhatBulk(chains: Chains): number {
   return rhatBasic(rankNormalize(splitChains(chains)));
 }
 
-/** Rank-normalised split-R̂ of the folded draws |θ − median θ| (Vehtari et al. 2021, §4.2). */
+/** Rank-normalised split-R̂ of the folded draws |θ − median θ| (Improved R̂, Bayesian Analysis 2021, §4.2). */
 export function rhatTail(chains: Chains): number {
   const med = quantileSorted(sortedCopy(pooled(chains)), 0.5);
   return rhatBasic(rankNormalize(splitChains(mapChains(chains, (v) => Math.abs(v - med)))));
 }
 
-/** R̂ = max(bulk, tail) (Vehtari et al. 2021, §4.2). */
+/** R̂ = max(bulk, tail) (Improved R̂, Bayesian Analysis 2021, §4.2). */
 export function rhat(chains: Chains): number {
   const a = rhatBulk(chains);
   const b = rhatTail(chains);
@@ -182,11 +183,12 @@ export function rhat(chains: Chains): number {
 /* ------------------------------------------------------------------------------------------ */
 
 /**
- * Effective sample size of chains as given (no splitting, no transformation), Vehtari et al.
- * (2021) §3.2 and Appendix A: autocorrelations combined across chains
+ * Effective sample size of chains as given (no splitting, no transformation), Improved R̂,
+ * Bayesian Analysis 2021, §3.2 and Appendix A: autocorrelations combined across chains
  *   ρ̂_t = 1 − (W − mean_j acov_j(t)) / var⁺,  var⁺ = (n − 1)/n · W + var(chain means),
- * summed in pairs Γ_k = ρ̂_{2k} + ρ̂_{2k+1} until a pair is negative (Geyer's initial positive
- * sequence), made monotone (Geyer's initial monotone sequence), τ̂ = −1 + 2 Σ ρ̂_t (+ the last even
+ * summed in pairs Γ_k = ρ̂_{2k} + ρ̂_{2k+1} until a pair is negative (the initial positive
+ * sequence), made monotone (the initial monotone sequence; both from "Practical Markov chain
+ * Monte Carlo", Statistical Science 1992), τ̂ = −1 + 2 Σ ρ̂_t (+ the last even
  * term), floored at 1/log10(S), ESS = S/τ̂. Returns NaN when the draws have no variance.
  */
 export function essBasic(chains: Chains): number {
@@ -241,25 +243,25 @@ export function essBasic(chains: Chains): number {
   return s / tau;
 }
 
-/** Bulk-ESS: ESS of the rank-normalised split chains (Vehtari et al. 2021, §4.3). */
+/** Bulk-ESS: ESS of the rank-normalised split chains (Improved R̂, Bayesian Analysis 2021, §4.3). */
 export function essBulk(chains: Chains): number {
   return essBasic(rankNormalize(splitChains(chains)));
 }
 
-/** ESS of the indicator I(θ ≤ q̂_p) on split chains (Vehtari et al. 2021, §4.3). */
+/** ESS of the indicator I(θ ≤ q̂_p) on split chains (Improved R̂, Bayesian Analysis 2021, §4.3). */
 export function essQuantile(chains: Chains, p: number, sortedAll?: ArrayLike<number>): number {
   const sorted = sortedAll ?? sortedCopy(pooled(chains));
   const q = quantileSorted(sorted, p);
   return essBasic(splitChains(mapChains(chains, (v) => (v <= q ? 1 : 0))));
 }
 
-/** Tail-ESS: the smaller ESS of the 5% and 95% quantile indicators (Vehtari et al. 2021, §4.3). */
+/** Tail-ESS: the smaller ESS of the 5% and 95% quantile indicators (Improved R̂, Bayesian Analysis 2021, §4.3). */
 export function essTail(chains: Chains, sortedAll?: ArrayLike<number>): number {
   const sorted = sortedAll ?? sortedCopy(pooled(chains));
   return Math.min(essQuantile(chains, 0.05, sorted), essQuantile(chains, 0.95, sorted));
 }
 
-/** ESS for the mean: untransformed split chains (Vehtari et al. 2021, §3.2). */
+/** ESS for the mean: untransformed split chains (Improved R̂, Bayesian Analysis 2021, §3.2). */
 export function essMean(chains: Chains): number {
   return essBasic(splitChains(chains));
 }
@@ -278,7 +280,7 @@ export function mcseMean(chains: Chains): number {
 const ONE_SD = [0.15865525393145707, 0.8413447460685429];
 
 /**
- * MCSE of the p-quantile (Vehtari et al. 2021, §4.4): with S_eff the ESS of I(θ ≤ q̂_p),
+ * MCSE of the p-quantile (Improved R̂, Bayesian Analysis 2021, §4.4): with S_eff the ESS of I(θ ≤ q̂_p),
  * a = qbeta(Φ(∓1), S_eff·p + 1, S_eff·(1 − p) + 1); the draws at sorted positions
  * max(⌊a₁S⌋, 1) and min(⌈a₂S⌉, S) (1-based) bracket a ±1 sd interval; MCSE = half its width.
  */
@@ -303,9 +305,8 @@ export function mcseQuantileFromEss(sorted: ArrayLike<number>, p: number, seff: 
 /* ------------------------------------------------------------------------------------------ */
 
 /**
- * Energy Bayesian fraction of missing information of one chain (Betancourt 2016, "Diagnosing
- * suboptimal cotangent disintegrations in Hamiltonian Monte Carlo", arXiv:1604.00695, eq. for
- * Ê-BFMI): Σ_n (E_n − E_{n−1})² / Σ_n (E_n − Ē)². Small values mean the momentum resampling moves
+ * Energy Bayesian fraction of missing information of one chain ("Diagnosing suboptimal
+ * cotangent disintegrations in Hamiltonian Monte Carlo", arXiv:1604.00695, 2016, eq. for Ê-BFMI): Σ_n (E_n − E_{n−1})² / Σ_n (E_n − Ē)². Small values mean the momentum resampling moves
  * the energy far less than the energy varies, so the sampler explores the energy levels slowly.
  */
 export function efmi(energy: ArrayLike<number>): number {

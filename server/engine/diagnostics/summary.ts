@@ -4,7 +4,8 @@
  *
  * Conventions (ours):
  * - sd is the sample standard deviation of all draws pooled (divisor S − 1);
- * - quantiles are Hyndman & Fan (1996) definition 7 on the pooled draws;
+ * - quantiles are definition 7 of "Sample quantiles in statistical packages" (The American
+ *   Statistician 1996) on the pooled draws;
  * - a quantity that is constant over every draw (a fixed coordinate, say) is known exactly: R̂ = 1,
  *   ESS = the number of draws, every MCSE = 0;
  * - an R̂ that is infinite (every split chain constant, but at different values: chains that never

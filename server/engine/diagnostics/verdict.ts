@@ -2,21 +2,21 @@
  * The plain-language verdict on a run. Every rule is checked and reported (passed or not) so the
  * reader sees why; the level is the worst level among the failed rules.
  *
- * | rule                    | fails when                             | level       | source                           |
- * |-------------------------|----------------------------------------|-------------|----------------------------------|
- * | chains-agree            | max R̂ > 1.05                           | do-not-use  | ours (a judgement call)          |
- * | chains-agree-closely    | max R̂ > 1.01                           | run-longer  | Vehtari et al. (2021), §4.4      |
- * | enough-bulk-draws       | min bulk-ESS < 100 × chains            | run-longer  | Vehtari et al. (2021), §4.4      |
- * | enough-tail-draws       | min tail-ESS < 100 × chains            | run-longer  | Vehtari et al. (2021), §4.4      |
- * | no-divergences          | divergent share of kept draws > 1%     | do-not-use  | ours (a judgement call)          |
- * | no-divergences          | 0 < divergent share ≤ 1%               | run-longer  | ours (a judgement call)          |
- * | steps-completed         | rejected share of kept draws > 10%     | run-longer  | ours (a judgement call)          |
- * | energy-explored         | any chain's E-FMI < 0.2                | run-longer  | ours; see below                  |
+ * | rule                    | fails when                             | level       | source                                   |
+ * |-------------------------|----------------------------------------|-------------|------------------------------------------|
+ * | chains-agree            | max R̂ > 1.05                           | do-not-use  | ours (a judgement call)                  |
+ * | chains-agree-closely    | max R̂ > 1.01                           | run-longer  | Improved R̂, Bayesian Analysis 2021, §4.4 |
+ * | enough-bulk-draws       | min bulk-ESS < 100 × chains            | run-longer  | Improved R̂, Bayesian Analysis 2021, §4.4 |
+ * | enough-tail-draws       | min tail-ESS < 100 × chains            | run-longer  | Improved R̂, Bayesian Analysis 2021, §4.4 |
+ * | no-divergences          | divergent share of kept draws > 1%     | do-not-use  | ours (a judgement call)                  |
+ * | no-divergences          | 0 < divergent share ≤ 1%               | run-longer  | ours (a judgement call)                  |
+ * | steps-completed         | rejected share of kept draws > 10%     | run-longer  | ours (a judgement call)                  |
+ * | energy-explored         | any chain's E-FMI < 0.2                | run-longer  | ours; see below                          |
  *
  * Sources and judgement calls:
- * - Vehtari et al. (2021) recommend using the draws only when R̂ < 1.01 and, with four chains,
- *   bulk- and tail-ESS above 400 — i.e. 100 per chain, which we apply per chain for any number of
- *   chains. Below that, more draws are the remedy: "run-longer".
+ * - Improved R̂ (Bayesian Analysis 2021) recommends using the draws only when R̂ < 1.01 and, with
+ *   four chains, bulk- and tail-ESS above 400 — i.e. 100 per chain, which we apply per chain for
+ *   any number of chains. Below that, more draws are the remedy: "run-longer".
  * - R̂ above 1.05 means the chains describe visibly different distributions; we treat that as
  *   "do-not-use" (our threshold, the older 1.1 convention made stricter).
  * - Divergent transitions — the energy error blowing up (non-finite or above 1000, the threshold in
@@ -26,12 +26,14 @@
  * - Rejected steps — a transition rejected because an implicit step could not be completed (solver
  *   non-convergence, M not positive definite, leaving the region, run-back mismatch) — are not
  *   divergences: with the run-back check the proposal map restricted to where the forward and
- *   backward solves succeed is an involution (Noble, De Bortoli & Durmus 2023), so the chain stays
- *   exact and the cost is efficiency, which ESS already measures. We still flag a rejected share
- *   above 10% as "run-longer" because it signals slow mixing near the faces; the 10% is our
+ *   backward solves succeed is an involution ("Unbiased constrained sampling with
+ *   self-concordant barrier Hamiltonian Monte Carlo", NeurIPS 2023), so the chain stays exact
+ *   and the cost is efficiency, which ESS already measures. We still flag a rejected share above
+ *   10% as "run-longer" because it signals slow mixing near the faces; the 10% is our
  *   judgement call, not a published threshold. Runs stored without the count pass as unknown.
- * - E-FMI: Betancourt (2016, arXiv:1604.00695) reports that values below about 0.3 went with poor
- *   exploration in his examples (from memory); we flag below 0.2 as "run-longer" (our threshold).
+ * - E-FMI: "Diagnosing suboptimal cotangent disintegrations in Hamiltonian Monte Carlo" (arXiv
+ *   1604.00695, 2016) reports that values below about 0.3 went with poor exploration in its
+ *   examples (from memory); we flag below 0.2 as "run-longer" (our threshold).
  *   Samplers without an energy (hit-and-run) pass this rule as not applicable.
  */
 import type { Verdict, VerdictLevel } from '../../../shared/fit';
@@ -90,7 +92,7 @@ export function judgeRun(input: VerdictInput): Verdict {
     advice: 'the chains disagree about the posterior',
   });
   out.push({
-    rule: `chains agree closely: max R̂ ≤ ${t.rhatRunLonger} (Vehtari et al. 2021)`,
+    rule: `chains agree closely: max R̂ ≤ ${t.rhatRunLonger} (Improved R̂, Bayesian Analysis 2021)`,
     passed: input.maxRhat <= t.rhatRunLonger,
     detail: `max R̂ = ${fmt(input.maxRhat, 4)}${rhatName}`,
     level: 'run-longer',
@@ -98,14 +100,14 @@ export function judgeRun(input: VerdictInput): Verdict {
   });
   const essNeeded = t.essPerChain * input.chains;
   out.push({
-    rule: `enough draws in the bulk: min bulk-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} (Vehtari et al. 2021)`,
+    rule: `enough draws in the bulk: min bulk-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} (Improved R̂, Bayesian Analysis 2021)`,
     passed: input.minEssBulk >= essNeeded,
     detail: `min bulk-ESS = ${fmt(input.minEssBulk)}`,
     level: 'run-longer',
     advice: 'too few effective draws for stable means and medians',
   });
   out.push({
-    rule: `enough draws in the tails: min tail-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} (Vehtari et al. 2021)`,
+    rule: `enough draws in the tails: min tail-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} (Improved R̂, Bayesian Analysis 2021)`,
     passed: input.minEssTail >= essNeeded,
     detail: `min tail-ESS = ${fmt(input.minEssTail)}${essName}`,
     level: 'run-longer',

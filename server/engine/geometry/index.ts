@@ -387,8 +387,9 @@ function phaseOne(A: Float64Array, b: Float64Array, m: number, n: number, labels
 /* ----------------------------------------------------------------------------------------------- */
 
 /**
- * Damped Newton on φ(z) = −Σ log(bᵢ − aᵢ z) + ½ ρ |z|² from a strictly interior z (Nesterov &
- * Nemirovski's damped step 1/(1+λ) for self-concordant functions, then full steps).
+ * Damped Newton on φ(z) = −Σ log(bᵢ − aᵢ z) + ½ ρ |z|² from a strictly interior z (the damped
+ * step 1/(1+λ) for self-concordant functions of "Interior-Point Polynomial Algorithms in Convex
+ * Programming", SIAM 1994, then full steps).
  * Returns converged = false when the iterate runs off to infinity (unbounded region, ρ = 0).
  */
 export function analyticCentre(

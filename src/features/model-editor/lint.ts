@@ -1,7 +1,8 @@
 /**
  * Live diagnostics: the front end's checker (shared/lang checkProgram) runs on the document after a
  * pause in typing; each message becomes a lint marker on its exact columns. A suggestion that is a
- * plain name (e.g. `sigma` for `sigam`) is offered as a one-click fix.
+ * plain name (e.g. `sigma` for `sigam`) or a whole call (the new spelling of a retired function) is
+ * offered as a one-click fix.
  */
 import { linter, type Diagnostic } from '@codemirror/lint';
 import type { EditorView } from '@codemirror/view';
@@ -19,6 +20,20 @@ export function suggestedName(suggestion: string | undefined): string | undefine
   const quoted = /^did you mean `([^`]+)`\?$/.exec(suggestion.trim());
   const name = quoted ? quoted[1] : suggestion.trim();
   return NAME.test(name) ? name : undefined;
+}
+
+const CALL = /^[A-Za-z_][A-Za-z0-9_]*\(.*\)$/;
+
+/**
+ * The replacement text of a checker suggestion: a plain name as {@link suggestedName}, or a whole
+ * call such as "did you mean `ld_binomial(k, n, logistic(eta))`?" (offered where the message marks
+ * the call it replaces).
+ */
+export function suggestedFix(suggestion: string | undefined): string | undefined {
+  const name = suggestedName(suggestion);
+  if (name) return name;
+  const quoted = suggestion ? /^did you mean `([^`]+)`\?$/.exec(suggestion.trim()) : null;
+  return quoted && CALL.test(quoted[1]) ? quoted[1] : undefined;
 }
 
 /** Turns checker messages into CodeMirror diagnostics (document positions, clamped to the line). */
@@ -42,7 +57,7 @@ export function messagesToDiagnostics(view: EditorView, messages: readonly LangM
       message: m.suggestion ? `${m.message}; ${m.suggestion}` : m.message,
       source: 'model check',
     };
-    const fix = suggestedName(m.suggestion);
+    const fix = suggestedFix(m.suggestion);
     if (fix && to > from) {
       d.actions = [
         {

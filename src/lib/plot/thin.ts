@@ -31,7 +31,8 @@ export function pooledRanks(chains: readonly (readonly number[])[]): number[][] 
 /**
  * Rank histogram per chain: pooled ranks split into `bins` equal-width bins over [1, N].
  * Under good mixing each chain's histogram is near flat at N / (chains · bins) per bin
- * (rank plots, Vehtari et al. 2021, Bayesian Analysis 16(2), §4.1).
+ * (rank plots, "Rank-normalization, folding, and localization: an improved R̂", Bayesian
+ * Analysis 16(2), 2021, §4.1).
  */
 export function rankHistogram(chains: readonly (readonly number[])[], bins = 20): { chain: number; bin: number; count: number }[] {
   const ranks = pooledRanks(chains);

@@ -101,20 +101,47 @@ describe('notebook file', () => {
     const exp = await w.viewer.get(`${w.base}/export`);
     expect(exp.status).toBe(200);
     expect(exp.headers.get('content-disposition')).toMatch(/attachment/);
-    expect(exp.body.slackline).toBe(1);
+    expect(exp.body.slackline_notebook).toBe(2);
     const file = exp.body;
+    type Block = { ref: string; role: string; text: string; model_ref?: string; table_ref?: string };
+    const last = (role: string) => file.blocks.filter((x: Block) => x.role === role).at(-1) as Block;
+    expect(file.blocks.map((x: Block) => x.role).slice(-3)).toEqual(['data', 'model', 'fit']);
+    expect(last('fit').model_ref).toBe(last('model').ref);
+    expect(last('model').text).toBe('table cups\nunknown lam\nconstrain lam >= 0');
+    expect(file.tables.find((t: { ref: string }) => t.ref === last('data').table_ref).name).toBe('cups');
     const imp = await postFile(w.editor, `/api/workspaces/${w.ws}/notebooks/import`, { name: 'nb.json', text: JSON.stringify(file), type: 'application/json' });
     expect(imp.status).toBe(201);
-    expect(imp.body.cells).toBe(file.cells.length);
+    expect(imp.body.cells).toBe(file.blocks.length);
+    expect(imp.body.datasets).toBe(1);
     const copy = await w.editor.get(`/api/workspaces/${w.ws}/notebooks/${imp.body.notebook.id}`);
     const kinds = copy.body.cells.map((c: { kind: string }) => c.kind);
-    expect(kinds).toEqual(file.cells.map((c: { kind: string }) => c.kind));
+    expect(kinds).toEqual(file.blocks.map((b: { role: string }) => b.role));
     const copyModel = copy.body.cells.find((c: { kind: string }) => c.kind === 'model');
     const copyFit = copy.body.cells.find((c: { kind: string }) => c.kind === 'fit');
     expect(copyFit.content.modelCellId).toBe(copyModel.id);
     const copyData = copy.body.cells.find((c: { kind: string }) => c.kind === 'data');
     expect(copyData.content.datasetId).not.toBe(up.body.dataset.id);
     expect((await w.editor.get(`/api/workspaces/${w.ws}/datasets/${copyData.content.datasetId}`)).body.dataset.name).toBe('cups');
+  });
+
+  it('imports a version 1 file', async () => {
+    const v1 = {
+      slackline: 1,
+      notebook: { title: 'Older file' },
+      cells: [
+        { key: 'c1', kind: 'data', content: { datasetId: 'd1' } },
+        { key: 'c2', kind: 'model', source: 'table brew\nunknown lam\nconstrain lam >= 0' },
+        { key: 'c3', kind: 'fit', content: { modelCellId: 'c2', settings: { chains: 2, warmup: 100, draws: 100, seed: 3, sampler: 'auto' } } },
+      ],
+      datasets: [{ key: 'd1', name: 'brew', csv: 'cups\n3\n4\n' }],
+    };
+    const imp = await postFile(w.editor, `/api/workspaces/${w.ws}/notebooks/import`, { name: 'old.json', text: JSON.stringify(v1), type: 'application/json' });
+    expect(imp.status).toBe(201);
+    expect(imp.body.notebook.title).toBe('Older file');
+    const copy = await w.editor.get(`/api/workspaces/${w.ws}/notebooks/${imp.body.notebook.id}`);
+    expect(copy.body.cells.map((c: { kind: string }) => c.kind)).toEqual(['data', 'model', 'fit']);
+    expect(copy.body.cells[2].content.modelCellId).toBe(copy.body.cells[1].id);
+    expect((await w.editor.get(`/api/workspaces/${w.ws}/datasets/${copy.body.cells[0].content.datasetId}`)).body.dataset.name).toBe('brew');
   });
 
   it('refuses a bad file with a clear message and creates nothing', async () => {
@@ -125,6 +152,17 @@ describe('notebook file', () => {
     const future = await postFile(w.editor, `/api/workspaces/${w.ws}/notebooks/import`, { name: 'x.json', text: JSON.stringify({ slackline: 9, notebook: { title: 'x' }, cells: [], datasets: [] }), type: 'application/json' });
     expect(future.status).toBe(400);
     expect(future.body.error.message).toMatch(/newer Slackline/);
+    const future2 = await postFile(w.editor, `/api/workspaces/${w.ws}/notebooks/import`, { name: 'x.json', text: JSON.stringify({ slackline_notebook: 3, title: 'x', blocks: [], tables: [] }), type: 'application/json' });
+    expect(future2.status).toBe(400);
+    expect(future2.body.error.message).toMatch(/newer Slackline \(format version 3/);
+    const dangling = await postFile(w.editor, `/api/workspaces/${w.ws}/notebooks/import`, {
+      name: 'x.json',
+      text: JSON.stringify({ slackline_notebook: 2, title: 'x', blocks: [{ ref: 'b1', role: 'fit', model_ref: 'b7', settings: { chains: 2, warmup: 100, draws: 100, seed: 1, sampler: 'auto' } }], tables: [] }),
+      type: 'application/json',
+    });
+    expect(dangling.status).toBe(400);
+    expect(dangling.body.error.message).toBe('Not a valid Slackline notebook file: blocks[0].model_ref: No block with ref "b7"');
+    expect(dangling.body.error.fields.file).toBe(dangling.body.error.message);
     const badCsv = await postFile(w.editor, `/api/workspaces/${w.ws}/notebooks/import`, {
       name: 'x.json',
       text: JSON.stringify({ slackline: 1, notebook: { title: 'x' }, cells: [], datasets: [{ key: 'd1', name: 'rag', csv: 'a,b\n1\n' }] }),
@@ -132,6 +170,13 @@ describe('notebook file', () => {
     });
     expect(badCsv.status).toBe(400);
     expect(badCsv.body.error.message).toMatch(/Dataset "rag"/);
+    const badCsv2 = await postFile(w.editor, `/api/workspaces/${w.ws}/notebooks/import`, {
+      name: 'x.json',
+      text: JSON.stringify({ slackline_notebook: 2, title: 'x', blocks: [{ ref: 'b1', role: 'data', table_ref: 't1' }], tables: [{ ref: 't1', name: 'rag', csv: 'a,b\n1\n' }] }),
+      type: 'application/json',
+    });
+    expect(badCsv2.status).toBe(400);
+    expect(badCsv2.body.error.message).toMatch(/Dataset "rag"/);
     expect((await w.editor.get(`/api/workspaces/${w.ws}/notebooks`)).body.notebooks.length).toBe(before);
   });
 });

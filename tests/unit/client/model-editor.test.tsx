@@ -11,7 +11,7 @@ import { EditorState } from '@codemirror/state';
 import { EditorView, runScopeHandlers } from '@codemirror/view';
 import { act, cleanup, render, waitFor } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import { hoverInfo, ModelEditor, modelCompletionSource, schemaFacet, suggestedName } from '@/features/model-editor';
+import { hoverInfo, ModelEditor, modelCompletionSource, schemaFacet, suggestedFix, suggestedName } from '@/features/model-editor';
 import type { DataSchema } from '@shared/lang';
 
 const SCHEMA: DataSchema = {
@@ -174,6 +174,22 @@ describe('helpers', () => {
     expect(suggestedName('orchard.block')).toBe('orchard.block');
     expect(suggestedName('add the line: table orchard')).toBeUndefined();
     expect(suggestedName(undefined)).toBeUndefined();
+  });
+
+  it('suggestedFix also offers the new spelling of a retired call, and nothing for other advice', () => {
+    expect(suggestedFix('did you mean `sigma`?')).toBe('sigma');
+    expect(suggestedFix('did you mean `ld_binomial(k, n, logistic(a + b * x))`?')).toBe('ld_binomial(k, n, logistic(a + b * x))');
+    expect(suggestedFix('add the line: table orchard')).toBeUndefined();
+    expect(suggestedFix('did you mean `a b`?')).toBeUndefined();
+  });
+
+  it('hover on a link-capable density explains the fused form', () => {
+    const doc = 'term ld_binomial(k, n, logistic(eta))';
+    const state = EditorState.create({ doc });
+    const fn = hoverInfo(state, doc.indexOf('binomial'));
+    expect(fn?.title).toBe('ld_binomial(k, n, p) → scalar');
+    expect(fn?.body).toContain('ld_binomial(k, n, logistic(eta))');
+    expect(hoverInfo(state, doc.indexOf('logistic'))?.body).toContain('fused');
   });
 
   it('hoverInfo gives a function’s signature and doc, a keyword’s doc, nothing inside comments', () => {

@@ -38,7 +38,7 @@ const { scalar, vector } = fc.letrec<{ scalar: string; vector: string }>((tie) =
     fc.tuple(tie('vector'), tie('scalar')).map(([v, s]) => `ld_normal(${v}, ${s}, 1 + softplus(0.3 * (${s})))`),
     fc.tuple(tie('vector'), tie('vector')).map(([v, m]) => `ld_normal(x, ${m}, 1 + softplus(0.3 * (${v})))`),
     fc.tuple(tie('scalar'), tie('scalar')).map(([l, r]) => `ld_student_t(${l}, 5, ${r}, 2)`),
-    tie('vector').map((v) => `ld_poisson_lograte(k, 0.3 * (${v}))`),
+    tie('vector').map((v) => `ld_poisson(k, exp(0.3 * (${v})))`),
   ),
   vector: fc.oneof(
     { depthSize: 'small', withCrossShrink: true },

@@ -102,24 +102,24 @@ describe('compiled log-densities agree with jStat', () => {
   it.each([[0.6], [4.2]])('ld_poisson rate=%f — jStat.poisson.pdf', (r) => {
     close(run('unknown r\nterm ld_poisson(k, r)', { k: integer(ks) }, [r]), sum(ks.map((k) => Math.log(jStat.poisson.pdf(k, r)))));
   });
-  it.each([[-0.4], [1.3]])('ld_poisson_lograte eta=%f — jStat.poisson.pdf(k, exp(eta))', (e) => {
-    close(run('unknown e\nterm ld_poisson_lograte(k, e)', { k: integer(ks) }, [e]), sum(ks.map((k) => Math.log(jStat.poisson.pdf(k, Math.exp(e))))));
+  it.each([[-0.4], [1.3]])('ld_poisson(k, exp(eta)) eta=%f — jStat.poisson.pdf(k, exp(eta))', (e) => {
+    close(run('unknown e\nterm ld_poisson(k, exp(e))', { k: integer(ks) }, [e]), sum(ks.map((k) => Math.log(jStat.poisson.pdf(k, Math.exp(e))))));
   });
   const kn = { k: integer([0, 3, 2, 9, 20]), n: integer([0, 4, 5, 9, 20]) };
   const kk = [0, 3, 2, 9, 20];
   it.each([[0.3], [0.85]])('ld_binomial p=%f — jStat.binomial.pdf', (p) => {
     close(run('unknown p\nterm ld_binomial(k, n, p)', kn, [p]), sum(kk.map((k, i) => Math.log(jStat.binomial.pdf(k, ns[i], p)))));
   });
-  it.each([[-1.2], [0.9]])('ld_binomial_logodds eta=%f — jStat.binomial.pdf(k, n, 1/(1+e^−eta))', (e) => {
+  it.each([[-1.2], [0.9]])('ld_binomial(k, n, logistic(eta)) eta=%f — jStat.binomial.pdf(k, n, 1/(1+e^−eta))', (e) => {
     const p = 1 / (1 + Math.exp(-e));
-    close(run('unknown e\nterm ld_binomial_logodds(k, n, e)', kn, [e]), sum(kk.map((k, i) => Math.log(jStat.binomial.pdf(k, ns[i], p)))));
+    close(run('unknown e\nterm ld_binomial(k, n, logistic(e))', kn, [e]), sum(kk.map((k, i) => Math.log(jStat.binomial.pdf(k, ns[i], p)))));
   });
   it.each([[0.2], [0.7]])('ld_bernoulli p=%f — jStat.binomial.pdf(y, 1, p)', (p) => {
     close(run('unknown p\nterm ld_bernoulli(y, p)', { y: integer(ys) }, [p]), sum(ys.map((y) => Math.log(jStat.binomial.pdf(y, 1, p)))));
   });
-  it.each([[-2], [0.4]])('ld_bernoulli_logodds eta=%f — jStat.binomial.pdf(y, 1, logistic(eta))', (e) => {
+  it.each([[-2], [0.4]])('ld_bernoulli(y, logistic(eta)) eta=%f — jStat.binomial.pdf(y, 1, logistic(eta))', (e) => {
     const p = 1 / (1 + Math.exp(-e));
-    close(run('unknown e\nterm ld_bernoulli_logodds(y, e)', { y: integer(ys) }, [e]), sum(ys.map((y) => Math.log(jStat.binomial.pdf(y, 1, p)))));
+    close(run('unknown e\nterm ld_bernoulli(y, logistic(e))', { y: integer(ys) }, [e]), sum(ys.map((y) => Math.log(jStat.binomial.pdf(y, 1, p)))));
   });
   it('ld_dirichlet with K = 2 equals the Beta density — @stdlib/stats-base-dists-beta-logpdf', () => {
     const m = compile('unknown w[2], a[2]\nterm ld_dirichlet(w, a)');

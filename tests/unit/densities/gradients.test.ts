@@ -6,7 +6,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import * as D from '../../../server/engine/densities';
-import { DENSITY_TABLE, MATH_TABLE } from '../../../server/engine/densities';
+import { DENSITY_TABLE, FUSED_DENSITY_TABLE, MATH_TABLE } from '../../../server/engine/densities';
 import { Rng } from '../../../server/engine/rng';
 import { centralDiff, expectPartial } from './helpers';
 
@@ -35,7 +35,7 @@ const CASES: Case[] = [
   { name: 'ld_beta', kinds: ['unit', 'pos', 'pos'], draw: () => [U(0.02, 0.98), U(0.3, 10), U(0.3, 10)] },
   { name: 'ld_halfnormal', kinds: ['pos', 'pos'], draw: () => [U(0.01, 10), U(0.2, 5)] },
   { name: 'ld_poisson', kinds: ['discrete', 'pos'], draw: () => [I(0, 30), U(0.1, 30)] },
-  { name: 'ld_poisson_lograte', kinds: ['discrete', 'real'], draw: () => [I(0, 30), U(-3, 4)] },
+  { name: 'ld_poisson∘exp', kinds: ['discrete', 'real'], draw: () => [I(0, 30), U(-3, 4)] },
   {
     name: 'ld_binomial',
     kinds: ['discrete', 'discrete', 'unit'],
@@ -45,7 +45,7 @@ const CASES: Case[] = [
     },
   },
   {
-    name: 'ld_binomial_logodds',
+    name: 'ld_binomial∘logistic',
     kinds: ['discrete', 'discrete', 'real'],
     draw: () => {
       const n = I(0, 50);
@@ -53,7 +53,7 @@ const CASES: Case[] = [
     },
   },
   { name: 'ld_bernoulli', kinds: ['discrete', 'unit'], draw: () => [I(0, 1), U(0.02, 0.98)] },
-  { name: 'ld_bernoulli_logodds', kinds: ['discrete', 'real'], draw: () => [I(0, 1), U(-8, 8)] },
+  { name: 'ld_bernoulli∘logistic', kinds: ['discrete', 'real'], draw: () => [I(0, 1), U(-8, 8)] },
 ];
 
 function step(kind: Kind, x: number): number {
@@ -63,8 +63,8 @@ function step(kind: Kind, x: number): number {
 }
 
 describe('scalar log-densities: partials against central differences', () => {
-  it('covers every scalar density in DENSITY_TABLE', () => {
-    const scalarNames = Object.values(DENSITY_TABLE)
+  it('covers every scalar density in DENSITY_TABLE and every fused kernel', () => {
+    const scalarNames = [...Object.values(DENSITY_TABLE), ...Object.values(FUSED_DENSITY_TABLE)]
       .filter((d) => d.kind === 'scalar')
       .map((d) => d.name)
       .sort();
@@ -73,7 +73,7 @@ describe('scalar log-densities: partials against central differences', () => {
 
   for (const c of CASES) {
     it(`${c.name}: 40 random points`, () => {
-      const info = DENSITY_TABLE[c.name];
+      const info = Object.prototype.hasOwnProperty.call(DENSITY_TABLE, c.name) ? DENSITY_TABLE[c.name] : FUSED_DENSITY_TABLE[c.name];
       if (info.kind !== 'scalar') throw new Error('expected a scalar density');
       expect(info.args.map((a) => a.discrete)).toEqual(c.kinds.map((k) => k === 'discrete'));
       const f = info.value;

@@ -36,7 +36,7 @@ export function expectClose(a: number, b: number, rel: number, what: string): vo
 /**
  * Derivative of f at x by central differences with one Richardson extrapolation step
  * (D(h) and D(h/2) combined as (4·D(h/2) − D(h))/3, error O(h⁴); a standard numerical-analysis
- * device, e.g. Burden & Faires, Numerical Analysis, §4.2).
+ * device, e.g. the Richardson-extrapolation section of any numerical-analysis textbook).
  */
 export function centralDiff(f: (x: number) => number, x: number, h: number): number {
   const d1 = (f(x + h) - f(x - h)) / (2 * h);

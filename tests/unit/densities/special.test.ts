@@ -1,6 +1,6 @@
 /**
  * The special functions behind the densities: log-gamma against jStat.gammaln and exact
- * factorials, digamma against closed forms (Abramowitz & Stegun 6.3.2–6.3.3), log-beta and the
+ * factorials, digamma against closed forms ("Handbook of Mathematical Functions", NBS 1964, 6.3.2–6.3.3), log-beta and the
  * log-binomial coefficient against jStat and exact integers.
  */
 import { describe, expect, it } from 'vitest';

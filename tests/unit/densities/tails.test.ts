@@ -99,7 +99,7 @@ describe('densities in their tails', () => {
   it('beta with large shapes uses an accurate log-beta (no cancellation in lgamma differences)', () => {
     // Beta(5000, 5000) at its mode 0.5: the density there ≈ √(2(a+b)/π)… by the normal approximation;
     // the exact value uses log B(a, b) = log Γ(a) + log Γ(b) − log Γ(a+b) — checked against the
-    // normal approximation with variance ab/((a+b)²(a+b+1)) (Johnson, Kotz & Balakrishnan vol. 2,
+    // normal approximation with variance ab/((a+b)²(a+b+1)) ("Continuous Univariate Distributions", vol. 2 (2nd ed., Wiley 1995),
     // ch. 25), which is accurate to O(1/(a+b)) here.
     const a = 5000;
     const sd = Math.sqrt((a * a) / (4 * a * a * (2 * a + 1)));

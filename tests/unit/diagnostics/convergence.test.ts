@@ -37,7 +37,7 @@ function meanSd(xs: number[]): { mean: number; sd: number; se: number } {
 }
 
 describe('autocovariance', () => {
-  it('FFT result equals the direct biased sum (definition, Geyer 1992)', () => {
+  it('FFT result equals the direct biased sum (definition, "Practical Markov chain Monte Carlo", Statistical Science 1992)', () => {
     const rng = new Rng(7);
     for (const n of [5, 9, 100, 257]) {
       const x = ar1(rng, n, 0.6);
@@ -52,13 +52,13 @@ describe('autocovariance', () => {
   });
 });
 
-describe('splitting and rank normalisation (Vehtari et al. 2021, §4.1)', () => {
+describe('splitting and rank normalisation (Improved R̂, Bayesian Analysis 2021, §4.1)', () => {
   it('drops the middle draw of an odd chain', () => {
     const [a, b] = splitChains([[1, 2, 3, 4, 5]]);
     expect(Array.from(a)).toEqual([1, 2]);
     expect(Array.from(b)).toEqual([4, 5]);
   });
-  it('averages tied ranks and uses Blom offsets (r − 3/8)/(S + 1/4)', () => {
+  it('averages tied ranks and uses the offsets (r − 3/8)/(S + 1/4)', () => {
     const [z] = rankNormalize([[10, 20, 20, 30]]);
     // ranks 1, 2.5, 2.5, 4 of S = 4; quantiles computed independently with stdlib.
     expect(z[0]).toBeCloseTo(qnorm((1 - 0.375) / 4.25, 0, 1), 12);
@@ -66,7 +66,7 @@ describe('splitting and rank normalisation (Vehtari et al. 2021, §4.1)', () => 
     expect(z[2]).toBe(z[1]);
     expect(z[3]).toBeCloseTo(qnorm((4 - 0.375) / 4.25, 0, 1), 12);
   });
-  it('quantile definition 7 (Hyndman & Fan 1996): worked values', () => {
+  it('quantile definition 7 ("Sample quantiles in statistical packages", The American Statistician 1996): worked values', () => {
     const s = [1, 2, 3, 4];
     expect(quantileSorted(s, 0.5)).toBe(2.5); // h = 1.5
     expect(quantileSorted(s, 0.05)).toBeCloseTo(1.15, 12); // h = 0.15
@@ -76,7 +76,7 @@ describe('splitting and rank normalisation (Vehtari et al. 2021, §4.1)', () => 
 
 describe('ESS on AR(1) chains against ESS = N(1−ρ)/(1+ρ)', () => {
   // Source: the integrated autocorrelation time of a stationary AR(1) is τ = (1+ρ)/(1−ρ)
-  // (common textbook result, e.g. Geyer 1992, Statistical Science 7, §3), so ESS = N/τ.
+  // (common textbook result, e.g. "Practical Markov chain Monte Carlo", Statistical Science 1992, §3), so ESS = N/τ.
   // Tolerance: the estimator varies from run to run, so we repeat the experiment R = 20 times with
   // fixed seeds and require |mean of the estimates − N/τ| < 4 · (their standard error), the
   // standard error being measured from the replicates themselves.
@@ -105,7 +105,7 @@ describe('ESS on AR(1) chains against ESS = N(1−ρ)/(1+ρ)', () => {
   }
 
   it('R̂ of well-mixed AR(1) chains is close to 1', () => {
-    // Vehtari et al. (2021) §4.4: R̂ < 1.01 is expected once chains have mixed; with 4 × 2000
+    // Improved R̂, Bayesian Analysis 2021, §4.4: R̂ < 1.01 is expected once chains have mixed; with 4 × 2000
     // stationary draws at ρ = 0.5 (ESS ≈ 2700) the sampling spread of R̂ is far below 0.01.
     const rng = new Rng(31);
     const ch = Array.from({ length: 4 }, () => ar1(rng, 2000, 0.5));
@@ -115,7 +115,7 @@ describe('ESS on AR(1) chains against ESS = N(1−ρ)/(1+ρ)', () => {
   });
 });
 
-describe('R̂ (Vehtari et al. 2021)', () => {
+describe('R̂ (Improved R̂, Bayesian Analysis 2021)', () => {
   it('≈ 1 for iid normal chains', () => {
     const rng = new Rng(11);
     const ch = Array.from({ length: 4 }, () => ar1(rng, 1000, 0));
@@ -131,7 +131,7 @@ describe('R̂ (Vehtari et al. 2021)', () => {
   });
 
   it('> 1.1 when chains have the same mean but different scales (the folded R̂ catches it)', () => {
-    // Vehtari et al. (2021) §4.2: the bulk R̂ misses a variance difference; the tail (folded) R̂ sees it.
+    // Improved R̂, Bayesian Analysis 2021, §4.2: the bulk R̂ misses a variance difference; the tail (folded) R̂ sees it.
     const rng = new Rng(13);
     const ch = [ar1(rng, 1000, 0), ar1(rng, 1000, 0), ar1(rng, 1000, 0), ar1(rng, 1000, 0).map((v) => 4 * v)];
     expect(rhat(ch)).toBeGreaterThan(1.1);
@@ -156,8 +156,8 @@ describe('R̂ (Vehtari et al. 2021)', () => {
 describe('MCSE', () => {
   it('of a quantile on iid normals matches √(p(1−p)/N)/φ(z_p)', () => {
     // Source: asymptotic normality of the sample p-quantile, sd = √(p(1−p)/N) / f(q_p)
-    // (Serfling 1980, Approximation Theorems of Mathematical Statistics, §2.3.3; from memory).
-    // The MCSE estimator of Vehtari et al. (2021) §4.4 is itself noisy (it reads a density off
+    // ("Approximation Theorems of Mathematical Statistics", Wiley 1980, §2.3.3; from memory).
+    // The MCSE estimator of Improved R̂ (Bayesian Analysis 2021, §4.4) is itself noisy (it reads a density off
     // order-statistic spacings), so we average R = 150 replicates and require the mean to be within
     // 4 standard errors (from the replicates) of the formula, and the empirical spread of the
     // quantile estimates across replicates to agree with the formula within 4 of its own standard
@@ -217,7 +217,7 @@ describe('essBasic edge cases', () => {
   });
 });
 
-describe('E-FMI (Betancourt 2016)', () => {
+describe('E-FMI ("Diagnosing suboptimal cotangent disintegrations in Hamiltonian Monte Carlo", arXiv 2016)', () => {
   it('≈ 2 for independent energies and ≈ 2(1−ρ) for AR(1) energies', () => {
     // From the definition: E[(E_n − E_{n−1})²] = 2 Var(E)(1 − ρ₁) for a stationary series, so the
     // ratio tends to 2(1 − ρ). Tolerance: 4 replicate standard errors over 20 replicates.

@@ -16,7 +16,7 @@ const good: VerdictInput = {
   efmi: [0.9, 1.1, 0.8, 1.0],
 };
 
-// The rule table documented in verdict.ts: R̂ 1.01 and ESS 100 per chain from Vehtari et al. (2021);
+// The rule table documented in verdict.ts: R̂ 1.01 and ESS 100 per chain from Improved R̂ (Bayesian Analysis 2021);
 // 1.05, the 1% divergence share, the 10% rejected-step share and E-FMI 0.2 are our judgement calls.
 const cases: Array<{ name: string; change: Partial<VerdictInput>; level: string; failed: number; rules?: number }> = [
   { name: 'all good', change: {}, level: 'trustworthy', failed: 0 },

@@ -13,7 +13,7 @@ const SMALL = ['--chains', '2', '--warmup', '200', '--draws', '300', '--seed', '
 describe('fit command with model-language programs', () => {
   it('conjugate normal mean: posterior mean and second moment match the closed form', async () => {
     // y ~ N(mu, 1), mu ~ N(0, 10²): posterior N(n ȳ / (n + 0.01), 1 / (n + 0.01))
-    // (Gelman et al., Bayesian Data Analysis, 3rd ed., §2.5). E[mu²] = var + mean² checks the
+    // ("Bayesian Data Analysis", 3rd ed., CRC Press 2013, §2.5). E[mu²] = var + mean² checks the
     // spread through a derived quantity. Tolerance 4·MCSE of the run.
     const y = [4.1, 5.3, 4.8, 6.0, 5.2, 4.4, 5.9, 5.1];
     const files = {
@@ -44,8 +44,8 @@ describe('fit command with model-language programs', () => {
 
   it('--mode reports the maximum a posteriori point: isotonic regression under an ordering', async () => {
     // Flat prior, Gaussian noise with known σ, ordered means: the posterior mode is the least-squares
-    // fit under the ordering, i.e. isotonic regression by pool-adjacent-violators (Robertson, Wright &
-    // Dykstra 1988, Order Restricted Statistical Inference, ch. 1). Group means 5, 3, 6 with equal
+    // fit under the ordering, i.e. isotonic regression by pool-adjacent-violators ("Order Restricted
+    // Statistical Inference", Wiley 1988, ch. 1). Group means 5, 3, 6 with equal
     // counts pool the first two: (4, 4, 6), worked by hand.
     const files = {
       'iso.slk': 'table t\nunknown mu[3]\nterm ld_normal(y, mu[g], 1)\nconstrain mu[1] <= mu[2] <= mu[3]\n',

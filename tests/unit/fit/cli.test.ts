@@ -75,7 +75,7 @@ describe('fit command (module model, in-process chains)', () => {
     expect(doc.settings).toEqual({ chains: 2, warmup: 100, draws: 200, seed: 5, sampler: 'auto' });
     expect(typeof doc.seconds).toBe('number');
     // Posterior of a normal mean with known σ = 1 and a flat prior (the bounds ±10 are ~20 sd away):
-    // N(ȳ, 1/n) = N(5.2, 0.2) (Gelman et al., Bayesian Data Analysis 3rd ed., §2.5). 4·MCSE tolerance.
+    // N(ȳ, 1/n) = N(5.2, 0.2) ("Bayesian Data Analysis", 3rd ed., CRC Press 2013, §2.5). 4·MCSE tolerance.
     const mu = doc.quantities[0];
     expect(Math.abs(mu.mean - 5.2)).toBeLessThan(4 * mu.mcseMean);
     expect(Math.abs(doc.quantities[1].mean - 0.2)).toBeLessThan(4 * doc.quantities[1].mcseMean);
@@ -86,8 +86,10 @@ describe('fit command (module model, in-process chains)', () => {
     const code = await main([...base, '--draws-out', 'out.csv'], io, { parallel: false });
     expect(code).toBe(0);
     expect(io.out).toMatch(/^Fit of cli-model\.ts: 2 chains × 200 draws after 100 warm-up, seed 5/);
-    expect(io.out).toMatch(/quantity\s+mean\s+sd\s+5%\s+50%\s+95%\s+R̂\s+ess-bulk\s+ess-tail\s+mcse-mean/);
-    expect(io.out).toMatch(/\nmu\s+5\.\d+/);
+    // Estimate and interval first, mixing figures after the bar.
+    expect(io.out).toMatch(/quantity\s+median\s+90% interval\s+mean\s+sd\s+│\s+mixing R̂\s+eff\. draws centre\s+eff\. draws tails\s+MC error of median/);
+    expect(io.out).toMatch(/\nmu\s+5\.\d+\s+\S+ to \S+\s+5\.\d+/);
+    expect(io.out).toMatch(/fewest effective draws: centre \d+, tails \d+/);
     expect(io.out).toMatch(/\nshift \(derived\)/);
     expect(io.out).toMatch(/Verdict: (TRUSTWORTHY|RUN LONGER|DO NOT USE) — /);
     expect(io.out).toMatch(/ (pass|FAIL) {2}chains agree/);

@@ -48,8 +48,8 @@ describe('runFit', () => {
     expect(r.unknownNames).toEqual(['x[1]', 'x[2]']);
     expect(r.derivedNames).toEqual(['gap']);
     // Uniform on {0 ≤ x₁ ≤ x₂ ≤ 1} is the law of the order statistics of two U(0,1): x₁ ~ Beta(1,2)
-    // (mean 1/3), x₂ ~ Beta(2,1) (mean 2/3), and the spacing x₂ − x₁ ~ Beta(1,2) (David & Nagaraja,
-    // Order Statistics, 3rd ed., §2.5 — uniform spacings are exchangeable). Tolerance 4·MCSE of the run.
+    // (mean 1/3), x₂ ~ Beta(2,1) (mean 2/3), and the spacing x₂ − x₁ ~ Beta(1,2) (
+    // "Order Statistics" (3rd ed., Wiley 2003), §2.5 — uniform spacings are exchangeable). Tolerance 4·MCSE of the run.
     for (const [name, truth] of [['x[1]', 1 / 3], ['x[2]', 2 / 3], ['gap', 1 / 3]] as const) {
       const s = q(r, name);
       expect(Math.abs(s.mean - truth)).toBeLessThan(4 * s.mcseMean);
@@ -65,8 +65,8 @@ describe('runFit', () => {
 
   it("uses the sampler tests' equality-simplex target: Beta(1, k−1) means, sum kept at 1", async () => {
     // Uniform on {w ≥ 0, Σw = 1} with k = 4 is Dirichlet(1,1,1,1); each w_j ~ Beta(1, 3), mean 1/4
-    // (Dirichlet aggregation property; Kotz, Balakrishnan & Johnson, Continuous Multivariate
-    // Distributions, vol. 1, ch. 49). Tolerance 4·MCSE of the run. runFit itself checks every draw
+    // (Dirichlet aggregation property;
+    // "Continuous Multivariate Distributions", vol. 1 (2nd ed., Wiley 2000), ch. 49). Tolerance 4·MCSE of the run. runFit itself checks every draw
     // against Σw = 1 and w ≥ 0 before summarising.
     const spec: TargetSpec = {
       kind: 'module',
@@ -87,8 +87,8 @@ describe('runFit', () => {
 
   it('truncated normal: mean and E[z²] match the closed form', async () => {
     // Standard normal truncated to [a, b]: E z = (φ(a) − φ(b))/Z, E z² = 1 + (aφ(a) − bφ(b))/Z,
-    // Z = Φ(b) − Φ(a) (Johnson, Kotz & Balakrishnan, Continuous Univariate Distributions vol. 1,
-    // ch. 13). Φ and φ from @stdlib. Tolerance 4·MCSE of the run.
+    // Z = Φ(b) − Φ(a) (
+    // "Continuous Univariate Distributions", vol. 1 (2nd ed., Wiley 1994), ch. 13). Φ and φ from @stdlib. Tolerance 4·MCSE of the run.
     const r = await runFit(trunc, { chains: 2, warmup: 200, draws: 400, seed: 99, sampler: 'rhmc' }, { parallel: false });
     const a = -1;
     const b = 2;

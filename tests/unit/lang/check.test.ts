@@ -118,7 +118,7 @@ describe('editor lists', () => {
     const fns = FUNCTION_SIGNATURES.map((f) => f.name);
     const required = [
       'ld_normal', 'ld_student_t', 'ld_cauchy', 'ld_laplace', 'ld_logistic', 'ld_lognormal', 'ld_gamma', 'ld_exponential', 'ld_beta',
-      'ld_halfnormal', 'ld_poisson', 'ld_poisson_lograte', 'ld_binomial', 'ld_binomial_logodds', 'ld_bernoulli', 'ld_bernoulli_logodds',
+      'ld_halfnormal', 'ld_poisson', 'ld_binomial', 'ld_bernoulli',
       'ld_dirichlet', 'ld_multinomial', 'exp', 'log', 'log1p', 'expm1', 'sqrt', 'square', 'pow', 'abs', 'logistic', 'log_logistic',
       'softplus', 'lgamma', 'log_sum_exp', 'sum', 'mean', 'dot', 'cumsum', 'diff',
     ];

@@ -1,7 +1,7 @@
 /**
  * Helpers for the sampler tests: run a few chains, pull out one coordinate, and compare a mean or a
  * variance with its known value within 4 Monte Carlo standard errors of this very run (MCSE from the
- * project's diagnostics: sd / √ESS, Vehtari et al. 2021).
+ * project's diagnostics: sd / √ESS; Improved R̂, Bayesian Analysis 2021).
  */
 import { expect } from 'vitest';
 export { runChains, column, type Run } from './run';
@@ -57,7 +57,7 @@ export function expectAllFeasible(run: Run): void {
   expect(bad).toBe(0);
 }
 
-/** Beta(a, b) mean and variance (handbook formulas; e.g. Johnson, Kotz & Balakrishnan vol. 2, ch. 25). */
+/** Beta(a, b) mean and variance (handbook formulas; e.g. "Continuous Univariate Distributions", vol. 2 (2nd ed., Wiley 1995), ch. 25). */
 export function betaMoments(a: number, b: number): { mean: number; variance: number } {
   return { mean: a / (a + b), variance: (a * b) / ((a + b) ** 2 * (a + b + 1)) };
 }

@@ -12,7 +12,7 @@ import { gaussianOnSimplexTarget, normalMeanTarget, orderedMeansTarget, uniformS
 
 /**
  * Pool-adjacent-violators for the least-squares fit under μ₁ ≤ … ≤ μₙ with equal weights
- * (Barlow, Bartholomew, Bremner & Brunk, Statistical Inference under Order Restrictions, 1972;
+ * ("Statistical Inference under Order Restrictions", Wiley 1972;
  * written here from the textbook description).
  */
 function pava(y: number[]): number[] {

@@ -8,8 +8,8 @@ import { betaBinomialTarget, bivariateNormalTarget, normalMeanTarget, orderedGro
 import { mcseMean } from '../../../server/engine/diagnostics';
 
 /**
- * Mean and variance of N(0, 1) truncated to [a, b] (Johnson, Kotz & Balakrishnan, Continuous
- * Univariate Distributions vol. 1, 2nd ed., §13.10.1):
+ * Mean and variance of N(0, 1) truncated to [a, b] (
+ * "Continuous Univariate Distributions", vol. 1 (2nd ed., Wiley 1994), §13.10.1):
  *   Z = Φ(b) − Φ(a), mean = (φ(a) − φ(b)) / Z, var = 1 + (a φ(a) − b φ(b)) / Z − mean².
  * Φ, φ from @stdlib/stats-base-dists-normal; Z computed on the side that avoids cancellation.
  */
@@ -51,7 +51,7 @@ describe('standard normal truncated to [a, b]', () => {
   });
 });
 
-describe('conjugate posteriors (Gelman et al., Bayesian Data Analysis, 3rd ed.)', () => {
+describe('conjugate posteriors ("Bayesian Data Analysis", 3rd ed., CRC Press 2013)', () => {
   it('normal mean with known variance and a normal prior: no inequalities, Euclidean HMC (BDA3 §2.5)', () => {
     const y = [4.1, 5.3, 3.8, 4.9, 5.6, 4.4];
     const sigma = 1.5;

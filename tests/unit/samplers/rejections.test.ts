@@ -1,7 +1,7 @@
 /**
  * Rejected steps versus divergences. A trajectory that stops because an implicit step could not be
  * completed (solver non-convergence, M not positive definite, leaving the region, run-back
- * mismatch) is an exact rejection (Noble, De Bortoli & Durmus 2023: the proposal map restricted to
+ * mismatch) is an exact rejection ("Unbiased constrained sampling with self-concordant barrier Hamiltonian Monte Carlo", NeurIPS 2023: the proposal map restricted to
  * where the forward and backward solves succeed is an involution) and is counted in `rejected`;
  * only an energy error that blows up (non-finite or above 1000, the threshold in common use) is
  * counted in `divergent`.

@@ -8,7 +8,7 @@ import { equalitySimplexTarget, orderSimplexTarget, uniformSimplexTarget } from 
 describe('uniform on the standard simplex', () => {
   // Uniform on {x ∈ ℝ^d : x ≥ 0, Σx ≤ 1} is Dirichlet(1, …, 1) on d + 1 components (with the slack
   // 1 − Σx); by the aggregation property each coordinate is Beta(1, d)
-  // (Kotz, Balakrishnan & Johnson, Continuous Multivariate Distributions vol. 1, ch. 49).
+  // ("Continuous Multivariate Distributions", vol. 1 (2nd ed., Wiley 2000), ch. 49).
   // Hit-and-run keeps one draw per n line moves and still mixes slowly into the simplex's corners,
   // so it needs many more (cheap) draws than RHMC for the variance to settle: the squared deviations
   // are strongly skewed and their MCSE is only trustworthy with a large effective sample. At d = 50
@@ -44,7 +44,7 @@ describe('uniform on the standard simplex', () => {
 
 describe('uniform on the order simplex 0 ≤ x₁ ≤ … ≤ xₙ ≤ 1', () => {
   // x_k is the k-th order statistic of n uniforms: Beta(k, n + 1 − k)
-  // (David & Nagaraja, Order Statistics, 3rd ed., §2.1).
+  // ("Order Statistics" (3rd ed., Wiley 2003), §2.1).
   it.each([
     ['rhmc', 200, 300],
     ['hitrun', 500, 10000],

@@ -23,7 +23,7 @@ describe('formatting', () => {
   });
 });
 
-describe('failing thresholds (Vehtari et al. 2021: R̂ < 1.01, ESS ≥ 100 per chain)', () => {
+describe('failing thresholds (Improved R̂, Bayesian Analysis 2021: R̂ < 1.01, ESS ≥ 100 per chain)', () => {
   it('flags R̂ at or above 1.01 and non-finite R̂', () => {
     expect(rhatFails(1.009)).toBe(false);
     expect(rhatFails(1.01)).toBe(true);
