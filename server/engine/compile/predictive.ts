@@ -76,6 +76,36 @@ export function columnsRead(e: Expr, out: { table: string; column: string; ctype
   return out;
 }
 
+/** Data columns used as an index somewhere in an expression (`field` in `mu[field]`). */
+function indexColumns(e: Expr, out: { table: string; column: string; ctype: string; levels?: number }[] = []) {
+  switch (e.kind) {
+    case 'index':
+      columnsRead(e.index, out);
+      indexColumns(e.base, out);
+      break;
+    case 'name':
+    case 'member':
+      if (e.ref?.kind === 'let') indexColumns(e.ref.expr, out);
+      break;
+    case 'call':
+      e.args.forEach((a) => indexColumns(a, out));
+      break;
+    case 'unary':
+      indexColumns(e.arg, out);
+      break;
+    case 'binary':
+      indexColumns(e.left, out);
+      indexColumns(e.right, out);
+      break;
+    case 'array':
+      e.items.forEach((a) => indexColumns(a, out));
+      break;
+    default:
+      break;
+  }
+  return out;
+}
+
 /* ------------------------------------------------------------------------------------------ */
 /* Replicated data                                                                             */
 /* ------------------------------------------------------------------------------------------ */
@@ -92,8 +122,8 @@ export interface ReplicateSpec {
   /** The table whose rows the replicate runs over (when the observation is one of its columns). */
   table?: string;
   /**
-   * Category columns of that table read by the replicate's parameters (e.g. `field` in
-   * `mu[field]`): the natural groups for per-group checks.
+   * Columns of that table that group its rows for per-group checks: category columns read by the
+   * replicate's parameters, and integer columns they use as an index (`field` in `mu[field]`).
    */
   groups: { column: string; codes: Float64Array; levels: string[] }[];
 }
@@ -134,8 +164,9 @@ export function compileReplicates(check: CheckResult, tables: DataTables): Compi
       const groups: ReplicateSpec['groups'] = [];
       if (table) {
         for (const a of e.args.slice(1))
-          for (const c of columnsRead(a)) {
-            if (c.table !== table || c.ctype !== 'category' || groups.some((g) => g.column === c.column)) continue;
+          for (const c of [...columnsRead(a), ...indexColumns(a)]) {
+            if (c.table !== table || c.ctype === 'numeric' || groups.some((g) => g.column === c.column)) continue;
+            if (c.ctype === 'integer' && !indexColumns(a).some((x) => x.column === c.column)) continue;
             const col = tables[table].columns[c.column];
             groups.push({ column: c.column, codes: col.values, levels: col.levels ?? [] });
           }

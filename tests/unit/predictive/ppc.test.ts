@@ -24,7 +24,8 @@ import { Rng } from '../../../server/engine/rng';
 import type { DataTables } from '../../../server/engine/types';
 
 type F = (...a: number[]) => number;
-const jStat = (createRequire(import.meta.url)('jstat') as { jStat: Record<string, F> }).jStat;
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+const jStat = (createRequire(import.meta.url)('jstat') as { jStat: Record<string, (...a: any[]) => number> }).jStat;
 const normalCdf = stdNormal.cdf as F;
 
 function table(cols: Record<string, Float64Array>, category?: { name: string; values: Float64Array; levels: string[] }): DataTables {
