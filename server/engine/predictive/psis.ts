@@ -98,20 +98,25 @@ export function psisSmooth(logRatios: ArrayLike<number>, rEff = 1): { logWeights
   let k = Infinity;
   const M = tailLength(S, rEff);
   if (M >= 5 && S > M) {
-    const order = Array.from({ length: S }, (_, s) => s).sort((a, b) => lw[a] - lw[b]);
-    const cutoff = lw[order[S - M - 1]];
-    const tailMin = lw[order[S - M]];
-    const tailMax = lw[order[S - 1]];
+    // The M largest values in ascending order (their indices), and the largest value below them.
+    const sorted = Float64Array.from(lw).sort();
+    const cutoff = sorted[S - M - 1];
+    const tail: number[] = [];
+    for (let s = 0; s < S; s++) if (lw[s] > cutoff) tail.push(s);
+    for (let s = 0; s < S && tail.length < M; s++) if (lw[s] === cutoff) tail.push(s); // ties at the cutoff
+    tail.sort((a, b) => lw[a] - lw[b]);
+    const tailMin = lw[tail[0]];
+    const tailMax = lw[tail[M - 1]];
     if (Math.abs(tailMax - tailMin) < Number.EPSILON / 100) {
       k = 0;
     } else {
       const expCut = Math.exp(cutoff);
       const exceed = new Float64Array(M);
-      for (let j = 0; j < M; j++) exceed[j] = Math.exp(lw[order[S - M + j]]) - expCut;
+      for (let j = 0; j < M; j++) exceed[j] = Math.exp(lw[tail[j]]) - expCut;
       const fit = gpdFit(exceed);
       k = fit.k;
       if (Number.isFinite(k)) {
-        for (let j = 0; j < M; j++) lw[order[S - M + j]] = Math.log(gpdQuantile((j + 1 - 0.5) / M, k, fit.sigma) + expCut);
+        for (let j = 0; j < M; j++) lw[tail[j]] = Math.log(gpdQuantile((j + 1 - 0.5) / M, k, fit.sigma) + expCut);
       }
     }
   }
