@@ -110,6 +110,9 @@ function indexColumns(e: Expr, out: { table: string; column: string; ctype: stri
 /* Replicated data                                                                             */
 /* ------------------------------------------------------------------------------------------ */
 
+/** Category columns with more levels than this are not used for per-group checks. */
+export const MAX_GROUP_LEVELS = 50;
+
 export interface ReplicateSpec {
   name: string;
   line: number;
@@ -122,8 +125,9 @@ export interface ReplicateSpec {
   /** The table whose rows the replicate runs over (when the observation is one of its columns). */
   table?: string;
   /**
-   * Columns of that table that group its rows for per-group checks: category columns read by the
-   * replicate's parameters, and integer columns they use as an index (`field` in `mu[field]`).
+   * Columns of that table that group its rows for per-group checks: integer columns the
+   * replicate's parameters use as an index (`dose_level` in `mu[dose_level]`), then every category
+   * column of the table with at most MAX_GROUP_LEVELS levels.
    */
   groups: { column: string; codes: Float64Array; levels: string[] }[];
 }
@@ -163,13 +167,17 @@ export function compileReplicates(check: CheckResult, tables: DataTables): Compi
       const table = obsCols.find((c) => tables[c.table]?.rows === L)?.table;
       const groups: ReplicateSpec['groups'] = [];
       if (table) {
+        // Integer columns the parameters use as an index, then every category column of the table
+        // (whether the model reads it or not: a model that ignores a grouping is checked by it).
         for (const a of e.args.slice(1))
-          for (const c of [...columnsRead(a), ...indexColumns(a)]) {
-            if (c.table !== table || c.ctype === 'numeric' || groups.some((g) => g.column === c.column)) continue;
-            if (c.ctype === 'integer' && !indexColumns(a).some((x) => x.column === c.column)) continue;
-            const col = tables[table].columns[c.column];
-            groups.push({ column: c.column, codes: col.values, levels: col.levels ?? [] });
+          for (const c of indexColumns(a)) {
+            if (c.table !== table || c.ctype !== 'integer' || groups.some((g) => g.column === c.column)) continue;
+            groups.push({ column: c.column, codes: tables[table].columns[c.column].values, levels: [] });
           }
+        for (const [name, col] of Object.entries(tables[table].columns)) {
+          if (col.type !== 'category' || (col.levels?.length ?? 0) > MAX_GROUP_LEVELS || groups.some((g) => g.column === name)) continue;
+          groups.push({ column: name, codes: col.values, levels: col.levels ?? [] });
+        }
       }
       specs.push({ name: s.name, line: s.line, density: e.fn, length: L, observed, ...(table ? { table } : {}), groups });
     } catch (err) {

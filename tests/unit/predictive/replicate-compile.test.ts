@@ -78,6 +78,16 @@ term ld_halfnormal(sigma, 3)`;
     expect(r.ok).toBe(true);
     expect(r.program.statements.filter((s) => s.kind === 'term').map(isLikelihoodTerm)).toEqual([true, false, false]);
   });
+
+  it('classifies a qualified column as data and a declared name that hides a column as not data', () => {
+    const src = `table harvest
+unknown mu, kg
+term ld_normal(harvest.kg, mu, 1)
+term ld_normal(kg, mu, 1)`;
+    const r = checkProgram(src, schema);
+    expect(r.ok).toBe(true);
+    expect(r.program.statements.filter((s) => s.kind === 'term').map(isLikelihoodTerm)).toEqual([true, false]);
+  });
 });
 
 describe('replicate: compiled simulation', () => {
