@@ -79,6 +79,32 @@ function logSumExp(x: ArrayLike<number>): number {
   return m + Math.log(s);
 }
 
+/** The element that would sit at index n (0-based) if x were sorted ascending; reorders x. */
+export function nthSmallest(x: Float64Array, n: number): number {
+  let lo = 0;
+  let hi = x.length - 1;
+  while (lo < hi) {
+    const pivot = x[(lo + hi) >>> 1];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (x[i] < pivot) i++;
+      while (x[j] > pivot) j--;
+      if (i <= j) {
+        const t = x[i];
+        x[i] = x[j];
+        x[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (n <= j) hi = j;
+    else if (n >= i) lo = i;
+    else return x[n];
+  }
+  return x[n];
+}
+
 /** Tail length for S draws: ⌈min(S/5, 3·√(S/r_eff))⌉. */
 export function tailLength(S: number, rEff = 1): number {
   return Math.ceil(Math.min(0.2 * S, 3 * Math.sqrt(S / rEff)));
@@ -99,8 +125,7 @@ export function psisSmooth(logRatios: ArrayLike<number>, rEff = 1): { logWeights
   const M = tailLength(S, rEff);
   if (M >= 5 && S > M) {
     // The M largest values in ascending order (their indices), and the largest value below them.
-    const sorted = Float64Array.from(lw).sort();
-    const cutoff = sorted[S - M - 1];
+    const cutoff = nthSmallest(Float64Array.from(lw), S - M - 1);
     const tail: number[] = [];
     for (let s = 0; s < S; s++) if (lw[s] > cutoff) tail.push(s);
     for (let s = 0; s < S && tail.length < M; s++) if (lw[s] === cutoff) tail.push(s); // ties at the cutoff

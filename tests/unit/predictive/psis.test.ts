@@ -10,7 +10,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import stdNormalLogpdf from '@stdlib/stats-base-dists-normal-logpdf';
-import { gpdFit, gpdQuantile, psisLoo } from '../../../server/engine/predictive/psis';
+import { gpdFit, gpdQuantile, nthSmallest, psisLoo } from '../../../server/engine/predictive/psis';
 import { Rng } from '../../../server/engine/rng';
 
 const lnorm = stdNormalLogpdf as (x: number, m: number, s: number) => number;
@@ -82,5 +82,18 @@ describe('generalized Pareto fit (Technometrics 2009 method)', () => {
     expect(Math.abs(fit.k - k)).toBeLessThan((4 * (1 + k)) / Math.sqrt(n));
     // relative sd of the scale estimate: √(2(1 + k)/n) (same source)
     expect(Math.abs(fit.sigma / 1.5 - 1)).toBeLessThan(4 * Math.sqrt((2 * (1 + k)) / n));
+  });
+});
+
+describe('order statistic used to find the tail', () => {
+  it('equals the element of a full sort, with ties and any position', () => {
+    const rng = new Rng(4);
+    for (let rep = 0; rep < 200; rep++) {
+      const n = 1 + rng.int(500);
+      const x = Float64Array.from({ length: n }, () => (rng.uniform() < 0.3 ? rng.int(5) : rng.normal()));
+      const k = rng.int(n);
+      // reference: the engine's typed-array sort
+      expect(nthSmallest(Float64Array.from(x), k)).toBe(Float64Array.from(x).sort()[k]);
+    }
   });
 });
