@@ -92,7 +92,7 @@ describe('order statistic used to find the tail', () => {
       const n = 1 + rng.int(500);
       const x = Float64Array.from({ length: n }, () => (rng.uniform() < 0.3 ? rng.int(5) : rng.normal()));
       const k = rng.int(n);
-      // reference: the engine's typed-array sort
+      // reference: JavaScript's built-in typed-array sort
       expect(nthSmallest(Float64Array.from(x), k)).toBe(Float64Array.from(x).sort()[k]);
     }
   });
