@@ -17,6 +17,7 @@ import type { ChainResult, ModelTarget, SamplerName, TargetSpec } from './types'
 import { prepareTarget, type PreparedTarget } from './geometry';
 import { sampleChain } from './samplers';
 import { compileProgram } from './compile';
+import { compilePriorOnly } from './compile/predictive';
 
 export interface ChainJob {
   spec: TargetSpec;
@@ -31,7 +32,7 @@ export interface ChainJob {
 
 /** Builds the model target a spec describes. */
 export async function buildTarget(spec: TargetSpec): Promise<ModelTarget> {
-  if (spec.kind === 'program') return compileProgram(spec.source, spec.tables);
+  if (spec.kind === 'program') return spec.priorOnly ? compilePriorOnly(spec.source, spec.tables) : compileProgram(spec.source, spec.tables);
   const url = spec.modulePath.startsWith('file:') ? spec.modulePath : pathToFileURL(spec.modulePath).href;
   const mod = (await import(/* @vite-ignore */ url)) as Record<string, unknown>;
   const factory = mod[spec.exportName];
@@ -65,7 +66,7 @@ function specKey(spec: TargetSpec): string {
     t.rows,
     Object.entries(t.columns).map(([c, col]) => [c, col.type, Array.from(col.values), col.levels ?? null]),
   ]);
-  return JSON.stringify(['program', spec.source, tables]);
+  return JSON.stringify(['program', spec.source, tables, ...(spec.priorOnly ? ['prior-only'] : [])]);
 }
 
 /**

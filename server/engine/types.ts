@@ -55,11 +55,12 @@ export type DataTables = Record<string, DataTable>;
 
 /**
  * How a worker thread rebuilds a target: targets hold closures and cannot cross threads.
- * - program: model-language source plus its data, compiled inside the worker;
+ * - program: model-language source plus its data, compiled inside the worker; `priorOnly` drops
+ *   the likelihood terms (shared/lang/term-role.ts) for a fit of the prior alone;
  * - module: an ES module exporting a factory (used by tests and the benchmark).
  */
 export type TargetSpec =
-  | { kind: 'program'; source: string; tables: DataTables }
+  | { kind: 'program'; source: string; tables: DataTables; priorOnly?: boolean }
   | { kind: 'module'; modulePath: string; exportName: string; args: unknown };
 
 /* ------------------------------------------------------------------------------------------ */

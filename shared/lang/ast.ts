@@ -74,7 +74,8 @@ export type Statement =
   | { kind: 'let'; line: number; text: string; name: string; nameSpan: Span; expr: Expr }
   | { kind: 'term'; line: number; text: string; expr: Expr }
   | { kind: 'constrain'; line: number; text: string; expr: Expr }
-  | { kind: 'derive'; line: number; text: string; name: string; nameSpan: Span; expr: Expr };
+  | { kind: 'derive'; line: number; text: string; name: string; nameSpan: Span; expr: Expr }
+  | { kind: 'replicate'; line: number; text: string; name: string; nameSpan: Span; expr: Extract<Expr, { kind: 'call' }> };
 
 export interface Program {
   statements: Statement[];
@@ -93,6 +94,16 @@ export interface UnknownInfo {
   size: number;
   /** First flat coordinate (0-based). */
   offset: number;
+}
+
+/** A `replicate` statement: a new data vector (or number) simulated from every draw. */
+export interface ReplicateInfo {
+  name: string;
+  /** [] for one number, [n] for n values (one per row of the replicated data). */
+  shape: Shape;
+  /** Language name of the density, e.g. "ld_normal". */
+  density: string;
+  line: number;
 }
 
 export interface DerivedInfo {

@@ -12,6 +12,7 @@ import type {
   LangMessage,
   NameRef,
   Program,
+  ReplicateInfo,
   Shape,
   Span,
   Statement,
@@ -26,7 +27,7 @@ import { closest } from './suggest';
 /** A name the editor can offer for completion. */
 export interface SymbolInfo {
   name: string;
-  kind: 'unknown' | 'const' | 'let' | 'derive' | 'table' | 'column';
+  kind: 'unknown' | 'const' | 'let' | 'derive' | 'replicate' | 'table' | 'column';
   /** For columns: the table they belong to. */
   table?: string;
   shape: Shape;
@@ -49,6 +50,8 @@ export interface CheckResult {
   derived: DerivedInfo[];
   /** Flat names of the derived quantities. */
   derivedNames: string[];
+  /** `replicate` statements in program order (simulated data, not summarised with the draws). */
+  replicates: ReplicateInfo[];
   constraintCounts: { inequalities: number; equalities: number };
   /** Tables bound by `table` lines. */
   tables: string[];
@@ -66,7 +69,8 @@ type Sym =
   | { kind: 'unknown'; ref: Extract<NameRef, { kind: 'unknown' }>; line: number }
   | { kind: 'const'; ref: Extract<NameRef, { kind: 'const' }>; line: number; type: ExprType }
   | { kind: 'let'; ref: Extract<NameRef, { kind: 'let' }>; line: number; type: ExprType }
-  | { kind: 'derive'; line: number };
+  | { kind: 'derive'; line: number }
+  | { kind: 'replicate'; line: number };
 
 const SCALAR: Shape = [];
 
@@ -96,6 +100,7 @@ class Checker {
   boundSet = new Set<string>();
   unknowns: UnknownInfo[] = [];
   derived: DerivedInfo[] = [];
+  replicates: ReplicateInfo[] = [];
   offset = 0;
   /** Names declared anywhere (for "declared later" messages). */
   laterDecl = new Map<string, number>();
@@ -145,6 +150,8 @@ class Checker {
         e.ref = sym.ref;
         return sym.type;
       }
+      if (sym.kind === 'replicate')
+        throw new LangError(e.span, `\`${name}\` is replicated data; it is an output of the fit and cannot be used in other lines`);
       throw new LangError(e.span, `\`${name}\` is a derived quantity; derived quantities cannot be used in other lines (name the expression with let instead)`);
     }
     const tables = this.bareColumns.get(name);
@@ -351,6 +358,29 @@ class Checker {
 
   /* ---------------------------------------------------------------- statements */
 
+  /**
+   * `replicate NAME = ld_f(observed, p1, …)`: the density call of a likelihood term; every draw
+   * simulates a new value of `observed` (same length) from that density with the draw's p1, ….
+   */
+  replicate(s: Extract<Statement, { kind: 'replicate' }>) {
+    const e = s.expr;
+    const f = FUNCTIONS.get(e.fn);
+    if (!f || f.kind !== 'density') {
+      const what = f?.kind === 'density_vector' ? `\`${e.fn}\` takes whole vectors and cannot be replicated` : `\`${e.fn}\` is not a density`;
+      throw new LangError(e.fnSpan, `${what}; a replicate line uses one of the ld_ functions of a single observation`, 'for example: replicate kg_new = ld_normal(kg, mu, sigma)');
+    }
+    this.typeOf(e);
+    const obs = e.args[0].type!;
+    if (obs.dep === 2)
+      throw new LangError(e.args[0].span, `the first argument is the observed data being replicated; it cannot depend on the unknowns`);
+    let shape: Shape = SCALAR;
+    for (const a of e.args) if (a.type!.shape.length === 1) shape = a.type!.shape;
+    if (e.args.every((a) => a.type!.dep < 2))
+      this.msg(s.line, e.span, 'no argument depends on an unknown: every draw simulates from the same fixed density', undefined, 'warning');
+    this.declare(s.name, s.nameSpan, s.line, { kind: 'replicate', line: s.line });
+    this.replicates.push({ name: s.name, shape, density: e.fn, line: s.line });
+  }
+
   /** The value of a named whole-number constant used as a vector length. */
   constLength(name: string, span: Span): number {
     const sym = this.syms.get(name);
@@ -457,6 +487,9 @@ class Checker {
         this.derived.push({ name: s.name, shape: t.shape });
         return;
       }
+      case 'replicate':
+        this.replicate(s);
+        return;
     }
   }
 }
@@ -473,7 +506,11 @@ export function checkProgram(source: string, schema: DataSchema): CheckResult {
     const s = p.statement;
     if (!s) continue;
     const names: string[] =
-      s.kind === 'unknown' ? s.decls.map((d) => d.name) : s.kind === 'const' || s.kind === 'let' || s.kind === 'derive' ? [s.name] : [];
+      s.kind === 'unknown'
+        ? s.decls.map((d) => d.name)
+        : s.kind === 'const' || s.kind === 'let' || s.kind === 'derive' || s.kind === 'replicate'
+          ? [s.name]
+          : [];
     for (const n of names) if (!c.laterDecl.has(n)) c.laterDecl.set(n, s.line);
   }
   for (const p of parsed) {
@@ -521,6 +558,10 @@ export function checkProgram(source: string, schema: DataSchema): CheckResult {
     if (sym.kind === 'unknown') symbols.push({ name, kind: 'unknown', shape: sym.ref.shape, detail: `unknown, ${describe(sym.ref.shape)}`, line: sym.line });
     else if (sym.kind === 'const') symbols.push({ name, kind: 'const', shape: sym.type.shape, detail: `const, ${describe(sym.type.shape)}`, line: sym.line });
     else if (sym.kind === 'let') symbols.push({ name, kind: 'let', shape: sym.type.shape, detail: `let, ${describe(sym.type.shape)}`, line: sym.line });
+    else if (sym.kind === 'replicate') {
+      const r = c.replicates.find((x) => x.name === name);
+      symbols.push({ name, kind: 'replicate', shape: r?.shape ?? [], detail: 'replicated data (output only)', line: sym.line });
+    }
     else {
       const d = c.derived.find((x) => x.name === name);
       symbols.push({ name, kind: 'derive', shape: d?.shape ?? [], detail: 'derived quantity (output only)', line: sym.line });
@@ -535,6 +576,7 @@ export function checkProgram(source: string, schema: DataSchema): CheckResult {
     names,
     derived: c.derived,
     derivedNames,
+    replicates: c.replicates,
     constraintCounts: counts,
     tables: c.bound,
     program,

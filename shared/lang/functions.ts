@@ -30,6 +30,11 @@ export const LANGUAGE_KEYWORDS: readonly KeywordInfo[] = Object.freeze([
     example: 'constrain 0 <= share <= 1',
   },
   { name: 'derive', doc: 'A quantity computed from every draw and summarised like an unknown.', example: 'derive gain = mu[3] - mu[1]' },
+  {
+    name: 'replicate',
+    doc: 'Simulate a new copy of observed data from every draw: the right side is the density call of the likelihood term, its first argument the data replicated.',
+    example: 'replicate kg_new = ld_normal(kg, mu[field], sigma)',
+  },
 ]);
 
 export const KEYWORD_NAMES: ReadonlySet<string> = new Set(LANGUAGE_KEYWORDS.map((k) => k.name));

@@ -17,6 +17,7 @@ export type {
   LangMessage,
   NameRef,
   Program,
+  ReplicateInfo,
   Shape,
   Span,
   Statement,
@@ -39,6 +40,7 @@ export {
 } from './functions';
 export { LangError, parseLine, scan, MAX_NAME_LENGTH } from './parse';
 export { closest, editDistance } from './suggest';
+export { isLikelihoodTerm, readsDataColumn } from './term-role';
 
 /**
  * Constraint rows with data values filled in. `ast` is a checked program with its dimension

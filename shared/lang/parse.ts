@@ -517,6 +517,16 @@ export function parseLine(raw: string, line: number): ParsedLine {
       }
       case 'term':
         return { statement: { kind: 'term', line, text, expr: parseExpression(code, after, code.length, false) } };
+      case 'replicate': {
+        const a = parseAssignment(code, after, 'replicate', false);
+        if (a.expr.kind !== 'call')
+          throw new LangError(
+            a.expr.span,
+            'a replicate line names the density to simulate from, written as in the likelihood term',
+            `for example: replicate ${a.name} = ld_normal(kg, mu, sigma)`,
+          );
+        return { statement: { kind: 'replicate', line, text, name: a.name, nameSpan: a.nameSpan, expr: a.expr } };
+      }
       case 'constrain':
         return { statement: { kind: 'constrain', line, text, expr: parseExpression(code, after, code.length, true) } };
     }

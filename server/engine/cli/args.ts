@@ -3,7 +3,8 @@
  *
  *   npm run fit -- <model file> [--data name=path.csv | --data path.csv]... [--chains N]
  *       [--warmup N] [--draws N] [--seed N] [--sampler auto|rhmc|hitrun] [--json]
- *       [--draws-out file.csv] [--mode] [--export NAME]
+ *       [--draws-out file.csv] [--mode] [--export NAME] [--prior-only] [--replicates N]
+ *       [--replicates-out file.csv] [--check-stat NAME]...
  *
  * A model file ending in .ts, .mts, .js or .mjs is an ES module whose export (default `target`, or
  * --export NAME) is a factory called with the data tables; any other file is model-language source.
@@ -11,6 +12,7 @@
 import { parseArgs } from 'node:util';
 import path from 'node:path';
 import { FIT_LIMITS, SAMPLERS, type FitSettings } from '../../../shared/fit';
+import { statistic } from '../predictive/ppc';
 
 export class UsageError extends Error {
   constructor(message: string) {
@@ -33,6 +35,12 @@ Options:
   --json                 print the summary as JSON (see docs/engine.md)
   --draws-out FILE       write every draw to FILE as CSV with chain and iteration columns
   --export NAME          for a .ts/.js model module: the factory's export name (default "target")
+  --prior-only           fit the prior alone: every term line that reads a data column is dropped
+  --replicates N         simulate N data sets from the model's replicate lines (default 500 for the
+                         checks) and write them to the --replicates-out file
+  --replicates-out FILE  where --replicates writes (default: <model name>.replicates.csv)
+  --check-stat NAME      one more statistic for the predictive checks (repeatable): median, iqr,
+                         a quantile such as q0.9, or a share such as above:10 or below:0
   --help                 show this text`;
 
 export interface DataArg {
@@ -51,7 +59,18 @@ export interface CliArgs {
   drawsOut?: string;
   mode: boolean;
   help: boolean;
+  /** Fit with the likelihood terms dropped. */
+  priorOnly: boolean;
+  /** --replicates N: number of replicated data sets to simulate and write. */
+  replicates?: number;
+  /** Where the replicates are written (set whenever --replicates is given). */
+  replicatesOut?: string;
+  /** Extra statistics for the predictive checks. */
+  checkStats: string[];
 }
+
+/** Most replicated data sets one run simulates. */
+export const MAX_REPLICATES = 20000;
 
 const TABLE_NAME_RE = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
@@ -100,6 +119,10 @@ export function parseCliArgs(argv: string[]): CliArgs {
         'draws-out': { type: 'string' },
         mode: { type: 'boolean' },
         export: { type: 'string' },
+        'prior-only': { type: 'boolean' },
+        replicates: { type: 'string' },
+        'replicates-out': { type: 'string' },
+        'check-stat': { type: 'string', multiple: true },
         help: { type: 'boolean', short: 'h' },
       },
     });
@@ -110,7 +133,7 @@ export function parseCliArgs(argv: string[]): CliArgs {
   if (values.help) {
     return {
       modelPath: '', modelKind: 'program', exportName: 'target', data: [], settings: {},
-      json: false, mode: false, help: true,
+      json: false, mode: false, help: true, priorOnly: false, checkStats: [],
     };
   }
   if (positionals.length === 0) throw new UsageError('Give the model file to fit.');
@@ -146,6 +169,25 @@ export function parseCliArgs(argv: string[]): CliArgs {
     throw new UsageError('--export applies only to a .ts or .js model module.');
   }
 
+  const replicates = intOption('replicates', values.replicates, 1, MAX_REPLICATES);
+  if (values['replicates-out'] !== undefined && replicates === undefined) {
+    throw new UsageError('--replicates-out needs --replicates N (how many data sets to write).');
+  }
+  const priorOnly = values['prior-only'] ?? false;
+  if (modelKind === 'module' && (priorOnly || replicates !== undefined || values['check-stat'])) {
+    throw new UsageError('--prior-only, --replicates and --check-stat apply only to model-language programs.');
+  }
+  const checkStats = values['check-stat'] ?? [];
+  for (const s of checkStats) {
+    try {
+      statistic(s);
+    } catch (e) {
+      throw new UsageError(`--check-stat: ${(e as Error).message}.`);
+    }
+  }
+  const replicatesOut =
+    replicates === undefined ? undefined : (values['replicates-out'] ?? `${path.basename(modelPath).replace(/\.[^.]*$/, '')}.replicates.csv`);
+
   return {
     modelPath,
     modelKind,
@@ -156,5 +198,8 @@ export function parseCliArgs(argv: string[]): CliArgs {
     drawsOut: values['draws-out'],
     mode: values.mode ?? false,
     help: false,
+    priorOnly,
+    ...(replicates !== undefined ? { replicates, replicatesOut } : {}),
+    checkStats,
   };
 }

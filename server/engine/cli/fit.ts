@@ -12,6 +12,10 @@ import type { DataTables, TargetSpec } from '../types';
 import { runFit } from '../fit';
 import { parseCliArgs, USAGE, UsageError, type CliArgs } from './args';
 import { drawsCsv, summaryJson, summaryTable } from './format';
+import { checkProgram } from '../../../shared/lang/index';
+import { schemaOf } from '../compile/index';
+import { runModelChecks, type ModelChecks } from '../predictive/checks';
+import { checksJson, checksTable, replicatesCsv } from './checks-format';
 
 export interface CliIo {
   stdout(text: string): void;
@@ -81,7 +85,7 @@ function buildSpec(args: CliArgs, io: CliIo, tables: DataTables): TargetSpec {
     };
   }
   const source = new TextDecoder('utf-8').decode(readOrFail(io, args.modelPath, 'model file'));
-  return { kind: 'program', source, tables };
+  return { kind: 'program', source, tables, ...(args.priorOnly ? { priorOnly: true } : {}) };
 }
 
 /** Runs the command; returns the exit code. */
@@ -122,7 +126,34 @@ export async function main(argv: string[], io: CliIo = processIo, opts: CliOptio
       io.stderr('The maximum a posteriori search did not converge, so no mode is reported.\n');
     }
     const model = path.basename(args.modelPath);
-    io.stdout((args.json ? summaryJson(result.summary, model) : summaryTable(result.summary, model)) + '\n');
+    let checks: ModelChecks | undefined;
+    if (spec.kind === 'program') {
+      checks = runModelChecks(checkProgram(spec.source, schemaOf(spec.tables)), spec.tables, result, {
+        seed: result.summary.settings.seed,
+        replicates: args.replicates,
+        extraStats: args.checkStats,
+        kind: args.priorOnly ? 'prior' : 'posterior',
+      });
+    }
+    if (args.json) {
+      const extra = { ...(args.priorOnly ? { priorOnly: true } : {}), ...(checks ? checksJson(checks) : {}) };
+      io.stdout(summaryJson(result.summary, model, extra) + '\n');
+    } else {
+      const prior = args.priorOnly ? '\n\nPrior-only run: every term line that reads a data column was left out.' : '';
+      io.stdout(summaryTable(result.summary, model) + prior + (checks ? checksTable(checks) : '') + '\n');
+    }
+    if (args.replicatesOut && checks) {
+      if (!checks.replicated.length) {
+        io.stderr('The model has no replicate line, so no replicated data were written.\n');
+      } else {
+        try {
+          io.writeFile(args.replicatesOut, replicatesCsv(checks, result));
+        } catch (e) {
+          throw new InputError(`Cannot write the replicates to "${args.replicatesOut}": ${(e as Error).message}`);
+        }
+        if (!args.json) io.stdout(`Replicated data written to ${args.replicatesOut}.\n`);
+      }
+    }
     if (args.drawsOut) {
       try {
         io.writeFile(args.drawsOut, drawsCsv(result));

@@ -11,7 +11,7 @@ import { THRESHOLDS } from '../diagnostics/verdict';
 export const JSON_FORMAT_VERSION = 1;
 
 /** The JSON document printed by --json: the fit summary plus a format version. */
-export function summaryJson(summary: FitSummary, model?: string): string {
+export function summaryJson(summary: FitSummary, model?: string, extra: Record<string, unknown> = {}): string {
   const doc = {
     format: 'slackline-fit',
     version: JSON_FORMAT_VERSION,
@@ -37,6 +37,7 @@ export function summaryJson(summary: FitSummary, model?: string): string {
     settings: summary.settings,
     seconds: summary.seconds,
     ...(summary.mode ? { mode: summary.mode } : {}),
+    ...extra,
   };
   return JSON.stringify(doc, null, 2);
 }

@@ -11,7 +11,7 @@ import { schemaFacet } from './schema';
 
 export interface DeclaredName {
   name: string;
-  kind: 'unknown' | 'const' | 'let' | 'derive';
+  kind: 'unknown' | 'const' | 'let' | 'derive' | 'replicate';
   /** "vector of 6", "scalar", … */
   detail: string;
   line: number;
@@ -36,6 +36,7 @@ export function declaredNames(state: EditorState): { names: DeclaredName[]; tabl
       case 'const':
       case 'let':
       case 'derive':
+      case 'replicate':
         names.push({ name: statement.name, kind: statement.kind, detail: statement.kind, line: i });
         break;
       default:
@@ -106,7 +107,7 @@ export const modelCompletionSource: CompletionSource = (ctx: CompletionContext):
   }
 
   // Inside a declaration's name position nothing useful can be offered.
-  if (/^\s*(unknown|const|let|derive)\s+([A-Za-z_][A-Za-z0-9_]*(\[[0-9]*\])?\s*,\s*)*$/.test(head)) return null;
+  if (/^\s*(unknown|const|let|derive|replicate)\s+([A-Za-z_][A-Za-z0-9_]*(\[[0-9]*\])?\s*,\s*)*$/.test(head)) return null;
 
   const { names, tables } = declaredNames(ctx.state);
   const currentLine = line.number;

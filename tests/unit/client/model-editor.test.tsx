@@ -85,7 +85,7 @@ describe('ModelEditor completion', () => {
     expect(mid!.options.find((o) => o.label === 'block')?.detail).toBe('orchard · category, 4 levels');
 
     const start = await run('table orchard\nun');
-    expect(start!.options.map((o) => o.label)).toEqual(['table', 'unknown', 'const', 'let', 'term', 'constrain', 'derive']);
+    expect(start!.options.map((o) => o.label)).toEqual(['table', 'unknown', 'const', 'let', 'term', 'constrain', 'derive', 'replicate']);
     expect(start!.from).toBe('table orchard\n'.length);
 
     const tableName = await run('table or');

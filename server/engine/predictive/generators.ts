@@ -1,0 +1,105 @@
+/**
+ * Random generators for every scalar observation density of the language, for replicated data.
+ *
+ * Each generator draws one value of the density's FIRST argument (the observation) given the
+ * remaining arguments, in exactly the parameterisation of the log-density with the same language
+ * name in server/engine/densities (e.g. ld_gamma is shape–rate, ld_student_t is ν, location,
+ * scale). The variates come from the registry's @stdlib/random-base-* algorithms, fed with our own
+ * seeded stream (`prng: () => rng.uniform()`), so replicates are reproducible from a run's seed.
+ *
+ * Domains follow the densities: invalid parameters (a scale ≤ 0, a probability outside [0, 1], a
+ * non-integer number of trials, …) give NaN, as the log-density does.
+ *
+ * Not covered: ld_dirichlet and ld_multinomial (whole-vector densities).
+ */
+import stdNormal from '@stdlib/random-base-normal';
+import stdT from '@stdlib/random-base-t';
+import stdCauchy from '@stdlib/random-base-cauchy';
+import stdLaplace from '@stdlib/random-base-laplace';
+import stdLogistic from '@stdlib/random-base-logistic';
+import stdLognormal from '@stdlib/random-base-lognormal';
+import stdGamma from '@stdlib/random-base-gamma';
+import stdExponential from '@stdlib/random-base-exponential';
+import stdBeta from '@stdlib/random-base-beta';
+import stdPoisson from '@stdlib/random-base-poisson';
+import stdBinomial from '@stdlib/random-base-binomial';
+import stdBernoulli from '@stdlib/random-base-bernoulli';
+import type { Rng } from '../rng';
+
+/** Draws one observation given the density's parameters (its arguments after the first). */
+export type Generator = (...params: number[]) => number;
+
+const finite = (x: number) => x - x === 0;
+const posFinite = (x: number) => x > 0 && x !== Infinity;
+const wholeNonNeg = (x: number) => x >= 0 && x !== Infinity && Math.floor(x) === x;
+const logistic = (eta: number) => (eta >= 0 ? 1 / (1 + Math.exp(-eta)) : Math.exp(eta) / (1 + Math.exp(eta)));
+
+/**
+ * The generators of one uniform stream, keyed by the language name of the log-density they
+ * invert. `uniform` must return independent uniforms on [0, 1).
+ */
+export function makeGenerators(uniform: () => number): Readonly<Record<string, Generator>> {
+  const opts = { prng: uniform as never };
+  const normal = stdNormal.factory(opts) as (mu: number, sigma: number) => number;
+  const t = stdT.factory(opts) as (nu: number) => number;
+  const cauchy = stdCauchy.factory(opts) as (x0: number, gamma: number) => number;
+  const laplace = stdLaplace.factory(opts) as (mu: number, b: number) => number;
+  const logisticRv = stdLogistic.factory(opts) as (mu: number, s: number) => number;
+  const lognormal = stdLognormal.factory(opts) as (mu: number, sigma: number) => number;
+  const gamma = stdGamma.factory(opts) as (shape: number, rate: number) => number;
+  const exponential = stdExponential.factory(opts) as (rate: number) => number;
+  const beta = stdBeta.factory(opts) as (a: number, b: number) => number;
+  const poisson = stdPoisson.factory(opts) as (lambda: number) => number;
+  const binomial = stdBinomial.factory(opts) as (n: number, p: number) => number;
+  const bernoulli = stdBernoulli.factory(opts) as (p: number) => number;
+
+  const loc = (f: (m: number, s: number) => number) => (m: number, s: number) => (finite(m) && posFinite(s) ? f(m, s) : NaN);
+  const pois = (lambda: number) => (!(lambda >= 0) || lambda === Infinity ? NaN : lambda === 0 ? 0 : poisson(lambda));
+  const binom = (n: number, p: number) => {
+    if (!wholeNonNeg(n) || !(p >= 0 && p <= 1)) return NaN;
+    if (n === 0 || p === 0) return 0;
+    if (p === 1) return n;
+    return binomial(n, p);
+  };
+  const bern = (p: number) => (!(p >= 0 && p <= 1) ? NaN : p === 0 ? 0 : p === 1 ? 1 : bernoulli(p));
+  const g: Record<string, Generator> = {
+    // N(μ, σ)
+    ld_normal: loc(normal),
+    // μ + σ·T, T standard Student t with ν degrees of freedom
+    ld_student_t: (nu: number, mu: number, sigma: number) => (posFinite(nu) && finite(mu) && posFinite(sigma) ? mu + sigma * t(nu) : NaN),
+    ld_cauchy: loc(cauchy),
+    ld_laplace: loc(laplace),
+    ld_logistic: loc(logisticRv),
+    // exp(N(μ, σ))
+    ld_lognormal: loc(lognormal),
+    // shape α, rate β (mean α/β)
+    ld_gamma: (shape: number, rate: number) => (posFinite(shape) && posFinite(rate) ? gamma(shape, rate) : NaN),
+    // rate λ (mean 1/λ)
+    ld_exponential: (rate: number) => (posFinite(rate) ? exponential(rate) : NaN),
+    ld_beta: (a: number, b: number) => (posFinite(a) && posFinite(b) ? beta(a, b) : NaN),
+    // |N(0, σ)|
+    ld_halfnormal: (sigma: number) => (posFinite(sigma) ? Math.abs(normal(0, sigma)) : NaN),
+    ld_poisson: pois,
+    ld_poisson_lograte: (eta: number) => (eta !== eta || eta === Infinity ? NaN : pois(Math.exp(eta))),
+    ld_binomial: binom,
+    ld_binomial_logodds: (n: number, eta: number) => (eta !== eta ? NaN : binom(n, logistic(eta))),
+    ld_bernoulli: bern,
+    ld_bernoulli_logodds: (eta: number) => (eta !== eta ? NaN : bern(logistic(eta))),
+  };
+  return Object.freeze(Object.assign(Object.create(null) as Record<string, Generator>, g));
+}
+
+const cache = new WeakMap<Rng, Readonly<Record<string, Generator>>>();
+
+/** The generators fed by a seeded stream (made once per stream). */
+export function generatorsFor(rng: Rng): Readonly<Record<string, Generator>> {
+  let g = cache.get(rng);
+  if (!g) {
+    g = makeGenerators(() => rng.uniform());
+    cache.set(rng, g);
+  }
+  return g;
+}
+
+/** Language names of the densities that can be replicated. */
+export const REPLICABLE_DENSITIES: ReadonlySet<string> = new Set(Object.keys(makeGenerators(Math.random)));
