@@ -32,7 +32,6 @@ export type Generator = (...params: number[]) => number;
 const finite = (x: number) => x - x === 0;
 const posFinite = (x: number) => x > 0 && x !== Infinity;
 const wholeNonNeg = (x: number) => x >= 0 && x !== Infinity && Math.floor(x) === x;
-const logistic = (eta: number) => (eta >= 0 ? 1 / (1 + Math.exp(-eta)) : Math.exp(eta) / (1 + Math.exp(eta)));
 
 /**
  * The generators of one uniform stream, keyed by the language name of the log-density they
@@ -80,11 +79,8 @@ export function makeGenerators(uniform: () => number): Readonly<Record<string, G
     // |N(0, σ)|
     ld_halfnormal: (sigma: number) => (posFinite(sigma) ? Math.abs(normal(0, sigma)) : NaN),
     ld_poisson: pois,
-    ld_poisson_lograte: (eta: number) => (eta !== eta || eta === Infinity ? NaN : pois(Math.exp(eta))),
     ld_binomial: binom,
-    ld_binomial_logodds: (n: number, eta: number) => (eta !== eta ? NaN : binom(n, logistic(eta))),
     ld_bernoulli: bern,
-    ld_bernoulli_logodds: (eta: number) => (eta !== eta ? NaN : bern(logistic(eta))),
   };
   return Object.freeze(Object.assign(Object.create(null) as Record<string, Generator>, g));
 }
