@@ -119,25 +119,28 @@ export function authRouter(ctx: AppContext): Router {
   // address get the same answer after the same work (no account enumeration by timing).
   mount(r, ctx, routes.requestPasswordReset, async ({ body }, _req, res) => {
     afterResponse(res, async () => {
-      const [user] = await db.select().from(users).where(eq(users.email, body.email)).limit(1);
-      if (!user) return;
-      const now = clock.now();
-      // Per-account budget: a flood of requests does not become a flood of mail to one person.
-      const [recent] = await db
-        .select({ n: count() })
-        .from(passwordResets)
-        .where(and(eq(passwordResets.userId, user.id), gt(passwordResets.createdAt, new Date(now.getTime() - limits.windowMs))));
-      if ((recent?.n ?? 0) >= limits.resetRequests) return;
-      const token = newToken();
-      await db.insert(passwordResets).values({
-        id: newId(),
-        userId: user.id,
-        tokenHash: hashToken(token),
-        expiresAt: new Date(now.getTime() + RESET_TOKEN_TTL_MS),
-        createdAt: now,
+      const sent = await db.transaction(async (tx) => {
+        // The account row is locked so concurrent requests count one after another.
+        const [user] = await tx.select().from(users).where(eq(users.email, body.email)).limit(1).for('update');
+        if (!user) return null;
+        const now = clock.now();
+        // Per-account budget: a flood of requests does not become a flood of mail to one person.
+        const [recent] = await tx
+          .select({ n: count() })
+          .from(passwordResets)
+          .where(and(eq(passwordResets.userId, user.id), gt(passwordResets.createdAt, new Date(now.getTime() - limits.windowMs))));
+        if ((recent?.n ?? 0) >= limits.resetRequests) return null;
+        const token = newToken();
+        await tx.insert(passwordResets).values({
+          id: newId(),
+          userId: user.id,
+          tokenHash: hashToken(token),
+          expiresAt: new Date(now.getTime() + RESET_TOKEN_TTL_MS),
+          createdAt: now,
+        });
+        return { user, link: ctx.config.publicUrl + clientPaths.resetPassword(token) };
       });
-      const link = ctx.config.publicUrl + clientPaths.resetPassword(token);
-      await ctx.mailer.send(passwordResetMail({ to: user.email, name: user.name, link }));
+      if (sent) await ctx.mailer.send(passwordResetMail({ to: sent.user.email, name: sent.user.name, link: sent.link }));
     }, ctx, 'reset mail');
     return { ok: true as const };
   });

@@ -58,7 +58,11 @@ export function invitationsRouter(ctx: AppContext): Router {
 
   // Invitations send mail to addresses the sender chooses: budgets per client address (here),
   // per workspace and per inviter (below, counted from the stored invitations).
-  r.post(routes.createInvitation.path, limiter(ctx, { failuresOnly: false }));
+  // (a middleware, not a second route on the path: exactly POST …/invitations, nothing below it)
+  const inviteLimit = limiter(ctx, { failuresOnly: false });
+  r.use(routes.createInvitation.path, (req, res, next) =>
+    req.method === 'POST' && (req.path === '/' || req.path === '') ? inviteLimit(req, res, next) : next(),
+  );
 
   async function invitationsSince(where: ReturnType<typeof eq>, since: Date): Promise<number> {
     const [row] = await db.select({ n: count() }).from(invitations).where(and(where, gt(invitations.createdAt, since)));
