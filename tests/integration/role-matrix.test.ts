@@ -278,6 +278,12 @@ describe('role matrix', () => {
     });
   }
 
+  it('opens captured mail to anyone holding this start\'s key, and to nobody with another', async () => {
+    const anon = new TestClient(server.url);
+    expect((await anon.get(`/api/dev/mail?key=${server.config.devMailKey}`)).status).toBe(200);
+    expect((await new TestClient(server.url).get(`/api/dev/mail?key=${'k'.repeat(32)}`)).status).toBe(403);
+  });
+
   it('hides development routes in production', async () => {
     const prod = await startApiServer({ config: { production: true } });
     try {
