@@ -48,6 +48,9 @@ export function authRouter(ctx: AppContext): Router {
   const { db, lucia, clock } = ctx;
   const limits = ctx.config.accountLimits;
   const signInFailures = new FailureBudget(clock, () => limits.windowMs, () => limits.signInFailures);
+  // One "someone tried to sign up with your address" notice per address and window, so repeated
+  // attempts do not become a stream of mail to that person.
+  const signUpNotices = new FailureBudget(clock, () => limits.windowMs, () => 1);
   // One budget per route and client address.
   r.use(routes.signIn.path, limiter(ctx, { failuresOnly: true }));
   r.use(routes.signUp.path, limiter(ctx, { failuresOnly: false }));
@@ -57,6 +60,8 @@ export function authRouter(ctx: AppContext): Router {
   mount(r, ctx, routes.signUp, async ({ body }, req, res) => {
     const alreadyTaken = () => {
       // Tell the owner of the address, after answering (the answer does not wait for the mail).
+      if (signUpNotices.exhausted(body.email)) return conflict('An account with this e-mail already exists', { email: 'Already registered' });
+      signUpNotices.fail(body.email);
       afterResponse(res, async () => {
         const [owner] = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.email, body.email)).limit(1);
         if (!owner) return;

@@ -220,6 +220,10 @@ describe('5. no account enumeration', () => {
     const mail = await server.mail.waitFor(owner.email, { subject: /tried to create/i });
     expect(mail.text).toContain('already has one');
     expect(mail.text).toContain(`${server.url}/forgot-password`);
+    // Repeated attempts do not become a stream of mail: one notice per address and window.
+    await server.client().post('/api/auth/sign-up', { email: owner.email, password: 'a different passphrase', name: 'Third' });
+    await afterResponseSettled();
+    expect((await server.mail.all()).filter((m) => m.to.includes(owner.email) && /tried to create/i.test(m.subject))).toHaveLength(1);
   });
 });
 
