@@ -10,14 +10,14 @@ import type { AppContext, AppDeps } from './context';
 import { createLucia } from './auth/lucia';
 import { sessionMiddleware } from './auth/session';
 import { apiNotFound, errorHandler } from './http/error-handler';
-import { originCheck, securityHeaders } from './http/security';
+import { hostCheck, originCheck, securityHeaders } from './http/security';
 import { authRouter } from './routes/auth';
 import { workspacesRouter } from './routes/workspaces';
 import { membersRouter } from './routes/members';
 import { invitationsRouter } from './routes/invitations';
 import { notebooksRouter } from './routes/notebooks';
 import { shareLinksRouter } from './routes/share-links';
-import { systemRouter } from './routes/system';
+import { devMailRouter, systemRouter } from './routes/system';
 import { cellsRouter } from './routes/cells';
 import { datasetsRouter } from './routes/datasets';
 import { compileRouter } from './routes/compile';
@@ -34,6 +34,9 @@ export function createApp(deps: AppDeps): Express {
   app.disable('x-powered-by');
   app.set('trust proxy', config.trustProxy);
   app.use(securityHeaders(config));
+  // Every request must name one of this site's hosts (DNS rebinding); health probes excepted.
+  const checkHost = hostCheck(config);
+  app.use((req, res, next) => (req.method === 'GET' && req.path === '/api/health' ? next() : checkHost(req, res, next)));
 
   app.use('/api', express.json({ limit: config.bodyLimit, strict: true }));
   app.use('/api', (_req, res, next) => {
@@ -41,9 +44,10 @@ export function createApp(deps: AppDeps): Express {
     next();
   });
   app.use('/api', originCheck(config));
-  // Health and dev mail need no session: health must answer even when sessions cannot be read.
+  // Health needs no session: it must answer even when sessions cannot be read.
   app.use(systemRouter(ctx));
   app.use('/api', sessionMiddleware(ctx));
+  app.use(devMailRouter(ctx));
 
   // One router per resource; each registers full /api/... paths from the shared route table.
   app.use(authRouter(ctx));
@@ -62,13 +66,16 @@ export function createApp(deps: AppDeps): Express {
 
   if (config.clientDir) {
     const dir = path.resolve(config.clientDir);
-    const indexHtml = path.join(dir, 'index.html');
-    if (!fs.existsSync(indexHtml)) throw new Error(`no built client at ${dir}: run \`npx vite build\` first`);
+    if (!fs.existsSync(path.join(dir, 'index.html'))) throw new Error(`no built client at ${dir}: run \`npx vite build\` first`);
     app.use(express.static(dir, { index: false, maxAge: '1h' }));
-    // Single-page app: every other GET renders the client, which routes on its own.
-    app.get('/{*splat}', (_req, res) => {
+    // Single-page app: every other GET renders the client, which routes on its own. The file is
+    // named relative to its root: `send` refuses dot segments only below the root, so a checkout
+    // under a folder like ~/.projects/ still serves its pages.
+    app.get('/{*splat}', (_req, res, next) => {
       res.set('Cache-Control', 'no-cache');
-      res.sendFile(indexHtml);
+      res.sendFile('index.html', { root: dir }, (err) => {
+        if (err && !res.headersSent) next(err);
+      });
     });
   }
 

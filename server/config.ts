@@ -1,10 +1,16 @@
 /** Application configuration, read from the environment by index.ts and built directly by tests. */
+import { randomBytes } from 'node:crypto';
+
 export interface AppConfig {
   /** true in production: hides development routes (mail capture) and error details. */
   production: boolean;
   /** Public base URL used in links inside e-mails, e.g. http://127.0.0.1:3000 */
   publicUrl: string;
-  /** Origins allowed to make state-changing requests besides the request's own host. */
+  /**
+   * Further origins this site answers as besides publicUrl: their hosts are accepted in the Host
+   * header and they may send state-changing requests (Origin check). A local start without
+   * PUBLIC_URL lists http://localhost:PORT, http://127.0.0.1:PORT and Vite's dev server here.
+   */
   allowedOrigins: string[];
   /** Express 'trust proxy' setting: false, true, a hop count or a list of addresses. */
   trustProxy: boolean | number | string;
@@ -12,6 +18,22 @@ export interface AppConfig {
   bodyLimit: string;
   /** Sign-in / sign-up / reset attempts allowed per client address per window. */
   authRateLimit: { windowMs: number; limit: number };
+  /**
+   * Failure budgets per account and per workspace (see README, Security): failed sign-ins per
+   * account, reset requests per account, invitations sent per workspace and per inviter.
+   */
+  accountLimits: {
+    windowMs: number;
+    signInFailures: number;
+    resetRequests: number;
+    invitationsPerWorkspace: number;
+    invitationsPerInviter: number;
+  };
+  /**
+   * Per-start secret that opens the captured-mail page and its API (/dev/mail?key=…); printed by
+   * `npm start`. null in production, where the capture does not exist.
+   */
+  devMailKey: string | null;
   /** Directory of the built client to serve with SPA fallback, or null for API only. */
   clientDir: string | null;
   /** From address of outgoing mail. */
@@ -29,6 +51,8 @@ export const defaultConfig = (overrides: Partial<AppConfig> = {}): AppConfig => 
   trustProxy: false,
   bodyLimit: '100kb',
   authRateLimit: { windowMs: 15 * 60_000, limit: 30 },
+  accountLimits: { windowMs: 15 * 60_000, signInFailures: 10, resetRequests: 5, invitationsPerWorkspace: 20, invitationsPerInviter: 20 },
+  devMailKey: overrides.production ? null : randomBytes(24).toString('base64url'),
   clientDir: null,
   mailFrom: 'Slackline <no-reply@slackline.invalid>',
   checkResponses: false,
@@ -43,12 +67,32 @@ function parseTrustProxy(v: string | undefined): AppConfig['trustProxy'] {
   return v;
 }
 
+const num = (v: string | undefined, fallback: number) => (v !== undefined && v !== '' && Number.isFinite(Number(v)) ? Number(v) : fallback);
+
+/**
+ * The origins a local start answers as when PUBLIC_URL is not set: both loopback names on PORT
+ * and Vite's dev server (`npm run dev` proxies /api with the browser's Host and Origin).
+ */
+export function localOrigins(port: string): string[] {
+  return [`http://localhost:${port}`, `http://127.0.0.1:${port}`, 'http://localhost:5173', 'http://127.0.0.1:5173'];
+}
+
 export function configFromEnv(env: NodeJS.ProcessEnv, clientDir: string | null): AppConfig {
   const port = env.PORT ?? '3000';
+  const production = env.NODE_ENV === 'production';
+  const extra = (env.ALLOWED_ORIGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean);
+  const d = defaultConfig({ production });
   return defaultConfig({
-    production: env.NODE_ENV === 'production',
+    production,
     publicUrl: (env.PUBLIC_URL ?? `http://127.0.0.1:${port}`).replace(/\/+$/, ''),
-    allowedOrigins: (env.ALLOWED_ORIGINS ?? '').split(',').map((s) => s.trim()).filter(Boolean),
+    allowedOrigins: env.PUBLIC_URL ? extra : [...localOrigins(port), ...extra],
+    accountLimits: {
+      windowMs: num(env.ACCOUNT_LIMIT_WINDOW_MS, d.accountLimits.windowMs),
+      signInFailures: num(env.SIGN_IN_FAILURE_LIMIT, d.accountLimits.signInFailures),
+      resetRequests: num(env.RESET_REQUEST_LIMIT, d.accountLimits.resetRequests),
+      invitationsPerWorkspace: num(env.INVITATION_LIMIT, d.accountLimits.invitationsPerWorkspace),
+      invitationsPerInviter: num(env.INVITATION_LIMIT, d.accountLimits.invitationsPerInviter),
+    },
     trustProxy: parseTrustProxy(env.TRUST_PROXY),
     bodyLimit: env.BODY_LIMIT ?? '100kb',
     authRateLimit: {

@@ -28,10 +28,12 @@ async function main() {
   let capture: CaptureServer | null = null;
   let smtpUrl = env.SMTP_URL;
   if (!smtpUrl) {
-    if (config.production) throw new Error('SMTP_URL is required in production');
+    // Production never runs the capture (it would hold every reset and invitation link).
+    if (config.production) throw new Error('SMTP_URL is required in production: the local mail capture does not run there');
     capture = await startCaptureServer(handle.db, Number(env.SMTP_CAPTURE_PORT ?? 0));
     smtpUrl = capture.url;
-    console.log(`[slackline] mail capture on ${capture.url}; read it at ${config.publicUrl}/dev/mail`);
+    // The key is new on every start and is the only way in without signing in (README, Security).
+    console.log(`[slackline] mail capture on ${capture.url}; read it at ${config.publicUrl}/dev/mail?key=${config.devMailKey}`);
   }
   const mailer = createSmtpMailer(smtpUrl, config.mailFrom);
   const app = createApp({ db: handle.db, mailer, clock: systemClock, config, pingDb: () => pingDb(handle) });

@@ -2,7 +2,8 @@
  * The one authorization middleware. Every API route passes through it with the access level of
  * its entry in the shared route table:
  *  - 'public'       anyone
- *  - 'dev'          anyone outside production; 404 in production
+ *  - 'dev'          outside production only (404 in production); the route itself asks for the
+ *                   per-start key or a session (server/routes/system.ts)
  *  - 'signed-in'    a valid session (401 otherwise)
  *  - a role         a session (401) AND membership of :workspaceId (404 for non-members, so a
  *                   workspace's existence is not revealed) with at least that role (403)

@@ -14,6 +14,17 @@ export const DEMO_USER = {
   name: 'Demo Analyst',
 } as const;
 
+/**
+ * The demo account's password is published (README, start log), so a production database gets it
+ * only when asked for by name: NODE_ENV=production needs SEED_DEMO=true. Elsewhere SEED_DEMO=false
+ * skips it.
+ */
+export function shouldSeedDemo(env: NodeJS.ProcessEnv): boolean {
+  if (env.SEED_DEMO === 'true') return true;
+  if (env.SEED_DEMO === 'false') return false;
+  return env.NODE_ENV !== 'production';
+}
+
 export const DEMO_WORKSPACE = 'Alder Creek sediment survey';
 export const DEMO_NOTEBOOK = 'Where does the fine sediment come from?';
 

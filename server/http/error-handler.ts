@@ -19,6 +19,7 @@ function toHttpError(err: unknown): HttpError {
     return new HttpError(415, 'bad_request', 'Unsupported body encoding');
   }
   const status = e?.status ?? e?.statusCode;
+  if (status === 404) return new HttpError(404, 'not_found', e.message ?? 'Not found');
   if (typeof status === 'number' && status >= 400 && status < 500) {
     return new HttpError(status, 'bad_request', e.message ?? 'Bad request');
   }

@@ -1,7 +1,7 @@
 /** Accounts: sign up, sign in, sign out, me, password reset by e-mail. */
 import { Router, type RequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import { and, eq, gt, isNull } from 'drizzle-orm';
+import { and, count, eq, gt, isNull } from 'drizzle-orm';
 import { routes, clientPaths } from '../../shared/api/routes';
 import type { User } from '../../shared/api/auth';
 import type { AppContext } from '../context';
@@ -12,7 +12,9 @@ import { hashPassword, verifyDummy, verifyPassword } from '../auth/password';
 import { clearSessionCookie, setSessionCookie } from '../auth/session';
 import { hashToken, newId, newToken } from '../lib/ids';
 import { affectedRows, isDuplicateKey } from '../lib/audit';
-import { passwordResetMail } from '../mail/templates';
+import { passwordResetMail, signUpAttemptMail } from '../mail/templates';
+import { FailureBudget } from '../auth/limits';
+import { afterResponse } from '../http/after-response';
 
 export const RESET_TOKEN_TTL_MS = 60 * 60_000;
 
@@ -23,10 +25,17 @@ export const toUser = (u: { id: string; email: string; name: string; createdAt: 
   createdAt: u.createdAt.toISOString(),
 });
 
-function limiter(ctx: AppContext): RequestHandler {
+/**
+ * Per client address and route. `failuresOnly` counts failed answers only (status ≥ 400), so people
+ * who sign in correctly do not use up the budget of their office's shared address; once it is used
+ * up every attempt from the address is refused until the window ends. Routes that create accounts
+ * or send mail count every request.
+ */
+export function limiter(ctx: AppContext, opts: { failuresOnly: boolean }): RequestHandler {
   return rateLimit({
     windowMs: ctx.config.authRateLimit.windowMs,
     limit: ctx.config.authRateLimit.limit,
+    skipSuccessfulRequests: opts.failuresOnly,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     handler: (_req, _res, next) =>
@@ -37,20 +46,40 @@ function limiter(ctx: AppContext): RequestHandler {
 export function authRouter(ctx: AppContext): Router {
   const r = Router();
   const { db, lucia, clock } = ctx;
+  const limits = ctx.config.accountLimits;
+  const signInFailures = new FailureBudget(clock, () => limits.windowMs, () => limits.signInFailures);
+  // One "someone tried to sign up with your address" notice per address and window, so repeated
+  // attempts do not become a stream of mail to that person.
+  const signUpNotices = new FailureBudget(clock, () => limits.windowMs, () => 1);
   // One budget per route and client address.
-  r.use(routes.signIn.path, limiter(ctx));
-  r.use(routes.signUp.path, limiter(ctx));
-  r.use(routes.requestPasswordReset.path, limiter(ctx));
-  r.use(routes.confirmPasswordReset.path, limiter(ctx));
+  r.use(routes.signIn.path, limiter(ctx, { failuresOnly: true }));
+  r.use(routes.signUp.path, limiter(ctx, { failuresOnly: false }));
+  r.use(routes.requestPasswordReset.path, limiter(ctx, { failuresOnly: false }));
+  r.use(routes.confirmPasswordReset.path, limiter(ctx, { failuresOnly: true }));
 
   mount(r, ctx, routes.signUp, async ({ body }, req, res) => {
+    const alreadyTaken = () => {
+      // Tell the owner of the address, after answering (the answer does not wait for the mail).
+      if (signUpNotices.exhausted(body.email)) return conflict('An account with this e-mail already exists', { email: 'Already registered' });
+      signUpNotices.fail(body.email);
+      afterResponse(res, async () => {
+        const [owner] = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.email, body.email)).limit(1);
+        if (!owner) return;
+        await ctx.mailer.send(signUpAttemptMail({
+          to: owner.email, name: owner.name,
+          signInLink: ctx.config.publicUrl + '/sign-in',
+          resetLink: ctx.config.publicUrl + '/forgot-password',
+        }));
+      }, ctx, 'sign-up notice');
+      return conflict('An account with this e-mail already exists', { email: 'Already registered' });
+    };
     const [existing] = await db.select({ id: users.id }).from(users).where(eq(users.email, body.email)).limit(1);
-    if (existing) throw conflict('An account with this e-mail already exists', { email: 'Already registered' });
+    if (existing) throw alreadyTaken();
     const user = { id: newId(), email: body.email, name: body.name, createdAt: clock.now() };
     try {
       await db.insert(users).values({ ...user, passwordHash: await hashPassword(body.password) });
     } catch (err) {
-      if (isDuplicateKey(err)) throw conflict('An account with this e-mail already exists', { email: 'Already registered' });
+      if (isDuplicateKey(err)) throw alreadyTaken();
       throw err;
     }
     if (req.sessionId) await lucia.invalidateSession(req.sessionId);
@@ -60,14 +89,21 @@ export function authRouter(ctx: AppContext): Router {
   });
 
   mount(r, ctx, routes.signIn, async ({ body }, req, res) => {
+    // Past the account's failure budget nothing is checked, so a right guess looks like a wrong one.
+    if (signInFailures.exhausted(body.email)) {
+      throw new HttpError(429, 'rate_limited', 'Too many failed sign-ins for this account; wait a few minutes, or reset the password by e-mail');
+    }
     const [user] = await db.select().from(users).where(eq(users.email, body.email)).limit(1);
     if (!user) {
       await verifyDummy(body.password);
+      signInFailures.fail(body.email);
       throw new HttpError(401, 'invalid_credentials', 'E-mail or password is wrong');
     }
     if (!(await verifyPassword(user.passwordHash, body.password))) {
+      signInFailures.fail(body.email);
       throw new HttpError(401, 'invalid_credentials', 'E-mail or password is wrong');
     }
+    signInFailures.clear(body.email);
     if (req.sessionId) await lucia.invalidateSession(req.sessionId);
     const session = await lucia.createSession(user.id, {});
     setSessionCookie(req, res, session.id, session.expiresAt);
@@ -84,26 +120,33 @@ export function authRouter(ctx: AppContext): Router {
     return { user: toUser(req.user) };
   });
 
-  mount(r, ctx, routes.requestPasswordReset, async ({ body }) => {
-    const [user] = await db.select().from(users).where(eq(users.email, body.email)).limit(1);
-    if (user) {
-      const token = newToken();
-      const now = clock.now();
-      await db.insert(passwordResets).values({
-        id: newId(),
-        userId: user.id,
-        tokenHash: hashToken(token),
-        expiresAt: new Date(now.getTime() + RESET_TOKEN_TTL_MS),
-        createdAt: now,
+  // Everything after validation happens once the answer has gone out: a known and an unknown
+  // address get the same answer after the same work (no account enumeration by timing).
+  mount(r, ctx, routes.requestPasswordReset, async ({ body }, _req, res) => {
+    afterResponse(res, async () => {
+      const sent = await db.transaction(async (tx) => {
+        // The account row is locked so concurrent requests count one after another.
+        const [user] = await tx.select().from(users).where(eq(users.email, body.email)).limit(1).for('update');
+        if (!user) return null;
+        const now = clock.now();
+        // Per-account budget: a flood of requests does not become a flood of mail to one person.
+        const [recent] = await tx
+          .select({ n: count() })
+          .from(passwordResets)
+          .where(and(eq(passwordResets.userId, user.id), gt(passwordResets.createdAt, new Date(now.getTime() - limits.windowMs))));
+        if ((recent?.n ?? 0) >= limits.resetRequests) return null;
+        const token = newToken();
+        await tx.insert(passwordResets).values({
+          id: newId(),
+          userId: user.id,
+          tokenHash: hashToken(token),
+          expiresAt: new Date(now.getTime() + RESET_TOKEN_TTL_MS),
+          createdAt: now,
+        });
+        return { user, link: ctx.config.publicUrl + clientPaths.resetPassword(token) };
       });
-      const link = ctx.config.publicUrl + clientPaths.resetPassword(token);
-      try {
-        await ctx.mailer.send(passwordResetMail({ to: user.email, name: user.name, link }));
-      } catch (err) {
-        // The answer is the same either way (no account enumeration); the operator sees the log.
-        if (ctx.config.logErrors) console.error('[slackline] could not send reset mail:', err);
-      }
-    }
+      if (sent) await ctx.mailer.send(passwordResetMail({ to: sent.user.email, name: sent.user.name, link: sent.link }));
+    }, ctx, 'reset mail');
     return { ok: true as const };
   });
 
@@ -133,6 +176,9 @@ export function authRouter(ctx: AppContext): Router {
     });
     if (!userId) throw new HttpError(400, 'invalid_token', 'This reset link is unknown, already used or expired; ask for a new one', { token: 'Invalid or expired' });
     await lucia.invalidateUserSessions(userId);
+    // Whoever could read the mail owns the account: the sign-in lock is lifted for them.
+    const [u] = await db.select({ email: users.email }).from(users).where(eq(users.id, userId));
+    if (u) signInFailures.clear(u.email);
   });
 
   return r;

@@ -43,7 +43,8 @@ export function datasetsRouter(ctx: AppContext): Router {
     const share = req.share!;
     if (!(await datasetInNotebook(db, share.workspaceId, share.notebookId, params.datasetId))) throw notFound('Dataset not found');
     const d = await findDataset(db, share.workspaceId, params.datasetId);
-    return { dataset: toDataset(d), rows: previewRows(d) };
+    const { workspaceId: _internal, ...dataset } = toDataset(d);
+    return { dataset, rows: previewRows(d) };
   });
 
   return r;

@@ -5,7 +5,7 @@
  * A pending invitation to the same address is replaced by a new one.
  */
 import { Router } from 'express';
-import { and, eq, gt, isNull } from 'drizzle-orm';
+import { and, count, eq, gt, isNull } from 'drizzle-orm';
 import { routes, clientPaths } from '../../shared/api/routes';
 import type { Invitation } from '../../shared/api/workspaces';
 import type { AppContext } from '../context';
@@ -16,6 +16,7 @@ import { audit } from '../lib/audit';
 import { hashToken, newId, newToken } from '../lib/ids';
 import { invitationMail } from '../mail/templates';
 import { toWorkspace } from './workspaces';
+import { limiter } from './auth';
 
 export const INVITATION_TTL_MS = 7 * 24 * 60 * 60_000;
 
@@ -55,9 +56,30 @@ export function invitationsRouter(ctx: AppContext): Router {
     return { invitations: rows.map((x) => toInvitation(x.inv, x.inviterName)) };
   });
 
+  // Invitations send mail to addresses the sender chooses: budgets per client address (here),
+  // per workspace and per inviter (below, counted from the stored invitations).
+  // (a middleware, not a second route on the path: exactly POST …/invitations, nothing below it)
+  const inviteLimit = limiter(ctx, { failuresOnly: false });
+  r.use(routes.createInvitation.path, (req, res, next) =>
+    req.method === 'POST' && (req.path === '/' || req.path === '') ? inviteLimit(req, res, next) : next(),
+  );
+
+  async function invitationsSince(where: ReturnType<typeof eq>, since: Date): Promise<number> {
+    const [row] = await db.select({ n: count() }).from(invitations).where(and(where, gt(invitations.createdAt, since)));
+    return row?.n ?? 0;
+  }
+
   mount(r, ctx, routes.createInvitation, async ({ body }, req) => {
     const ws = req.workspace!;
     const now = clock.now();
+    const { windowMs, invitationsPerWorkspace, invitationsPerInviter } = ctx.config.accountLimits;
+    const since = new Date(now.getTime() - windowMs);
+    if (
+      (await invitationsSince(eq(invitations.workspaceId, ws.id), since)) >= invitationsPerWorkspace ||
+      (await invitationsSince(eq(invitations.invitedBy, req.user!.id), since)) >= invitationsPerInviter
+    ) {
+      throw new HttpError(429, 'rate_limited', 'Too many invitations sent recently; wait a few minutes and try again');
+    }
     const [already] = await db
       .select({ userId: users.id })
       .from(memberships)

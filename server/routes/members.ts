@@ -6,12 +6,13 @@
 import { Router } from 'express';
 import { and, eq } from 'drizzle-orm';
 import { routes } from '../../shared/api/routes';
-import type { Role } from '../../shared/api/common';
+import { roleAtLeast, type Role } from '../../shared/api/common';
 import type { AppContext } from '../context';
 import { memberships, users } from '../db/schema';
 import { mount } from '../http/route';
 import { HttpError, notFound } from '../http/errors';
 import { audit, type Tx } from '../lib/audit';
+import { revokeLinksOfCreator } from './share-links';
 
 const lastOwner = (what: string) =>
   new HttpError(409, 'last_owner', `The last owner cannot ${what}; make another member owner first`);
@@ -53,6 +54,10 @@ export function membersRouter(ctx: AppContext): Router {
         workspaceId, actorId: req.user!.id, action: 'member.role_changed', targetType: 'member',
         targetId: params.userId, detail: { from: target.role, to: body.role }, at: now,
       });
+      // Below editor one cannot make share links, so the ones already made stop working too.
+      if (!roleAtLeast(body.role, 'editor')) {
+        await revokeLinksOfCreator(tx, { workspaceId, creatorId: params.userId, actorId: req.user!.id, reason: 'creator_demoted', at: now });
+      }
     });
     const [m] = await db
       .select({ userId: users.id, email: users.email, name: users.name, role: memberships.role, joinedAt: memberships.createdAt })
@@ -75,6 +80,7 @@ export function membersRouter(ctx: AppContext): Router {
         workspaceId, actorId, action: self ? 'member.left' : 'member.removed', targetType: 'member',
         targetId: userId, detail: { role: target.role as Role }, at: clock.now(),
       });
+      await revokeLinksOfCreator(tx, { workspaceId, creatorId: userId, actorId, reason: self ? 'creator_left' : 'creator_removed', at: clock.now() });
     });
   }
 

@@ -7,12 +7,35 @@ import { and, desc, eq, isNull } from 'drizzle-orm';
 import { routes, clientPaths } from '../../shared/api/routes';
 import type { ShareLink } from '../../shared/api/notebooks';
 import type { AppContext } from '../context';
-import { shareLinks, users, workspaces } from '../db/schema';
+import { notebooks, shareLinks, users, workspaces } from '../db/schema';
 import { mount } from '../http/route';
 import { badRequest, notFound } from '../http/errors';
-import { audit } from '../lib/audit';
+import { audit, type Tx } from '../lib/audit';
 import { hashToken, newId, newToken } from '../lib/ids';
 import { findNotebook, notebookCells, toNotebook } from './notebooks';
+
+/**
+ * A share link speaks for its creator: when the creator loses the right to make links (falls
+ * below editor) or leaves the workspace, their live links are revoked, one audit row each.
+ */
+export async function revokeLinksOfCreator(
+  tx: Tx,
+  p: { workspaceId: string; creatorId: string; actorId: string; reason: 'creator_demoted' | 'creator_removed' | 'creator_left'; at: Date },
+): Promise<number> {
+  const live = await tx
+    .select({ id: shareLinks.id, notebookId: shareLinks.notebookId })
+    .from(shareLinks)
+    .where(and(eq(shareLinks.workspaceId, p.workspaceId), eq(shareLinks.createdBy, p.creatorId), isNull(shareLinks.revokedAt)))
+    .for('update');
+  for (const link of live) {
+    await tx.update(shareLinks).set({ revokedAt: p.at }).where(and(eq(shareLinks.workspaceId, p.workspaceId), eq(shareLinks.id, link.id)));
+    await audit(tx, {
+      workspaceId: p.workspaceId, actorId: p.actorId, action: 'share_link.revoked', targetType: 'share_link',
+      targetId: link.id, detail: { notebookId: link.notebookId, reason: p.reason, creatorId: p.creatorId }, at: p.at,
+    });
+  }
+  return live.length;
+}
 
 export function shareLinksRouter(ctx: AppContext): Router {
   const r = Router();
@@ -39,6 +62,20 @@ export function shareLinksRouter(ctx: AppContext): Router {
       .orderBy(desc(shareLinks.createdAt), shareLinks.id);
     const now = clock.now();
     return { links: rows.map((x) => toLink(x.link, x.creatorName, now)) };
+  });
+
+  mount(r, ctx, routes.listWorkspaceShareLinks, async (_v, req) => {
+    const ws = req.workspace!;
+    const rows = await db
+      .select({ link: shareLinks, creatorName: users.name, notebookTitle: notebooks.title })
+      .from(shareLinks)
+      .innerJoin(notebooks, and(eq(notebooks.workspaceId, shareLinks.workspaceId), eq(notebooks.id, shareLinks.notebookId)))
+      .leftJoin(users, eq(users.id, shareLinks.createdBy))
+      .where(eq(shareLinks.workspaceId, ws.id))
+      .orderBy(desc(shareLinks.createdAt), shareLinks.id)
+      .limit(500);
+    const now = clock.now();
+    return { links: rows.map((x) => ({ ...toLink(x.link, x.creatorName, now), notebookTitle: x.notebookTitle })) };
   });
 
   mount(r, ctx, routes.createShareLink, async ({ params, body }, req) => {

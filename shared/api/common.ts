@@ -40,19 +40,58 @@ export const emailSchema = z
   .max(254, 'At most 254 characters')
   .pipe(z.email({ error: 'Not a valid e-mail address' }));
 
+/**
+ * The most common passwords of 10 or more characters (shorter ones fail the length rule anyway),
+ * as they top the published lists of leaked passwords (common practice; this short list is
+ * written from memory, lower-cased, compared after lower-casing).
+ */
+const COMMON_PASSWORDS = new Set([
+  '1234567890', '0123456789', '0987654321', '12345678910', '123456789a', 'a123456789', '1234567890a',
+  '1q2w3e4r5t', '1q2w3e4r5t6y', 'q1w2e3r4t5', 'qwertyuiop', 'qwerty1234', 'qwerty12345', 'qwerty123456',
+  'asdfghjkl1', 'asdfghjkl;', 'zxcvbnm123', '1qaz2wsx3edc', 'qazwsxedc123', 'password12', 'password123',
+  'password1234', 'password12345', 'passw0rd12', 'p@ssw0rd123', 'iloveyou12', 'iloveyou123', 'letmein123',
+  'welcome123', 'welcome1234', 'football123', 'baseball123', 'sunshine12', 'sunshine123', 'princess12',
+  'princess123', 'starwars123', 'dragon1234', 'monkey1234', 'master1234', 'superman123', 'trustno1234',
+  'administrator', 'changeme123', 'abcdefghij', 'abcdefghijk', 'abcd123456', 'abc1234567', 'slackline1',
+  'slackline123', 'slackline-demo',
+]);
+
+/** Why a new password is too weak, or null when it is acceptable (the rules of passwordSchema). */
+export function passwordProblem(pw: string): string | null {
+  if (pw.length < 10) return 'At least 10 characters';
+  if (pw.trim() === '') return 'Not only spaces';
+  const distinct = new Set(pw.toLowerCase()).size;
+  if (distinct < 4) return 'Use more different characters (at least 4)';
+  if (COMMON_PASSWORDS.has(pw.toLowerCase())) return 'This is one of the most common passwords; choose another';
+  // A straight run such as "abcdefghijkl" or "9876543210" (each character one step from the last).
+  const codes = [...pw.toLowerCase()].map((c) => c.codePointAt(0)!);
+  const steps = new Set(codes.slice(1).map((c, i) => c - codes[i]));
+  if (steps.size === 1 && (steps.has(1) || steps.has(-1))) return 'Not a run of consecutive characters';
+  return null;
+}
+
+/** New passwords: 10–256 characters, and not one of the easy guesses passwordProblem names. */
 export const passwordSchema = z
   .string({ error: 'Required' })
-  .min(10, 'At least 10 characters')
-  .max(256, 'At most 256 characters');
+  .max(256, 'At most 256 characters')
+  .superRefine((pw, ctx) => {
+    const problem = passwordProblem(pw);
+    if (problem) ctx.addIssue({ code: 'custom', message: problem });
+  });
 
-/** Display names of people, workspaces and notebooks: stored verbatim (trimmed), returned as data. */
+/**
+ * Display names of people, workspaces and notebooks: stored verbatim (trimmed), returned as data.
+ * No control characters at all (line breaks and tabs included: names reach plain-text mail, where
+ * a line break would let a name write lines of its own), nor Unicode line/paragraph separators.
+ */
+export const NAME_CONTROL_RE = /[\u0000-\u001F\u007F-\u009F\u2028\u2029]/;
 export const nameSchema = (max = 120) =>
   z
     .string({ error: 'Required' })
     .trim()
     .min(1, 'Required')
     .max(max, `At most ${max} characters`)
-    .refine((s) => !/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(s), 'Control characters are not allowed');
+    .refine((s) => !NAME_CONTROL_RE.test(s), 'Line breaks, tabs and other control characters are not allowed');
 
 /** Error codes the API may answer with. New codes may be added; clients treat unknown codes as generic. */
 export const ERROR_CODES = [

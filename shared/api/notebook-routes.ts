@@ -154,6 +154,6 @@ export const notebookRoutes = {
   sharedDataset: {
     method: 'GET', path: '/api/share/:token/datasets/:datasetId', access: 'share-token', status: 200,
     purpose: 'Preview of a dataset shown by a data cell of the shared notebook',
-    params: shareDataset, response: nb.datasetPreviewResponse,
+    params: shareDataset, response: nb.sharedDatasetPreviewResponse,
   },
 } as const satisfies Record<string, RouteDef>;

@@ -221,6 +221,8 @@ export const datasetPreviewResponse = z.object({
   rows: z.array(z.array(previewValueSchema)),
 });
 export type DatasetPreviewResponse = z.infer<typeof datasetPreviewResponse>;
+/** What a share-link holder sees of a dataset: no internal workspace id (as for the notebook). */
+export const sharedDatasetPreviewResponse = datasetPreviewResponse.extend({ dataset: datasetSchema.omit({ workspaceId: true }) });
 
 export const datasetParams = z.strictObject({ workspaceId: nbIdSchema, datasetId: nbIdSchema });
 /** Multipart fields accompanying the uploaded `file`. */

@@ -77,6 +77,11 @@ export type ShareLink = z.infer<typeof shareLinkSchema>;
 export const shareLinkListResponse = z.object({ links: z.array(shareLinkSchema) });
 export type ShareLinkListResponse = z.infer<typeof shareLinkListResponse>;
 
+/** Every share link of a workspace, for its owners: each with its notebook's title. */
+export const workspaceShareLinkSchema = shareLinkSchema.extend({ notebookTitle: z.string() });
+export type WorkspaceShareLink = z.infer<typeof workspaceShareLinkSchema>;
+export const workspaceShareLinkListResponse = z.object({ links: z.array(workspaceShareLinkSchema) });
+
 /** Expiry as an ISO timestamp in the future, or omitted/null for no expiry. */
 export const createShareLinkBody = z.strictObject({
   expiresAt: z.iso.datetime({ offset: true, error: 'Must be an ISO date-time' }).nullable().optional(),

@@ -9,7 +9,7 @@
  *  - a Role       signed-in member of the workspace in the path with at least this role
  *                 (owner > editor > reviewer > viewer); non-members get 404 (the workspace is not revealed)
  *  - 'share-token' anyone holding a valid share-link token (read-only, that one notebook)
- *  - 'dev'        development and test only; 404 in production
+ *  - 'dev'        development and test only (the handler asks for the per-start key); 404 in production
  */
 import { z } from 'zod';
 import { okSchema, type Role } from './common';
@@ -116,17 +116,17 @@ export const routes = {
   },
   changeRole: {
     method: 'PATCH', path: '/api/workspaces/:workspaceId/members/:userId', access: 'owner', status: 200,
-    purpose: 'Change a member\'s role (the last owner cannot be demoted)',
+    purpose: 'Change a member\'s role (the last owner cannot be demoted); below editor, their share links are revoked',
     params: ws.memberParams, body: ws.changeRoleBody, response: ws.memberResponse,
   },
   removeMember: {
     method: 'DELETE', path: '/api/workspaces/:workspaceId/members/:userId', access: 'owner', status: 204,
-    purpose: 'Remove a member (the last owner cannot be removed)',
+    purpose: 'Remove a member (the last owner cannot be removed); their share links are revoked',
     params: ws.memberParams,
   },
   leaveWorkspace: {
     method: 'POST', path: '/api/workspaces/:workspaceId/leave', access: 'viewer', status: 204,
-    purpose: 'Leave the workspace (the last owner cannot leave)',
+    purpose: 'Leave the workspace (the last owner cannot leave); the leaver\'s share links are revoked',
     params: ws.workspaceParams, body: empty,
   },
 
@@ -200,6 +200,11 @@ export const routes = {
     purpose: 'Revoke a share link',
     params: nb.shareLinkParams,
   },
+  listWorkspaceShareLinks: {
+    method: 'GET', path: '/api/workspaces/:workspaceId/share-links', access: 'owner', status: 200,
+    purpose: 'Every share link of the workspace (all notebooks, active and past) with its creator, for owners',
+    params: ws.workspaceParams, response: nb.workspaceShareLinkListResponse,
+  },
   getSharedNotebook: {
     method: 'GET', path: '/api/share/:token', access: 'share-token', status: 200,
     purpose: 'Read a shared notebook (404 when the link is unknown, revoked or expired)',
@@ -212,7 +217,7 @@ export const routes = {
   // ---- development ----
   devMail: {
     method: 'GET', path: '/api/dev/mail', access: 'dev', status: 200,
-    purpose: 'Mail captured by the local fake SMTP server, newest first (404 in production)',
+    purpose: 'Mail captured by the local fake SMTP server, newest first: all of it with the per-start key (query `key` once, then its cookie), a signed-in account\'s own mail without it, 403 otherwise; 404 in production',
     query: sys.devMailQuery, response: sys.devMailResponse,
   },
 } as const satisfies Record<string, RouteDef>;

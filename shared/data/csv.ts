@@ -90,6 +90,18 @@ export function parseCsv(input: string | Uint8Array | ArrayBuffer, opts: CsvOpti
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
   const issues: CsvIssue[] = [];
 
+  // NUL characters have no place in a text table (a binary file, or UTF-16 without its
+  // byte-order mark); stored, they would reach previews, exports and models verbatim.
+  const nul = text.indexOf('\u0000');
+  if (nul >= 0) {
+    const line = text.slice(0, nul).split(/\r\n|\r|\n/).length;
+    issues.push({
+      severity: 'error',
+      message: `The file contains NUL characters (code 0), first on line ${line}: it is not a plain-text CSV. Save it as CSV (UTF-8) and upload it again.`,
+    });
+    return { table: null, columns: [], issues };
+  }
+
   const parsed = Papa.parse<string[]>(text, {
     header: false,
     skipEmptyLines: 'greedy',
@@ -133,6 +145,13 @@ export function parseCsv(input: string | Uint8Array | ArrayBuffer, opts: CsvOpti
     }
     if (h === '') {
       issues.push({ severity: 'error', column: colLabel(j), message: `Column ${j + 1} has no name in the header row.` });
+    } else if (h in Object.prototype) {
+      // "__proto__", "constructor", "toString"…: names every JavaScript object already answers to.
+      issues.push({
+        severity: 'error',
+        column: h,
+        message: `Column name "${h}" is reserved: rename column ${j + 1} (letters, digits and underscores, starting with a letter).`,
+      });
     } else if (seen.has(h)) {
       issues.push({
         severity: 'error',

@@ -1,10 +1,15 @@
 import { useMemo } from 'react';
 import { Marked, type Tokens } from 'marked';
+import DOMPurify from 'dompurify';
 
 /**
- * Markdown for notes cells. Notes are plain markdown: raw HTML in them is shown as text, never
- * parsed, and links or images may only use http(s), mailto or same-site addresses. Everything else
- * marked escapes itself, so the output carries no script, handler or foreign scheme.
+ * The one markdown renderer (notes cells, in the notebook and in the share view).
+ *
+ * Notes are plain markdown: raw HTML in them is shown as text, never parsed, so a note cannot
+ * bring its own <style>, <form>, positioned <div> or class and style attributes that would let
+ * it cover the page or imitate the app (a fake sign-in box on a shared notebook). Links and images
+ * may only use http(s), mailto or same-site addresses. DOMPurify then keeps only the small list of
+ * elements and attributes markdown itself produces, as a second line of defence.
  */
 
 const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
@@ -21,6 +26,14 @@ export function isSafeUrl(href: string): boolean {
   return ['http', 'https', 'mailto'].includes(scheme[1].toLowerCase());
 }
 
+/** Elements markdown produces; nothing that styles, positions, embeds or submits. */
+export const MARKDOWN_TAGS = [
+  'p', 'br', 'hr', 'h1', 'h2', 'h3', 'h4', 'h5', 'h6', 'strong', 'em', 'del', 'code', 'pre', 'blockquote',
+  'ul', 'ol', 'li', 'a', 'img', 'table', 'thead', 'tbody', 'tr', 'th', 'td',
+];
+/** Attributes markdown produces; no class, id, style or event handler. */
+export const MARKDOWN_ATTRS = ['href', 'title', 'src', 'alt', 'align', 'start'];
+
 const md = new Marked({
   gfm: true,
   async: false,
@@ -36,19 +49,31 @@ const md = new Marked({
       if (isSafeUrl(token.href)) return false;
       return escapeHtml(token.text);
     },
+    checkbox({ checked }: Tokens.Checkbox) {
+      // task lists: a mark instead of a form control
+      return checked ? '☑ ' : '☐ ';
+    },
   },
 });
 
 export function renderMarkdown(source: string): string {
-  return md.parse(source, { async: false });
+  const html = md.parse(source, { async: false });
+  return DOMPurify.sanitize(html, {
+    ALLOWED_TAGS: MARKDOWN_TAGS,
+    ALLOWED_ATTR: MARKDOWN_ATTRS,
+    ALLOW_DATA_ATTR: false,
+    ALLOW_ARIA_ATTR: false,
+    ALLOWED_URI_REGEXP: /^(?:https?:|mailto:|[^a-z]|[a-z+.-]+(?:[^a-z+.\-:]|$))/i,
+  });
 }
 
-export function Markdown({ source }: { source: string }) {
+export function Markdown({ source, className = 'prose-slackline text-[0.9375rem] leading-relaxed text-ink', testId }: { source: string; className?: string; testId?: string }) {
   const html = useMemo(() => renderMarkdown(source), [source]);
   return (
     <div
-      className="prose-slackline text-[0.9375rem] leading-relaxed text-ink"
-      // raw HTML is escaped and unsafe URLs dropped in renderMarkdown
+      className={className}
+      data-testid={testId}
+      // raw HTML is escaped, unsafe URLs dropped and the rest kept to MARKDOWN_TAGS/ATTRS in renderMarkdown
       dangerouslySetInnerHTML={{ __html: html }}
     />
   );

@@ -13,6 +13,9 @@ export const queryKeys = {
   notebook: (workspaceId: string, notebookId: string) => ['workspace', workspaceId, 'notebook', notebookId] as const,
   shareLinks: (workspaceId: string, notebookId: string) =>
     ['workspace', workspaceId, 'notebook', notebookId, 'share-links'] as const,
+  // Under the members key on purpose: a role change or removal revokes links, and the members
+  // mutations invalidate everything below ['workspace', id, 'members'].
+  workspaceShareLinks: (workspaceId: string) => ['workspace', workspaceId, 'members', 'share-links'] as const,
   invitationPreview: (token: string) => ['invitation-preview', token] as const,
   sharedNotebook: (token: string) => ['shared-notebook', token] as const,
   devMail: (to: string) => ['dev-mail', to] as const,

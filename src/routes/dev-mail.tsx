@@ -102,11 +102,19 @@ export default function DevMailRoute() {
             <Banner tone="notice" title="Not available">
               The mail capture exists only in development and tests.
             </Banner>
+          ) : isApiError(mail.error) && mail.error.status === 403 ? (
+            <Banner tone="notice" title="This page needs the key of this start">
+              Captured mail holds password-reset and invitation links, so it opens only with the link the server printed when
+              it started (<code>…/dev/mail?key=…</code>). Open that link once in this browser; signed in, you can also read
+              mail sent to your own address here.
+            </Banner>
           ) : (
             <Banner tone="notice" title="Could not load the captured mail">
               {errorMessage(mail.error)}
             </Banner>
           )
+        ) : mail.data.length === 0 && mail.data.scope === 'own' ? (
+          <EmptyState title="No mail to your address">Without the key printed at start, only mail sent to your own address is shown here.</EmptyState>
         ) : mail.data.length === 0 ? (
           <EmptyState title="No mail captured yet">Invitations and password resets sent from here will show up within a few seconds.</EmptyState>
         ) : (

@@ -14,6 +14,8 @@ import { InviteForm } from '@/features/members/components/invite-form';
 import { isLastOwnerError, LAST_OWNER_HELP, LAST_OWNER_TITLE } from '@/features/members/components/last-owner';
 import { MemberTable } from '@/features/members/components/member-table';
 import { workspaceQueryOptions } from '@/features/workspaces/api/get-workspace';
+import { useWorkspaceShareLinks, workspaceShareLinksQueryOptions } from '@/features/share-links/api/get-workspace-share-links';
+import { WorkspaceShareLinks } from '@/features/share-links/components/workspace-share-links';
 import { errorMessage } from '@/lib/api-client';
 
 export const makeLoader = (qc: QueryClient) => async ({ params }: LoaderFunctionArgs) => {
@@ -21,7 +23,9 @@ export const makeLoader = (qc: QueryClient) => async ({ params }: LoaderFunction
   const members = qc.prefetchQuery(membersQueryOptions(workspaceId));
   try {
     const w = await qc.ensureQueryData(workspaceQueryOptions(workspaceId));
-    if (roleAtLeast(w.role, 'owner')) await qc.prefetchQuery(invitationsQueryOptions(workspaceId));
+    if (roleAtLeast(w.role, 'owner')) {
+      await Promise.all([qc.prefetchQuery(invitationsQueryOptions(workspaceId)), qc.prefetchQuery(workspaceShareLinksQueryOptions(workspaceId))]);
+    }
   } catch {
     // the layout shows the workspace's own error
   }
@@ -63,6 +67,7 @@ export default function WorkspaceMembersRoute() {
   const me = useMe();
   const members = useMembers(workspace.id);
   const invitations = useInvitations(workspace.id, isOwner);
+  const shareLinks = useWorkspaceShareLinks(workspace.id, isOwner);
 
   return (
     <div className="flex flex-col gap-12">
@@ -85,6 +90,16 @@ export default function WorkspaceMembersRoute() {
         <Section title="Pending invitations">
           <QueryState query={invitations} loadingLabel="Loading invitations…" errorTitle="Could not load the invitations">
             {(list) => <InvitationList workspaceId={workspace.id} invitations={list} />}
+          </QueryState>
+        </Section>
+      )}
+      {isOwner && (
+        <Section
+          title="Share links"
+          description="Read-only links to notebooks of this workspace. A member's links stop working when they drop below editor or leave."
+        >
+          <QueryState query={shareLinks} loadingLabel="Loading share links…" errorTitle="Could not load the share links">
+            {(list) => <WorkspaceShareLinks workspaceId={workspace.id} links={list} />}
           </QueryState>
         </Section>
       )}

@@ -87,7 +87,7 @@ describe('invitation flow', () => {
     const link = server.mail.linkIn(mail, '/invite/');
 
     // the captured-mail page lists it with a clickable link
-    await page.goto(`${server.url}/dev/mail`);
+    await page.goto(`${server.url}/dev/mail?key=${server.config.devMailKey}`);
     await page.getByRole('heading', { name: 'Captured mail' }).waitFor();
     const message = page.getByRole('article').filter({ hasText: 'bo@orchard.test' }).first();
     const mailLink = message.getByRole('link', { name: link });

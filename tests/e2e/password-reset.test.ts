@@ -51,7 +51,12 @@ describe('password reset', () => {
     const mail = await server.mail.waitFor('mina@sediment.test');
     const link = server.mail.linkIn(mail, '/reset-password');
 
+    // Signed out and without this start's key the captured mail (and its reset link) stays closed.
     await page.goto(`${server.url}/dev/mail`);
+    await page.getByText('This page needs the key of this start').waitFor();
+    expect(await page.getByRole('article').count()).toBe(0);
+    await page.goto(`${server.url}/dev/mail?key=${server.config.devMailKey}`);
+    await page.waitForURL(`${server.url}/dev/mail`); // the key leaves the address bar
     await page.getByRole('article').first().waitFor();
     await page.screenshot({ path: await screenshotPath('dev-mail.png') });
 

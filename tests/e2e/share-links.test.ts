@@ -66,6 +66,15 @@ describe('share links', () => {
     await page.screenshot({ path: await screenshotPath('share-links.png') });
     await dialog.getByRole('button', { name: 'Done' }).click();
 
+    // the owner sees every link of the workspace, with notebook and creator, on the Members page
+    await page.goto(`${server.url}${workspacePath}/members`);
+    const table = page.getByRole('table', { name: 'Share links of this workspace' });
+    await table.waitFor();
+    const row = table.getByRole('row').filter({ hasText: 'Blend shares on the simplex' });
+    expect(await row.textContent()).toContain('Rui Tanaka');
+    expect(await row.getByText('Active', { exact: true }).count()).toBe(1);
+    await page.screenshot({ path: await screenshotPath('workspace-share-links.png') });
+
     // ---- an anonymous visitor ----
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.waitForURL(/\/sign-in$/);

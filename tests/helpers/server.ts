@@ -12,6 +12,7 @@
  *     clientDir?: string                // default <repo>/dist/client
  *     clock?: ManualClock               // default: ticks with real time; tests may advance() or set() it
  *     config?: Partial<AppConfig>       // e.g. { authRateLimit: { windowMs: 60_000, limit: 3 } }
+ *     wrapMailer?: (m: Mailer) => Mailer  // e.g. a spy that records when mail is sent
  *   }
  *
  *   TestServer: {
@@ -19,6 +20,8 @@
  *     clock: ManualClock                // the injected clock
  *     db: TestDatabase                  // { url, handle, db, truncate(), drop() }
  *     mail: Mailbox                     // captured mail, see below
+ *     config: AppConfig                 // config.devMailKey opens /dev/mail?key=… as `npm start` prints it
+ *     http: Server                      // the listening node:http server
  *     client(): TestClient              // a new cookie-jar HTTP client pointed at url
  *     close(): Promise<void>            // stop server + SMTP, drop the database
  *   }
@@ -50,7 +53,7 @@ import { pingDb } from '../../server/db/client';
 import { mailOutbox } from '../../server/db/schema';
 import { ManualClock } from '../../server/lib/clock';
 import { startCaptureServer, toCapturedMail } from '../../server/mail/capture-server';
-import { createSmtpMailer } from '../../server/mail/mailer';
+import { createSmtpMailer, type Mailer } from '../../server/mail/mailer';
 import type { CapturedMail } from '../../shared/api/system';
 import { createTestDatabase, type TestDatabase } from './db';
 import { TestClient } from './http';
@@ -71,6 +74,7 @@ export interface TestServer {
   db: TestDatabase;
   mail: Mailbox;
   config: AppConfig;
+  http: Server;
   client(): TestClient;
   close(): Promise<void>;
 }
@@ -80,6 +84,7 @@ export interface TestServerOptions {
   clientDir?: string;
   clock?: ManualClock;
   config?: Partial<AppConfig>;
+  wrapMailer?: (mailer: Mailer) => Mailer;
 }
 
 function mailbox(tdb: TestDatabase): Mailbox {
@@ -123,9 +128,11 @@ export async function startTestServer(options: TestServerOptions = {}): Promise<
     checkResponses: true,
     logErrors: true,
     authRateLimit: { windowMs: 60_000, limit: 10_000 },
+    accountLimits: { windowMs: 60_000, signInFailures: 10_000, resetRequests: 10_000, invitationsPerWorkspace: 10_000, invitationsPerInviter: 10_000 },
     ...options.config,
   });
-  const mailer = createSmtpMailer(capture.url, config.mailFrom);
+  const smtp = createSmtpMailer(capture.url, config.mailFrom);
+  const mailer = options.wrapMailer ? options.wrapMailer(smtp) : smtp;
   const app = createApp({ db: tdb.db, mailer, clock, config, pingDb: () => pingDb(tdb.handle) });
   const server: Server = await new Promise((resolve, reject) => {
     const s = app.listen(0, '127.0.0.1', () => resolve(s));
@@ -141,13 +148,14 @@ export async function startTestServer(options: TestServerOptions = {}): Promise<
     db: tdb,
     mail: mailbox(tdb),
     config,
+    http: server,
     client: () => new TestClient(url),
     async close() {
       await new Promise<void>((r) => {
         server.close(() => r());
         server.closeAllConnections();
       });
-      mailer.close();
+      smtp.close();
       await capture.close();
       await tdb.drop();
     },

@@ -77,7 +77,7 @@ describe('sign up, sign in, sign out', () => {
     expect(cookie).not.toMatch(/Secure/i);
 
     // Behind a TLS-terminating proxy (trust proxy on), the cookie is Secure.
-    const proxied = await startApiServer({ config: { trustProxy: 1 } });
+    const proxied = await startApiServer({ config: { trustProxy: 1, publicUrl: 'https://slackline.example' } });
     try {
       const c = proxied.client();
       c.origin = 'https://slackline.example';

@@ -33,7 +33,9 @@ describe('invitations', () => {
     expect(pending.body.invitations).toHaveLength(1);
 
     const mail = await server.mail.waitFor(email);
-    expect(mail.subject).toContain('Coffee blend panel');
+    // The subject carries no sender-chosen text (the names are in the body).
+    expect(mail.subject).toBe('You are invited to a workspace on Slackline');
+    expect(mail.text).toContain('"Coffee blend panel"');
     expect(mail.text).toContain('as reviewer');
     const link = server.mail.linkIn(mail, '/invite/');
     expect(link.startsWith(server.url)).toBe(true);
@@ -160,10 +162,13 @@ describe('invitations', () => {
       // A second app on the same database, wired to the dead relay.
       const { createApp } = await import('../../server/app');
       const { pingDb } = await import('../../server/db/client');
-      const app2 = createApp({ db: broken.db.db, mailer: dead, clock: broken.clock, config: { ...broken.config, logErrors: false }, pingDb: () => pingDb(broken.db.handle) });
+      const app2Config = { ...broken.config, logErrors: false };
+      const app2 = createApp({ db: broken.db.db, mailer: dead, clock: broken.clock, config: app2Config, pingDb: () => pingDb(broken.db.handle) });
       const s = app2.listen(0, '127.0.0.1');
       await new Promise((r) => s.once('listening', r));
       const url = `http://127.0.0.1:${(s.address() as import('node:net').AddressInfo).port}`;
+      // The second app answers as its own address (Host and Origin checks).
+      app2Config.publicUrl = url;
       try {
         const res = await fetch(`${url}/api/workspaces/${ws}/invitations`, {
           method: 'POST',

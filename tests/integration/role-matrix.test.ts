@@ -66,6 +66,7 @@ const EXPECTED: Record<RouteName, Row> = {
   listShareLinks: EDITOR_UP(200),
   createShareLink: EDITOR_UP(201),
   revokeShareLink: EDITOR_UP(204),
+  listWorkspaceShareLinks: OWNER_ONLY(200),
   // The link is a bearer capability: whoever holds the token reads, session or not.
   getSharedNotebook: ALL_200,
   // ---- the notebook ----
@@ -94,8 +95,9 @@ const EXPECTED: Record<RouteName, Row> = {
   sharedCellRuns: ALL_200,
   sharedRunDraws: ALL_200,
   sharedDataset: ALL_200,
-  // Development routes are open outside production (404 in production: see the last test).
-  devMail: ALL_200,
+  // Development routes exist outside production only (404 there: see the last tests). Captured mail
+  // needs the per-start key; a signed-in account without it reads only its own mail.
+  devMail: row(200, 200, 200, 200, 200, 403, 403),
 };
 
 interface World {
@@ -143,6 +145,7 @@ const REQUESTS: Record<RouteName, (w: World) => Req> = {
   createShareLink: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb }, body: {} }),
   revokeShareLink: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb, linkId: w.linkId } }),
   getSharedNotebook: (w) => ({ params: { token: w.shareToken } }),
+  listWorkspaceShareLinks: (w) => ({ params: { workspaceId: w.ws } }),
   devMail: () => ({}),
   createCell: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb }, body: { kind: 'notes', source: 'more' } }),
   saveCell: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb, cellId: w.nbw.notesCell }, body: { baseVersion: 1, source: 'saved' } }),
@@ -274,6 +277,12 @@ describe('role matrix', () => {
       expect(actual).toEqual(EXPECTED[name]);
     });
   }
+
+  it('opens captured mail to anyone holding this start\'s key, and to nobody with another', async () => {
+    const anon = new TestClient(server.url);
+    expect((await anon.get(`/api/dev/mail?key=${server.config.devMailKey}`)).status).toBe(200);
+    expect((await new TestClient(server.url).get(`/api/dev/mail?key=${'k'.repeat(32)}`)).status).toBe(403);
+  });
 
   it('hides development routes in production', async () => {
     const prod = await startApiServer({ config: { production: true } });

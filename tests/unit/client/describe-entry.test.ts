@@ -28,6 +28,15 @@ describe('audit sentences', () => {
     expect(describeEntry(entry('share_link.created', 'l1', { expiresAt: null }))).toBe('created a read-only link that does not expire');
     expect(describeEntry(entry('notebook.deleted', 'n1', { title: 'Reach 4' }))).toBe('deleted the notebook “Reach 4”');
   });
+  it('says why a link was revoked with its creator\'s rights', () => {
+    expect(describeEntry(entry('share_link.revoked', 'l1', { reason: 'creator_demoted' }))).toBe(
+      'revoked a read-only link because its creator is no longer an editor',
+    );
+    expect(describeEntry(entry('share_link.revoked', 'l1', { reason: 'creator_left' }))).toBe(
+      'revoked a read-only link because its creator left the workspace',
+    );
+    expect(describeEntry(entry('share_link.revoked', 'l1', {}))).toBe('revoked a read-only link');
+  });
   it('still says something for an action it does not know', () => {
     expect(describeEntry(entry('run.cancelled', 'r1', null))).toBe('run cancelled (member)');
   });

@@ -1,4 +1,5 @@
-// @vitest-environment happy-dom
+// @vitest-environment jsdom
+// jsdom: the markdown renderer sanitises with DOMPurify, which does not support happy-dom.
 import { afterEach, describe, expect, it } from 'vitest';
 import { cleanup, render, screen } from '@testing-library/react';
 import { MemoryRouter } from 'react-router-dom';

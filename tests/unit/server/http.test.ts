@@ -93,3 +93,50 @@ describe('configFromEnv', () => {
     expect(configFromEnv({ PORT: '4000' }, null).publicUrl).toBe('http://127.0.0.1:4000');
   });
 });
+
+describe('errorHandler', () => {
+  it('answers a 404 from a file send with the not_found code', async () => {
+    const { errorHandler } = await import('../../../server/http/error-handler');
+    const { defaultConfig } = await import('../../../server/config');
+    let status = 0;
+    let body: unknown;
+    const res = { headersSent: false, status(s: number) { status = s; return this; }, json(b: unknown) { body = b; return this; } };
+    const err = Object.assign(new Error('Not Found'), { status: 404, statusCode: 404 });
+    errorHandler(defaultConfig({ logErrors: false }))(err, { method: 'GET', originalUrl: '/x' } as never, res as never, () => {});
+    expect(status).toBe(404);
+    expect(body).toEqual({ error: { code: 'not_found', message: 'Not Found' } });
+  });
+});
+
+describe('passwordProblem', () => {
+  it('refuses short, blank, one-letter, common and straight-run passwords; accepts passphrases', async () => {
+    const { passwordProblem } = await import('../../../shared/api/common');
+    expect(passwordProblem('short')).toMatch(/10/);
+    expect(passwordProblem(' '.repeat(10))).toMatch(/spaces/);
+    expect(passwordProblem('zzzzzzzzzzzz')).toMatch(/different/);
+    expect(passwordProblem('QwertyUiop')).toMatch(/common/);
+    expect(passwordProblem('lmnopqrstu')).toMatch(/consecutive/);
+    expect(passwordProblem('correct-horse-battery-17')).toBeNull();
+    expect(passwordProblem('silt and clay fractions')).toBeNull();
+  });
+});
+
+describe('shouldSeedDemo', () => {
+  it('never seeds the published demo account in production unless asked', async () => {
+    const { shouldSeedDemo } = await import('../../../server/db/seed');
+    expect(shouldSeedDemo({ NODE_ENV: 'production' })).toBe(false);
+    expect(shouldSeedDemo({ NODE_ENV: 'production', SEED_DEMO: 'true' })).toBe(true);
+    expect(shouldSeedDemo({})).toBe(true);
+    expect(shouldSeedDemo({ SEED_DEMO: 'false' })).toBe(false);
+  });
+});
+
+describe('configFromEnv origins and keys', () => {
+  it('answers as localhost and 127.0.0.1 on PORT without PUBLIC_URL; has a per-start capture key outside production', () => {
+    const local = configFromEnv({ PORT: '4100' }, null);
+    expect(local.allowedOrigins).toEqual(expect.arrayContaining(['http://localhost:4100', 'http://127.0.0.1:4100']));
+    expect(local.devMailKey).toMatch(/^[A-Za-z0-9_-]{32}$/);
+    expect(configFromEnv({ PORT: '4100' }, null).devMailKey).not.toBe(local.devMailKey);
+    expect(configFromEnv({ NODE_ENV: 'production', PUBLIC_URL: 'https://x.test' }, null)).toMatchObject({ devMailKey: null, allowedOrigins: [] });
+  });
+});

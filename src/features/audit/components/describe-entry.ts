@@ -36,6 +36,8 @@ export function describeEntry(entry: AuditEntry, names: ReadonlyMap<string, stri
         ? `created a read-only link, valid until ${formatDateTime(str(d.expiresAt)!)}`
         : 'created a read-only link that does not expire';
     case 'share_link.revoked':
+      if (d.reason === 'creator_demoted') return 'revoked a read-only link because its creator is no longer an editor';
+      if (d.reason === 'creator_removed' || d.reason === 'creator_left') return 'revoked a read-only link because its creator left the workspace';
       return 'revoked a read-only link';
     default:
       return `${entry.action.replace(/[._]/g, ' ')} (${entry.targetType})`;

@@ -67,7 +67,7 @@ export function ResetPasswordForm({ token }: { token: string }) {
         type="password"
         autoComplete="new-password"
         autoFocus
-        hint="At least 10 characters."
+        hint="At least 10 characters, not a common password."
         error={errors.field('password')}
         onChange={() => errors.onEdit('password')}
       />

@@ -43,7 +43,7 @@ export function SignUpForm({ onSuccess, defaultEmail }: { onSuccess: () => void;
         name="password"
         type="password"
         autoComplete="new-password"
-        hint="At least 10 characters. A short sentence works well."
+        hint="At least 10 characters, not a common password. A short sentence works well."
         error={errors.field('password')}
         onChange={() => errors.onEdit('password')}
       />

@@ -3,9 +3,10 @@ import { callRoute } from '@/lib/api-client';
 import { queryKeys } from '@/lib/query-keys';
 
 /** Messages captured by the local fake SMTP server (development and tests only). */
+/** Messages and whether they are all of them ('all', with this start's key) or only the caller's own. */
 export async function getMail(to: string) {
-  const { messages } = await callRoute('devMail', { query: { to: to || undefined, limit: 100 } });
-  return messages;
+  const { messages, scope } = await callRoute('devMail', { query: { to: to || undefined, limit: 100 } });
+  return Object.assign(messages, { scope: scope ?? 'all' });
 }
 
 export const mailQueryOptions = (to: string) =>

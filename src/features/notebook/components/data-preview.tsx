@@ -25,7 +25,8 @@ export function sortRows(rows: readonly PreviewValue[][], col: number, dir: Sort
 const TYPE_WORDS = { numeric: 'number', integer: 'whole', category: 'category' } as const;
 
 export interface DataPreviewProps {
-  dataset: Dataset;
+  // share-link readers get no workspace id
+  dataset: Omit<Dataset, 'workspaceId'>;
   rows: PreviewValue[][];
 }
 

@@ -1,17 +1,9 @@
-import { useMemo } from 'react';
-import { marked } from 'marked';
-import DOMPurify from 'dompurify';
+import { Markdown } from '@/components/markdown';
 
-/** Markdown to sanitised HTML: marked renders, DOMPurify removes scripts, handlers and unsafe URLs. */
-export function renderMarkdown(text: string): string {
-  const html = marked.parse(text, { async: false, gfm: true, breaks: false }) as string;
-  return DOMPurify.sanitize(html, { USE_PROFILES: { html: true } });
-}
-
+/** Notes through the one markdown renderer (raw HTML shown as text; see components/markdown). */
 export function NotesView({ text }: { text: string }) {
-  const html = useMemo(() => renderMarkdown(text), [text]);
   if (!text.trim()) return <p className="sl-cell-sub italic">Empty notes.</p>;
-  return <div className="sl-prose" data-testid="notes-view" dangerouslySetInnerHTML={{ __html: html }} />;
+  return <Markdown source={text} className="sl-prose" testId="notes-view" />;
 }
 
 export interface NotesCellProps {

@@ -15,6 +15,9 @@ export function useRevokeShareLink() {
   return useMutation({
     mutationFn: revokeShareLink,
     onSuccess: (_v, { workspaceId, notebookId }) =>
-      qc.invalidateQueries({ queryKey: queryKeys.shareLinks(workspaceId, notebookId) }),
+      Promise.all([
+        qc.invalidateQueries({ queryKey: queryKeys.shareLinks(workspaceId, notebookId) }),
+        qc.invalidateQueries({ queryKey: queryKeys.workspaceShareLinks(workspaceId) }),
+      ]),
   });
 }

@@ -16,7 +16,7 @@ import { useRevokeShareLink } from '../api/revoke-share-link';
 import { CopyField } from './copy-field';
 import { EXPIRY_CHOICES, expiryToIso, type ExpiryChoice } from './expiry';
 
-function LinkStatus({ link }: { link: ShareLink }) {
+export function LinkStatus({ link }: { link: ShareLink }) {
   if (link.active) return <Badge tone="slack">Active</Badge>;
   if (link.revokedAt) return <Badge>Revoked</Badge>;
   return <Badge>Expired</Badge>;
