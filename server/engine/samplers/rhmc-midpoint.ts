@@ -201,7 +201,8 @@ export class MidpointIntegrator {
     if (!this.slacks(ps.z, ps.s)) return 'left-region';
     const w = this.wm;
     for (let i = 0; i < m; i++) w[i] = 1 / (ps.s[i] * ps.s[i]);
-    this.factorizations++;
+    // Without inequalities g = Λ is diagonal and constant: nothing to factorise (count 0, as before).
+    if (m > 0) this.factorizations++;
     if (!ps.f.factor(w, this.lambda)) return 'not-finite';
     ps.logDet = ps.f.logDet();
     const l = this.p.logDensity(ps.z, ps.gradL);
