@@ -1,6 +1,10 @@
 /**
  * Riemannian HMC with the barrier metric (DESIGN §6.3).
  *
+ * `rhmcChain` dispatches on RhmcVariant: the default 'midpoint' integrator lives in
+ * rhmc-midpoint.ts; this module holds the generalised-leapfrog variant ('leapfrog', engine id
+ * `rhmc-gl`) described below, with its own settings (DEFAULT_RHMC) unchanged.
+ *
  * Region {z : A z ≤ b} (rows normalised), slacks s = b − A z, metric
  *   g(z) = Aᵀ S⁻² A + Λ,   S = diag(s),  Λ a positive diagonal adapted in warm-up,
  * Hamiltonian
