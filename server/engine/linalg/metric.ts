@@ -55,6 +55,8 @@ export function detectStructure(rows: RowMatrix, force?: MetricKind | 'structure
   }
   const dense: MetricStructure = { kind: 'dense', bandwidth: n, lowRankRows: new Int32Array(0), bandRows: Int32Array.from({ length: m }, (_, i) => i) };
   if (force === 'dense') return dense;
+  // No rows: G = diag(λ).
+  if (m === 0) return { kind: 'diagonal', bandwidth: 0, lowRankRows: new Int32Array(0), bandRows: new Int32Array(0) };
   // Candidate bandwidths: every distinct span (rows wider than B go to the low-rank part).
   const cands = Array.from(new Set(Array.from(span))).sort((a, b) => a - b);
   let best: { B: number; cost: number } | null = null;

@@ -13,6 +13,7 @@ import { Rng } from '../../../server/engine/rng';
 import type { ModelTarget } from '../../../server/engine/types';
 import { betaMoments, expectAllFeasible, expectMean, expectVariance, runChains } from './helpers';
 import {
+  bivariateNormalTarget,
   equalitySimplexTarget,
   gaussianOnSimplexTarget,
   orderSimplexTarget,
@@ -184,6 +185,12 @@ describe('variants and reproducibility', () => {
     expect(a.integrator).toBe(integrator);
     expect(a.stepsPerDraw).toBeGreaterThan(0);
     expect(a.solverIterationsPerStep).toBeGreaterThan(0);
+  });
+  it('without inequalities the metric is the constant diagonal Λ: nothing is factorised', () => {
+    const pe = prepareTarget(bivariateNormalTarget({ m1: 1, m2: -2, s1: 1, s2: 3, r: 0.6 }));
+    const out = rhmcChain(pe, pe.centre, { warmup: 50, draws: 20, seed: 1, chain: 0 }, new Rng(1, 0), makeDrawCheck(pe));
+    expect(out.metricStructure).toBe('diagonal');
+    expect(out.factorizationsPerStep).toBe(0);
   });
   it('the default variant is the midpoint integrator', () => {
     expect(rhmcChain(p, start, o, new Rng(99, 0), makeDrawCheck(p)).integrator).toBe('midpoint');
