@@ -104,6 +104,18 @@ export interface ChainOutput {
   stepSize: number;
   /** Mean metric factorisations per integrator step (RHMC). */
   factorizationsPerStep?: number;
+  /** Mean integrator steps per kept draw, including the step at which a trajectory failed (RHMC). */
+  stepsPerDraw?: number;
+  /** Mean iterations of the implicit solvers per integrator step, run-back included (RHMC). */
+  solverIterationsPerStep?: number;
+  /** Share of kept draws whose transition was rejected (mean of `rejected`). */
+  rejectedFraction?: number;
+  /** Adapted mean integration time ε·L in metric units (RHMC). */
+  integrationTime?: number;
+  /** How the metric was factorised: diagonal, banded, diagonal+low-rank, banded+low-rank, dense (RHMC). */
+  metricStructure?: string;
+  /** RHMC integrator: 'midpoint' (default) or 'leapfrog' (generalised leapfrog). */
+  integrator?: string;
 }
 
 /** One chain's kept output plus the derived quantities evaluated per draw. */

@@ -32,6 +32,12 @@ export class RowMatrix {
     this.ptr[m] = q;
   }
 
+  /** From row-compressed arrays directly (large sparse systems whose dense form would not fit). */
+  static fromCsr(m: number, n: number, ptr: Int32Array, idx: Int32Array, val: Float64Array): RowMatrix {
+    const r = new RowMatrix(new Float64Array(0), 0, n);
+    return Object.assign(r, { m, ptr, idx, val });
+  }
+
   /** out = A x (length m). */
   mul(x: Float64Array, out: Float64Array): Float64Array {
     const { ptr, idx, val } = this;

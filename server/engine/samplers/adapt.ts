@@ -10,21 +10,29 @@ export class DualAveraging {
   private logEpsBar = 0;
   private t = 0;
   logEps = 0;
+  /**
+   * `muFactor`: the shrinkage target μ = log(muFactor · ε₀) (10 in the paper). Each restart then
+   * tries steps near muFactor · ε₀ first; where acceptance falls off a cliff (implicit integrators
+   * whose solves fail past a step size) those early zeros must be balanced by the rest of the window,
+   * which biases the final step low, so the midpoint chain uses a smaller factor.
+   */
   constructor(
     eps0: number,
     private readonly delta = 0.8,
+    private readonly muFactor = 10,
+    private readonly gamma = 0.05,
   ) {
     this.restart(eps0);
   }
   restart(eps0: number): void {
-    this.mu = Math.log(10 * eps0);
+    this.mu = Math.log(this.muFactor * eps0);
     this.hBar = 0;
     this.logEpsBar = 0;
     this.t = 0;
     this.logEps = Math.log(eps0);
   }
   update(accept: number): number {
-    const gamma = 0.05;
+    const gamma = this.gamma;
     const t0 = 10;
     const kappa = 0.75;
     this.t++;

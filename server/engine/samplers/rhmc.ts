@@ -1,6 +1,10 @@
 /**
  * Riemannian HMC with the barrier metric (DESIGN §6.3).
  *
+ * `rhmcChain` dispatches on RhmcVariant: the default 'midpoint' integrator lives in
+ * rhmc-midpoint.ts; this module holds the generalised-leapfrog variant ('leapfrog', engine id
+ * `rhmc-gl`) described below, with its own settings (DEFAULT_RHMC) unchanged.
+ *
  * Region {z : A z ≤ b} (rows normalised), slacks s = b − A z, metric
  *   g(z) = Aᵀ S⁻² A + Λ,   S = diag(s),  Λ a positive diagonal adapted in warm-up,
  * Hamiltonian
@@ -49,6 +53,30 @@ import { Rng } from '../rng';
 import { Cholesky } from '../linalg/cholesky';
 import type { RowMatrix } from '../linalg/sparse';
 import { DualAveraging, warmupBuffers, windowEnds } from './adapt';
+import { DEFAULT_MIDPOINT, midpointChain } from './rhmc-midpoint';
+
+/**
+ * Which RHMC integrator a chain uses. 'midpoint' (default): explicit half-kicks of U and the
+ * implicit midpoint rule for the kinetic energy, structured factorisations, ChEES-adapted
+ * integration time (rhmc-midpoint.ts). 'leapfrog': the generalised leapfrog below with its own
+ * settings (DEFAULT_RHMC), as before the midpoint integrator existed (engine id `rhmc-gl`).
+ */
+export interface RhmcVariant {
+  integrator?: 'midpoint' | 'leapfrog';
+}
+
+/** One RHMC chain with the chosen integrator. */
+export function rhmcChain(
+  p: PreparedTarget,
+  start: Float64Array,
+  opts: ChainOptions,
+  rng: Rng,
+  check: (z: Float64Array, out: Float64Array) => void,
+  variant: RhmcVariant = {},
+): ChainOutput {
+  if ((variant.integrator ?? 'midpoint') === 'leapfrog') return leapfrogChain(p, start, opts, rng, check, DEFAULT_RHMC);
+  return midpointChain(p, start, opts, rng, check, DEFAULT_MIDPOINT);
+}
 
 export interface RhmcSettings {
   /** Target Metropolis acceptance for dual averaging. */
@@ -150,6 +178,8 @@ export class BarrierIntegrator {
   readonly lambda: Float64Array;
   factorizations = 0;
   steps = 0;
+  /** Fixed-point and Newton iterations (run-back included). */
+  iterations = 0;
   private readonly G: Float64Array;
   private readonly wts: Float64Array;
   private readonly rowTmp: Float64Array;
@@ -289,6 +319,7 @@ export class BarrierIntegrator {
     let pScale = 1;
     for (let q = 0; q < n; q++) pScale = Math.max(pScale, Math.abs(pm[q]));
     for (let it = 0; it < settings.maxFixedPoint; it++) {
+      this.iterations++;
       cur.chol.solve(ph, v);
       this.gradH(cur, v, gH);
       let diff = 0;
@@ -329,6 +360,7 @@ export class BarrierIntegrator {
     const lam = this.lambda;
     let errPrev = Infinity;
     for (let it = 0; it < settings.maxNewton; it++) {
+      this.iterations++;
       for (let q = 0; q < n; q++) zN[q] = cur.z[q] + half * (v[q] + w[q]);
       if (!this.slacks(zN, sN)) return 'left-region';
       rows.mul(w, Aw);
@@ -471,7 +503,8 @@ function abortError(): Error {
 /** Tally of step outcomes across all chains in this thread (for the benchmark and diagnosis). */
 export const stepResultCounts: Record<string, number> = {};
 
-export function rhmcChain(
+/** One chain with the generalised leapfrog (the 'leapfrog' variant). */
+export function leapfrogChain(
   p: PreparedTarget,
   start: Float64Array,
   opts: ChainOptions,
@@ -599,6 +632,7 @@ export function rhmcChain(
   const total = opts.warmup + opts.draws;
   let factAtSampling = 0;
   let stepsAtSampling = 0;
+  let itersAtSampling = 0;
 
   const stepsFor = (e: number) => {
     const L0 = Math.max(1, Math.round(settings.trajectoryLength / e));
@@ -614,6 +648,7 @@ export function rhmcChain(
       eps = opts.warmup > 0 ? settings.finalStepScale * da.final() : eps;
       factAtSampling = integ.factorizations;
       stepsAtSampling = integ.steps;
+      itersAtSampling = integ.iterations;
     }
     const res = transition(eps, stepsFor(eps));
     if (warm) {
@@ -667,6 +702,7 @@ export function rhmcChain(
             integ = new BarrierIntegrator(p, lambda, settings);
             integ.factorizations = keep.factorizations;
             integ.steps = keep.steps;
+            integ.iterations = keep.iterations;
             const zKeep = Float64Array.from(state.z);
             state.z.set(zKeep);
             const r = integ.evaluate(state);
@@ -696,5 +732,11 @@ export function rhmcChain(
     acceptStat: acceptOut,
     stepSize: eps,
     factorizationsPerStep: sSteps > 0 ? (integ.factorizations - factAtSampling) / sSteps : NaN,
+    stepsPerDraw: opts.draws > 0 ? sSteps / opts.draws : NaN,
+    solverIterationsPerStep: sSteps > 0 ? (integ.iterations - itersAtSampling) / sSteps : NaN,
+    rejectedFraction: opts.draws > 0 ? rejectedOut.reduce((a, b) => a + b, 0) / opts.draws : NaN,
+    integrationTime: settings.trajectoryLength,
+    metricStructure: 'dense',
+    integrator: 'leapfrog',
   };
 }

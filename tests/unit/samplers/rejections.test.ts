@@ -9,7 +9,8 @@
 import { describe, expect, it } from 'vitest';
 import { dispersedStarts, prepareTarget } from '../../../server/engine/geometry';
 import { makeDrawCheck, sampleChain } from '../../../server/engine/samplers';
-import { DEFAULT_RHMC, rhmcChain } from '../../../server/engine/samplers/rhmc';
+import { DEFAULT_RHMC, leapfrogChain } from '../../../server/engine/samplers/rhmc';
+import { DEFAULT_MIDPOINT, midpointChain } from '../../../server/engine/samplers/rhmc-midpoint';
 import { Rng } from '../../../server/engine/rng';
 import { gaussianOnSimplexTarget, truncatedNormalTarget } from './targets';
 
@@ -25,17 +26,18 @@ const targets = [
 ] as const;
 
 describe.each(targets)('forced solver failures on the %s', (_name, target) => {
-  it('a step far beyond the adapted one is counted as rejected, not divergent', () => {
+  it.each(['leapfrog', 'midpoint'] as const)('%s: a step far beyond the adapted one is counted as rejected, not divergent', (integrator) => {
     const p = prepareTarget(target);
     const [start] = dispersedStarts(p, 1, new Rng(3, 999));
     const draws = 300;
     // Sampling with 30 times the adapted step: past the step-size cliff of the module notes the
     // implicit equations have no solution, so most trajectories stop at a failed solve. The target's
     // log-density is finite everywhere inside the region, so nothing here is a divergence.
-    const out = rhmcChain(p, start, { warmup: 150, draws, seed: 11, chain: 0 }, new Rng(11, 0), makeDrawCheck(p), {
-      ...DEFAULT_RHMC,
-      finalStepScale: 30,
-    });
+    const o = { warmup: 150, draws, seed: 11, chain: 0 };
+    const out =
+      integrator === 'leapfrog'
+        ? leapfrogChain(p, start, o, new Rng(11, 0), makeDrawCheck(p), { ...DEFAULT_RHMC, finalStepScale: 30 })
+        : midpointChain(p, start, o, new Rng(11, 0), makeDrawCheck(p), { ...DEFAULT_MIDPOINT, finalStepScale: 30 });
     expect(out.rejected).toBeDefined();
     const rejected = out.rejected!;
     expect(rejected).toHaveLength(draws);

@@ -223,3 +223,43 @@ export function orderedGroupsTarget(args: { y: number[][] }): ModelTarget {
     equalities: emptySystem(dim),
   };
 }
+
+/** Independent standard normals, coordinate j truncated to [lo[j], hi[j]] (bounds only: a box). */
+export function truncatedNormalBoxTarget(args: { lo: number[]; hi: number[] }): ModelTarget {
+  const d = args.lo.length;
+  const rows = [];
+  for (let j = 0; j < d; j++) {
+    rows.push({ a: { [j]: -1 }, b: -args.lo[j], label: `x[${j + 1}] >= ${args.lo[j]}` });
+    rows.push({ a: { [j]: 1 }, b: args.hi[j], label: `x[${j + 1}] <= ${args.hi[j]}` });
+  }
+  return {
+    dim: d,
+    names: names('x', d),
+    logDensity: (t, g) => {
+      let l = 0;
+      for (let j = 0; j < d; j++) {
+        g[j] = -t[j];
+        l -= 0.5 * t[j] * t[j];
+      }
+      return l;
+    },
+    inequalities: system(d, rows),
+    equalities: emptySystem(d),
+  };
+}
+
+/**
+ * Uniform on {x ≥ 0, Σ_{j < k} x_j ≤ 1, Σ_{j ≥ k} x_j ≤ 1}: two budget rows over disjoint groups,
+ * i.e. the product of a k-simplex and a (d − k)-simplex.
+ */
+export function twoBudgetsTarget(args: { d: number; k: number }): ModelTarget {
+  const { d, k } = args;
+  const rows = [];
+  for (let j = 0; j < d; j++) rows.push({ a: { [j]: -1 }, b: 0, label: `x[${j + 1}] >= 0` });
+  const g1: Record<number, number> = {};
+  const g2: Record<number, number> = {};
+  for (let j = 0; j < d; j++) (j < k ? g1 : g2)[j] = 1;
+  rows.push({ a: g1, b: 1, label: 'first budget' });
+  rows.push({ a: g2, b: 1, label: 'second budget' });
+  return { dim: d, names: names('x', d), logDensity: flat, inequalities: system(d, rows), equalities: emptySystem(d) };
+}
