@@ -20,8 +20,10 @@ export type {
   Shape,
   Span,
   Statement,
+  TermRole,
   UnknownInfo,
 } from './ast';
+export { termRole, termRoles, type TermRoleInfo } from './roles';
 export { checkProgram, flatNames, type CheckResult, type SymbolInfo } from './check';
 export type { LinearRows, ExtractResult } from './affine';
 export { evaluateValue, DEFAULT_MATH, isMat, type DataValues, type DensityHook, type Mat, type Value, type ScalarFn } from './evaluate';
@@ -34,7 +36,7 @@ export {
   type FunctionKind,
   type KeywordInfo,
 } from './functions';
-export { LangError, parseLine, scan, MAX_NAME_LENGTH } from './parse';
+export { LangError, parseLine, scan, MAX_NAME_LENGTH, ROLE_MARK } from './parse';
 export { closest, editDistance } from './suggest';
 
 /**
