@@ -35,8 +35,14 @@ export type EvidenceReference = 'auto' | 'uniform' | 'gaussian';
 export interface EvidenceOptions {
   /** Independent replicates for the standard error (2–64, default 4). */
   replicates?: number;
+  /**
+   * Keep adding replicates (up to 64) until the standard error of log Z is at most this. The
+   * standard error is re-estimated after each one, so stopping is decided on a noisy estimate:
+   * treat the result as approximate when only a few replicates ran.
+   */
+  targetSe?: number;
   seed?: number;
-  /** Draws recorded per annealing stage (default 1000). */
+  /** Draws recorded per annealing stage (default 2000). */
   drawsPerStage?: number;
   /** Effective-sample-size fraction each adaptive step keeps (default 0.8). */
   essTarget?: number;
@@ -75,7 +81,7 @@ export interface EvidenceResult {
 export const EVIDENCE_DEFAULTS = {
   replicates: 4,
   seed: 20261201,
-  drawsPerStage: 1000,
+  drawsPerStage: 2000,
   essTarget: 0.8,
 };
 
@@ -225,7 +231,8 @@ export function computeEvidence(p: PreparedTarget, opts: EvidenceOptions = {}): 
     totals.densityEvaluations += s.densityEvaluations;
   };
   const centreZero = new Float64Array(n);
-  for (let r = 0; r < R; r++) {
+  for (let r = 0; r < 64; r++) {
+    if (r >= R && (opts.targetSe === undefined || meanSe(logZs).se <= opts.targetSe)) break;
     const rng = new Rng(seed, REPLICATE_STREAM + r);
     let logZ: number;
     let vol: ReturnType<typeof gaussianAnneal> | null = null;
@@ -261,9 +268,9 @@ export function computeEvidence(p: PreparedTarget, opts: EvidenceOptions = {}): 
     volumeSe: v ? v.se : null,
     reference,
     dimension: n,
-    replicates: R,
+    replicates: logZs.length,
     replicateLogZ: logZs,
-    stages: Math.round(totals.stages / R),
+    stages: Math.round(totals.stages / logZs.length),
     draws: totals.draws,
     moves: totals.moves,
     densityEvaluations: totals.densityEvaluations,
