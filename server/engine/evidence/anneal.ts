@@ -173,16 +173,17 @@ function weightStats(v: Float64Array, a: number): { logMean: number; essFrac: nu
 }
 
 /**
- * The draws of alternate walkers: one half picks the next step, the other half estimates the ratio
- * for it. Picking and estimating with the same draws biases log Z downwards (a sample that misses the
- * weights' tail both allows a longer step and underestimates its ratio). The halves swap each stage.
+ * The draws of one walker in four pick the next step; the draws of the other walkers estimate the
+ * ratio for it. Picking and estimating with the same draws biases log Z downwards (a sample that
+ * misses the weights' tail both allows a longer step and underestimates its ratio). The picking
+ * walkers rotate from stage to stage.
  */
 function splitHalves(v: Float64Array, perWalker: number, stage: number): [Float64Array, Float64Array] {
   const W = v.length / perWalker;
   const a: number[] = [];
   const b: number[] = [];
   for (let w = 0; w < W; w++) {
-    const dst = (w + stage) % 2 === 0 ? a : b;
+    const dst = (w + stage) % 4 === 0 ? a : b;
     for (let r = 0; r < perWalker; r++) dst.push(v[w * perWalker + r]);
   }
   return [Float64Array.from(a), Float64Array.from(b)];
