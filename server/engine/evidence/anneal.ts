@@ -46,6 +46,8 @@ export interface Frame {
   colPtr: Int32Array;
   colIdx: Int32Array;
   colVal: Float64Array;
+  /** 1 / colVal. */
+  colInv: Float64Array;
   origin: Float64Array;
   /** Lower factor, row-major n × n. */
   L: Float64Array;
@@ -106,6 +108,7 @@ export function makeFrame(p: PreparedTarget, origin: Float64Array, L: Float64Arr
     colPtr,
     colIdx,
     colVal,
+    colInv: colVal.map((v) => 1 / v),
     origin: Float64Array.from(origin),
     L,
     logJac,
@@ -238,20 +241,17 @@ function resetSlacks(f: Frame, w: Walker): void {
  */
 function gaussMove(f: Frame, w: Walker, P: number, mu: Float64Array | null, rng: Rng): void {
   const j = rng.int(f.n);
-  const { colPtr, colIdx, colVal } = f;
+  const { colPtr, colIdx, colVal, colInv } = f;
   const s = w.s;
+  const q0 = colPtr[j];
+  const q1 = colPtr[j + 1];
   let tmin = -Infinity;
   let tmax = Infinity;
-  for (let q = colPtr[j]; q < colPtr[j + 1]; q++) {
-    const a = colVal[q];
-    const si = s[colIdx[q]];
-    if (a > 0) {
-      const r = si / a;
+  for (let q = q0; q < q1; q++) {
+    const r = s[colIdx[q]] * colInv[q];
+    if (colVal[q] > 0) {
       if (r < tmax) tmax = r;
-    } else {
-      const r = si / a;
-      if (r > tmin) tmin = r;
-    }
+    } else if (r > tmin) tmin = r;
   }
   let t: number;
   if (P === 0) {
@@ -264,8 +264,16 @@ function gaussMove(f: Frame, w: Walker, P: number, mu: Float64Array | null, rng:
     const m0 = -(w.y[j] - (mu ? mu[j] : 0));
     t = m0 + sd * truncatedStdNormal((tmin - m0) / sd, (tmax - m0) / sd, rng);
   }
-  for (let q = colPtr[j]; q < colPtr[j + 1]; q++) if (!(s[colIdx[q]] - t * colVal[q] > 0)) return; // round-off put it on a face
-  for (let q = colPtr[j]; q < colPtr[j + 1]; q++) s[colIdx[q]] -= t * colVal[q];
+  let ok = true;
+  for (let q = q0; q < q1; q++) {
+    const v = (s[colIdx[q]] -= t * colVal[q]);
+    if (!(v > 0)) ok = false;
+  }
+  if (!ok) {
+    // Round-off put the point on a face: undo the move.
+    for (let q = q0; q < q1; q++) s[colIdx[q]] += t * colVal[q];
+    return;
+  }
   w.y[j] += t;
 }
 
