@@ -42,7 +42,15 @@ export interface Frame {
   Ay: Float64Array;
   b: Float64Array;
   rowNorm: Float64Array;
-  /** The same rows stored by column (for coordinate moves). */
+  /**
+   * Move directions (columns of D, n × n row-major) and their squared lengths; null = the frame's
+   * axes. The chord coefficients of direction j are column j of A·D, stored by column below.
+   */
+  D: Float64Array | null;
+  dirNorm2: Float64Array;
+  /** Lower factor G with D = G⁻ᵀ (identity when D is null), handed to the slice sampler. */
+  G: Float64Array;
+  /** A·D (or A) stored by column, for the moves. */
   colPtr: Int32Array;
   colIdx: Int32Array;
   colVal: Float64Array;
@@ -55,6 +63,64 @@ export interface Frame {
   logJac: number;
   toZ(y: Float64Array, out: Float64Array): Float64Array;
   toY(z: Float64Array, out: Float64Array): Float64Array;
+}
+
+function identity(n: number): Float64Array {
+  const I = new Float64Array(n * n);
+  for (let q = 0; q < n; q++) I[q * n + q] = 1;
+  return I;
+}
+
+/** Column-compressed copy of an m × n row-major matrix, with reciprocals of the entries. */
+function columns(B: Float64Array, m: number, n: number) {
+  const colPtr = new Int32Array(n + 1);
+  for (let i = 0; i < m; i++) for (let j = 0; j < n; j++) if (B[i * n + j] !== 0) colPtr[j + 1]++;
+  for (let j = 0; j < n; j++) colPtr[j + 1] += colPtr[j];
+  const colIdx = new Int32Array(colPtr[n]);
+  const colVal = new Float64Array(colPtr[n]);
+  const fill = colPtr.slice(0, n);
+  for (let i = 0; i < m; i++)
+    for (let j = 0; j < n; j++) {
+      const v = B[i * n + j];
+      if (v !== 0) {
+        colIdx[fill[j]] = i;
+        colVal[fill[j]++] = v;
+      }
+    }
+  return { colPtr, colIdx, colVal, colInv: colVal.map((v) => 1 / v) };
+}
+
+/**
+ * The same frame with moves along the columns of D = G⁻ᵀ (G lower triangular): directions that are
+ * round for the metric G Gᵀ. Used when the frame whitens a reference Gaussian but the region is far
+ * from round in it (a thin strip, a near-equality): moves along the frame's axes would barely move.
+ */
+export function withRounding(f: Frame, G: Float64Array): Frame {
+  const { n, m } = f;
+  const D = new Float64Array(n * n);
+  const e = new Float64Array(n);
+  const col = new Float64Array(n);
+  const dirNorm2 = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    e.fill(0);
+    e[j] = 1;
+    backwardL(G, n, e, col);
+    let s2 = 0;
+    for (let q = 0; q < n; q++) {
+      D[q * n + j] = col[q];
+      s2 += col[q] * col[q];
+    }
+    dirNorm2[j] = s2;
+  }
+  const B = new Float64Array(m * n);
+  for (let i = 0; i < m; i++)
+    for (let k = 0; k < n; k++) {
+      const a = f.Ay[i * n + k];
+      if (a === 0) continue;
+      for (let j = 0; j < n; j++) B[i * n + j] += a * D[k * n + j];
+    }
+  for (let k = 0; k < m * n; k++) if (Math.abs(B[k]) < 1e-300) B[k] = 0;
+  return { ...f, D, dirNorm2, G, ...columns(B, m, n) };
 }
 
 export function makeFrame(p: PreparedTarget, origin: Float64Array, L: Float64Array): Frame {
@@ -83,20 +149,6 @@ export function makeFrame(p: PreparedTarget, origin: Float64Array, L: Float64Arr
   }
   let logJac = 0;
   for (let j = 0; j < n; j++) logJac -= Math.log(L[j * n + j]);
-  const colPtr = new Int32Array(n + 1);
-  for (let i = 0; i < m; i++) for (let j = 0; j < n; j++) if (Ay[i * n + j] !== 0) colPtr[j + 1]++;
-  for (let j = 0; j < n; j++) colPtr[j + 1] += colPtr[j];
-  const colIdx = new Int32Array(colPtr[n]);
-  const colVal = new Float64Array(colPtr[n]);
-  const fill = colPtr.slice(0, n);
-  for (let i = 0; i < m; i++)
-    for (let j = 0; j < n; j++) {
-      const v = Ay[i * n + j];
-      if (v !== 0) {
-        colIdx[fill[j]] = i;
-        colVal[fill[j]++] = v;
-      }
-    }
   const tmp = new Float64Array(n);
   return {
     n,
@@ -105,10 +157,10 @@ export function makeFrame(p: PreparedTarget, origin: Float64Array, L: Float64Arr
     Ay,
     b,
     rowNorm,
-    colPtr,
-    colIdx,
-    colVal,
-    colInv: colVal.map((v) => 1 / v),
+    D: null,
+    dirNorm2: new Float64Array(n).fill(1),
+    G: identity(n),
+    ...columns(Ay, m, n),
     origin: Float64Array.from(origin),
     L,
     logJac,
@@ -235,13 +287,15 @@ function resetSlacks(f: Frame, w: Walker): void {
 }
 
 /**
- * One coordinate hit-and-run move (a uniformly chosen axis of the frame, which is rounded) for
+ * One hit-and-run move along a uniformly chosen direction of the frame's fixed set (its axes, or the
+ * rounded directions of withRounding; each used forwards and backwards alike) for
  * q(y) ∝ exp(−P |y − μ|²/2) on the polytope (P = β + κ, μ = βc/P), or the uniform distribution when
  * P = 0: the point on the chord is drawn exactly. Costs one column of the rows.
  */
 function gaussMove(f: Frame, w: Walker, P: number, mu: Float64Array | null, rng: Rng): void {
-  const j = rng.int(f.n);
-  const { colPtr, colIdx, colVal, colInv } = f;
+  const n = f.n;
+  const j = rng.int(n);
+  const { colPtr, colIdx, colVal, colInv, D } = f;
   const s = w.s;
   const q0 = colPtr[j];
   const q1 = colPtr[j + 1];
@@ -260,8 +314,15 @@ function gaussMove(f: Frame, w: Walker, P: number, mu: Float64Array | null, rng:
     }
     t = tmin + (tmax - tmin) * rng.uniformPositive();
   } else {
-    const sd = 1 / Math.sqrt(P);
-    const m0 = -(w.y[j] - (mu ? mu[j] : 0));
+    // Along y + t d: exponent −P/2 |y + t d − μ|², a normal in t with precision P|d|².
+    const d2 = f.dirNorm2[j];
+    let proj: number;
+    if (D) {
+      proj = 0;
+      for (let q = 0; q < n; q++) proj += D[q * n + j] * (w.y[q] - (mu ? mu[q] : 0));
+    } else proj = w.y[j] - (mu ? mu[j] : 0);
+    const sd = 1 / Math.sqrt(P * d2);
+    const m0 = -proj / d2;
     t = m0 + sd * truncatedStdNormal((tmin - m0) / sd, (tmax - m0) / sd, rng);
   }
   let ok = true;
@@ -274,7 +335,8 @@ function gaussMove(f: Frame, w: Walker, P: number, mu: Float64Array | null, rng:
     for (let q = q0; q < q1; q++) s[colIdx[q]] += t * colVal[q];
     return;
   }
-  w.y[j] += t;
+  if (D) for (let q = 0; q < n; q++) w.y[q] += t * D[q * n + j];
+  else w.y[j] += t;
 }
 
 /** Union bound on the mass of N(μ, sd² I) outside the polytope: Σ Φ̄(sᵢ / (|aᵢ| sd)), with Φ̄(x) ≤ φ(x)/x. */
@@ -410,8 +472,6 @@ export function temper(
   const ref = (y: Float64Array) => (kappa === 0 ? 0 : -0.5 * dot(y, y));
   let t = 0;
   const log: StageLog = { stages: 0, draws: 0, moves: 0, densityEvaluations: 0 };
-  const identity = new Float64Array(n * n);
-  for (let q = 0; q < n; q++) identity[q * n + q] = 1;
   const zBuf = new Float64Array(n);
   const frameTarget: PreparedTarget = {
     target: p.target,
@@ -428,7 +488,7 @@ export function temper(
     centre: walkers[0].y,
     rowLabels: p.rowLabels,
     bounded: p.bounded,
-    dikinL: identity,
+    dikinL: f.G,
     rows: f.rows,
     theta0: p.theta0,
     N: p.N,

@@ -28,7 +28,7 @@ import { analyticCentre, isFlat } from '../geometry';
 import { Cholesky } from '../linalg/cholesky';
 import { findMode } from '../mode';
 import { Rng } from '../rng';
-import { gaussianAnneal, makeFrame, temper, type AnnealSettings, type Frame, type StageLog } from './anneal';
+import { gaussianAnneal, makeFrame, temper, withRounding, type AnnealSettings, type Frame, type StageLog } from './anneal';
 
 export type EvidenceReference = 'auto' | 'uniform' | 'gaussian';
 
@@ -165,13 +165,29 @@ function gaussianPlan(p: PreparedTarget): GaussianPlan | null {
   const offset = p.logDensity(zStar, new Float64Array(n));
   if (!Number.isFinite(offset)) return null;
   let centre: Float64Array = new Float64Array(n);
-  if (p.m > 0) {
-    const y0 = frame.toY(p.centre, new Float64Array(n));
-    const ac = analyticCentre(frame.rows, frame.b, y0, 1);
-    if (!ac.converged) return null;
-    centre = ac.z;
+  if (p.m === 0) return { frame, centre, offset };
+  const y0 = frame.toY(p.centre, new Float64Array(n));
+  const ac = analyticCentre(frame.rows, frame.b, y0, 1);
+  if (!ac.converged) return null;
+  centre = ac.z;
+  // Moves are rounded by I + Σ aᵢaᵢᵀ/sᵢ² at the centre (the reference's precision plus the barrier's
+  // Hessian), so a region that is thin in the reference's frame is still crossed in a few moves.
+  const H = new Float64Array(n * n);
+  for (let q = 0; q < n; q++) H[q * n + q] = 1;
+  const slc = new Float64Array(p.m);
+  frame.rows.mul(centre, slc);
+  for (let i = 0; i < p.m; i++) {
+    const w = 1 / (frame.b[i] - slc[i]) ** 2;
+    for (let a = 0; a < n; a++) {
+      const va = frame.Ay[i * n + a];
+      if (va === 0) continue;
+      for (let c = 0; c <= a; c++) H[a * n + c] += w * va * frame.Ay[i * n + c];
+    }
   }
-  return { frame, centre, offset };
+  for (let a = 0; a < n; a++) for (let c = 0; c < a; c++) H[c * n + a] = H[a * n + c];
+  const hc = new Cholesky(n);
+  if (!hc.factor(H)) return { frame, centre, offset };
+  return { frame: withRounding(frame, Float64Array.from(hc.L)), centre, offset };
 }
 
 export function computeEvidence(p: PreparedTarget, opts: EvidenceOptions = {}): EvidenceResult {

@@ -57,6 +57,15 @@ describe('log Z of the conjugate normal model', { timeout: 60_000 }, () => {
     });
   }
 
+  it('a thin unbounded strip 0 ≤ a − b ≤ 0.01 under independent standard normals: Φ(0.01/√2) − ½ (a − b ~ N(0, 2); CDF from @stdlib)', () => {
+    // A near-equality: the region is 100× narrower than the density across it and unbounded along it.
+    const r = programEvidence('unknown a, b\nterm ld_normal(a, 0, 1) + ld_normal(b, 0, 1)\nconstrain 0 <= a - b <= 0.01\n', {}, { replicates: 8, seed: 24 });
+    const truth = Math.log(normal.cdf(0.01 / Math.SQRT2, 0, 1) - 0.5);
+    expect(r.reference).toBe('gaussian');
+    expect(r.se).toBeLessThan(0.05);
+    expect(Math.abs(r.logZ - truth)).toBeLessThanOrEqual(3 * r.se);
+  });
+
   it('a 3-dimensional version: three independent means in a box (product of the 1-D answers)', () => {
     const src =
       'table obs\nunknown mu[3]\n' +
