@@ -2,7 +2,8 @@
  * Evidence command: `npm run evidence -- <model file> [options]` (see evidence-args.ts).
  *
  * Runs in-process (it is a command, not the server). Exit codes: 0 computed; 1 the model, data or
- * computation failed; 2 the command line was wrong; 130 cancelled with Ctrl-C.
+ * computation failed; 2 the command line was wrong; Ctrl-C ends the process (status 130). An
+ * AbortSignal passed by a caller (opts.signal) is checked between annealing stages.
  */
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -236,9 +237,9 @@ export async function main(argv: string[], io: CliIo = processIo, opts: Evidence
 
 const invokedDirectly = process.argv[1] && import.meta.url === pathToFileURL(path.resolve(process.argv[1])).href;
 if (invokedDirectly) {
-  const controller = new AbortController();
-  process.on('SIGINT', () => controller.abort());
-  main(process.argv.slice(2), processIo, { signal: controller.signal }).then(
+  // The computation runs synchronously in this thread, so Ctrl-C keeps Node's default (the process
+  // ends at once, exit status 130 in the shell) rather than an abort signal that could not land.
+  main(process.argv.slice(2), processIo).then(
     (code) => process.exit(code),
     (e) => {
       process.stderr.write(`${(e as Error).stack ?? e}\n`);
