@@ -16,6 +16,9 @@ export interface LangMessage {
   suggestion?: string;
 }
 
+/** What a term line contributes: part of the prior, or part of the likelihood. */
+export type TermRole = 'prior' | 'likelihood';
+
 export type CompareOp = '<=' | '<' | '>=' | '>' | '==';
 
 /** Shape: [] scalar, [n] vector, [rows, cols] matrix. */
@@ -72,7 +75,15 @@ export type Statement =
   | { kind: 'unknown'; line: number; text: string; decls: UnknownDecl[] }
   | { kind: 'const'; line: number; text: string; name: string; nameSpan: Span; expr: Expr }
   | { kind: 'let'; line: number; text: string; name: string; nameSpan: Span; expr: Expr }
-  | { kind: 'term'; line: number; text: string; expr: Expr }
+  | {
+      kind: 'term';
+      line: number;
+      text: string;
+      expr: Expr;
+      /** Role written explicitly with a trailing `:: prior` or `:: likelihood` (see roles.ts). */
+      role?: TermRole;
+      roleSpan?: Span;
+    }
   | { kind: 'constrain'; line: number; text: string; expr: Expr }
   | { kind: 'derive'; line: number; text: string; name: string; nameSpan: Span; expr: Expr }
   | { kind: 'replicate'; line: number; text: string; name: string; nameSpan: Span; expr: Extract<Expr, { kind: 'call' }> };

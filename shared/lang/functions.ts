@@ -23,7 +23,11 @@ export const LANGUAGE_KEYWORDS: readonly KeywordInfo[] = Object.freeze([
     doc: 'Name an expression for reuse; a list of data columns in brackets builds a data matrix.',
     example: 'let X = [rain, shade, slope]',
   },
-  { name: 'term', doc: 'Add a scalar to the log-density (all term lines are summed).', example: 'term ld_normal(yield, mu, sigma)' },
+  {
+    name: 'term',
+    doc: 'Add a scalar to the log-density (all term lines are summed). A line that reads data is likelihood, otherwise prior; end it with :: prior or :: likelihood to say otherwise.',
+    example: 'term ld_normal(yield, mu, sigma)',
+  },
   {
     name: 'constrain',
     doc: 'An affine constraint on the unknowns: <=, <, >=, >, == (chains and vectors allowed).',

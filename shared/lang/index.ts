@@ -21,8 +21,10 @@ export type {
   Shape,
   Span,
   Statement,
+  TermRole,
   UnknownInfo,
 } from './ast';
+export { termRole, termRoles, type TermRoleInfo } from './roles';
 export { checkProgram, flatNames, type CheckResult, type SymbolInfo } from './check';
 export type { LinearRows, ExtractResult } from './affine';
 export { evaluateValue, DEFAULT_MATH, isMat, type DataValues, type DensityHook, type Mat, type Value, type ScalarFn } from './evaluate';
@@ -38,7 +40,7 @@ export {
   type FunctionKind,
   type KeywordInfo,
 } from './functions';
-export { LangError, parseLine, scan, MAX_NAME_LENGTH } from './parse';
+export { LangError, parseLine, scan, MAX_NAME_LENGTH, ROLE_MARK } from './parse';
 export { closest, editDistance } from './suggest';
 export { isLikelihoodTerm, readsDataColumn } from './term-role';
 

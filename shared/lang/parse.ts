@@ -46,7 +46,8 @@ function describeChar(c: string): string {
   if (c === '{' || c === '}') return 'braces are not used: one statement per line';
   if (c === '%') return '`%` (remainder) is not available';
   if (c === '!') return '`!` is not available';
-  if (c === '?' || c === ':') return 'conditional expressions (`?` `:`) are not available';
+  if (c === ':') return '`:` is not used; `::` only ends a term line, as in `term … :: prior`';
+  if (c === '?') return 'conditional expressions (`?` `:`) are not available';
   if (c === '&' || c === '|') return 'logical operators are not available';
   const code = c.codePointAt(0) ?? 0;
   if (code > 126 || code < 32) return `the character U+${code.toString(16).toUpperCase().padStart(4, '0')} is not allowed here`;
@@ -405,6 +406,9 @@ export function parseExpression(line: string, start: number, end: number, allowC
 /* Statements                                                                                */
 /* ---------------------------------------------------------------------------------------- */
 
+/** Marker before a term line's explicit role: `term ld_normal(mu, 0, 10) :: prior`. */
+export const ROLE_MARK = '::';
+
 export interface ParsedLine {
   statement?: Statement;
   error?: LangError;
@@ -486,7 +490,9 @@ export function parseLine(raw: string, line: number): ParsedLine {
   const kwStart = m ? m[0].length : 0;
   if (kwStart >= code.length) return {};
   try {
-    const firstToks = scan(code.slice(kwStart), kwStart);
+    // Only the first word decides the statement; the rest is scanned by the statement's parser.
+    const head = /^[A-Za-z_][A-Za-z0-9_]*/.exec(code.slice(kwStart));
+    const firstToks = scan(head && KEYWORD_NAMES.has(head[0]) ? head[0] : code.slice(kwStart), kwStart);
     const kw = firstToks[0];
     if (!kw || kw.kind !== 'id' || !KEYWORD_NAMES.has(kw.text)) {
       const t = kw ?? { start: kwStart, end: code.length };
@@ -515,8 +521,23 @@ export function parseLine(raw: string, line: number): ParsedLine {
         const a = parseAssignment(code, after, kw.text, false);
         return { statement: { kind: kw.text, line, text, ...a } };
       }
-      case 'term':
-        return { statement: { kind: 'term', line, text, expr: parseExpression(code, after, code.length, false) } };
+      case 'term': {
+        // A trailing `:: prior` or `:: likelihood` states the term's role explicitly (roles.ts).
+        const mark = code.indexOf(ROLE_MARK, after);
+        if (mark < 0) return { statement: { kind: 'term', line, text, expr: parseExpression(code, after, code.length, false) } };
+        const word = code.slice(mark + ROLE_MARK.length);
+        const wStart = mark + ROLE_MARK.length + (word.length - word.trimStart().length);
+        const w = word.trim();
+        const roleSpan = { start: mark, end: Math.max(mark + ROLE_MARK.length, wStart + w.length) };
+        if (w !== 'prior' && w !== 'likelihood') {
+          throw new LangError(
+            roleSpan,
+            w ? `\`${w}\` is not a role: write \`:: prior\` or \`:: likelihood\` at the end of the term line` : 'the role is missing after `::` (write `:: prior` or `:: likelihood`)',
+          );
+        }
+        const expr = parseExpression(code, after, mark, false);
+        return { statement: { kind: 'term', line, text, expr, role: w, roleSpan } };
+      }
       case 'replicate': {
         const a = parseAssignment(code, after, 'replicate', false);
         if (a.expr.kind !== 'call')

@@ -45,6 +45,8 @@ function token(stream: StringStream, state: LineState): string | null {
     if (fn && stream.match(/^\s*\(/, false)) return fn.kind === 'density' || fn.kind === 'density_vector' ? 'density' : 'mathFunction';
     return 'variableName';
   }
+  // A term line's role marker (shared/lang/roles.ts): `:: prior`, `:: likelihood`.
+  if (stream.match(/^::\s*(?:prior|likelihood)\b/)) return 'keyword';
   if (stream.match(/^(?:<=|>=|==|<|>)/)) return 'comparison';
   if (stream.eat('.')) {
     state.afterDot = true;

@@ -58,6 +58,11 @@ describe('ModelEditor highlighting', () => {
     // A keyword in the middle of a line is not a statement keyword.
     expect(container.querySelector('.cm-content')?.getAttribute('aria-label')).toBe('Model');
   });
+
+  it('marks a term line\'s role marker as a keyword (docs/language.md)', async () => {
+    const { container } = mount({ value: 'unknown a\nterm ld_normal(a, 0, 1) :: prior' });
+    await waitFor(() => expect(texts(container, 'sl-tok-keyword')).toEqual(['unknown', 'term', ':: prior']));
+  });
 });
 
 describe('ModelEditor completion', () => {
