@@ -56,7 +56,7 @@ export type DataTables = Record<string, DataTable>;
 /**
  * How a worker thread rebuilds a target: targets hold closures and cannot cross threads.
  * - program: model-language source plus its data, compiled inside the worker; `priorOnly` drops
- *   the likelihood terms (shared/lang/term-role.ts) for a fit of the prior alone;
+ *   the likelihood terms (shared/lang/roles.ts) for a fit of the prior alone;
  * - module: an ES module exporting a factory (used by tests and the benchmark).
  */
 export type TargetSpec =

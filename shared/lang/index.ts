@@ -42,7 +42,7 @@ export {
 } from './functions';
 export { LangError, parseLine, scan, MAX_NAME_LENGTH, ROLE_MARK } from './parse';
 export { closest, editDistance } from './suggest';
-export { isLikelihoodTerm, readsDataColumn } from './term-role';
+export { isLikelihoodTerm } from './roles';
 
 /**
  * Constraint rows with data values filled in. `ast` is a checked program with its dimension

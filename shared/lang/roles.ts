@@ -73,3 +73,11 @@ export function termRole(s: Extract<Statement, { kind: 'term' }>): TermRoleInfo 
 export function termRoles(program: Program): TermRoleInfo[] {
   return program.statements.filter((s): s is Extract<Statement, { kind: 'term' }> => s.kind === 'term').map(termRole);
 }
+
+/**
+ * True for a checked `term` statement whose role is likelihood (by the rule or by its `:: likelihood`
+ * mark). Pointwise log-likelihood, leave-one-out and prior-only fits use this one predicate.
+ */
+export function isLikelihoodTerm(s: Statement): boolean {
+  return s.kind === 'term' && termRole(s).role === 'likelihood';
+}

@@ -3,7 +3,7 @@
  *
  *  - replicates: every `replicate` statement becomes code that, given a draw θ and a seeded stream,
  *    simulates a new copy of its observed data from its density (server/engine/predictive/generators);
- *  - pointwise log-likelihood: the likelihood terms (shared/lang/term-role.ts) as a function
+ *  - pointwise log-likelihood: the likelihood terms (shared/lang/roles.ts) as a function
  *    θ → one log-likelihood value per data row;
  *  - prior-only programs: the checked program without its likelihood terms.
  *

@@ -165,6 +165,8 @@ describe('replicate generators', () => {
     ['ld_poisson', [250], (k) => Math.exp((stdPoissonLogpmf as F)(k, 250)), 500, 250, 250],
     ['ld_binomial', [12, 0.3], (k) => jStat.binomial.pdf(k, 12, 0.3), 12, 3.6, 12 * 0.3 * 0.7],
     ['ld_binomial', [400, 0.55], (k) => jStat.binomial.pdf(k, 400, 0.55), 400, 220, 400 * 0.55 * 0.45],
+    // n·p ≥ 10 and p < ½: the case where @stdlib/random-base-binomial 0.2.2 is biased (see generators.ts)
+    ['ld_binomial', [40, 0.45], (k) => jStat.binomial.pdf(k, 40, 0.45), 40, 18, 40 * 0.45 * 0.55],
     ['ld_bernoulli', [0.35], (k) => (k === 1 ? 0.35 : k === 0 ? 0.65 : 0), 1, 0.35, 0.35 * 0.65],
   ];
   it.each(discrete.map((c, i) => [c[0], c[1].join(', '), i]))('%s(%s): chi-square and moments', (_n, _p, i) => {
