@@ -333,6 +333,19 @@ export const regionSystemSchema = z.object({
 });
 export type RegionSystem = z.infer<typeof regionSystemSchema>;
 
+/**
+ * The constraint region projected onto unknowns i and j (0-based, i < j): a convex polygon,
+ * counter-clockwise, clipped to a box well around the draws (`clipped` when the box cut it).
+ * Every draw's (θᵢ, θⱼ) lies inside it.
+ */
+export const regionProjectionSchema = z.object({
+  i: z.number().int(),
+  j: z.number().int(),
+  vertices: z.array(z.tuple([z.number(), z.number()])),
+  clipped: z.boolean(),
+});
+export type RegionProjection = z.infer<typeof regionProjectionSchema>;
+
 /** Draws for plotting: per chain, per quantity, the kept draws (possibly thinned). */
 export const runDrawsResponse = z.object({
   names: z.array(z.string()),
@@ -350,6 +363,8 @@ export const runDrawsResponse = z.object({
     }),
   ),
   region: regionSystemSchema.nullable(),
+  /** Projections of the region onto pairs of the first unknowns (absent from older servers). */
+  projections: z.array(regionProjectionSchema).optional(),
 });
 export type RunDraws = z.infer<typeof runDrawsResponse>;
 export const runDrawsQuery = z.strictObject({

@@ -1,9 +1,10 @@
 import { useMemo, useState } from 'react';
 import type { RunDraws } from '@shared/api/notebook';
-import { densitySpec, pairSpec, rankSpec, regionSpec, traceSpec } from '@/lib/plot/specs';
+import { densitySpec, pairSpec, rankSpec, traceSpec } from '@/lib/plot/specs';
 import { rankHistogram, thinIndices } from '@/lib/plot/thin';
-import { buildRegionView } from '@/lib/plot/region-view';
+import { buildRegionView, buildTriangleView, shareTriples } from '@/lib/plot/region-view';
 import { PlotFrame } from './plot-frame';
+import { RegionFigure, TriangleFigure } from './region-figure';
 
 export const PLOT_KINDS = ['region', 'trace', 'density', 'rank', 'pair'] as const;
 export type PlotKind = (typeof PLOT_KINDS)[number];
@@ -30,10 +31,27 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
   const [q, setQ] = useState(0);
   const [pair, setPair] = useState<[number, number]>([0, Math.min(1, draws.names.length - 1)]);
   const chains = draws.chains.length;
+  const triples = useMemo(() => shareTriples(draws.region), [draws.region]);
+  /** Region view: -1 for two unknowns, otherwise the index of a triple of shares. */
+  const [regionMode, setRegionMode] = useState(triples.length > 0 ? 0 : -1);
+  const triangle = kind === 'region' && regionMode >= 0 && triples[regionMode] ? triples[regionMode] : null;
+  const regionFigure = useMemo(() => {
+    if (kind !== 'region') return null;
+    if (triangle) {
+      const v = buildTriangleView(draws, triangle.members, triangle.total);
+      const names = triangle.members.map((k) => draws.names[k]) as [string, string, string];
+      return { available: v.available, clipped: v.clipped, node: <TriangleFigure names={names} polygon={v.polygon} draws={v.draws} point={v.point} /> };
+    }
+    const [i, j] = pair;
+    if (i === j || i >= draws.unknownCount || j >= draws.unknownCount) return null;
+    const v = buildRegionView(draws, i, j);
+    return { available: v.available, clipped: v.clipped, node: <RegionFigure xName={draws.names[i]} yName={draws.names[j]} box={v.box} polygon={v.polygon} draws={v.draws} point={v.point} /> };
+  }, [kind, triangle, pair, draws]);
 
   const pairSame = pair[0] === pair[1];
   const spec = useMemo(() => {
-    if ((kind === 'pair' || kind === 'region') && pair[0] === pair[1]) return null;
+    if (kind === 'region') return null;
+    if (kind === 'pair' && pair[0] === pair[1]) return null;
     const values = (idx: number) => draws.chains.map((c) => c.values[idx] ?? []);
     switch (kind) {
       case 'trace': {
@@ -62,11 +80,8 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
         });
         return pairSpec(draws.names[i], draws.names[j], rows, chains);
       }
-      case 'region': {
-        const [i, j] = pair;
-        const view = buildRegionView(draws, draws.region!, Math.min(i, draws.unknownCount - 1), Math.min(j, draws.unknownCount - 1));
-        return regionSpec({ xName: draws.names[i], yName: draws.names[j], ...view });
-      }
+      default:
+        return null;
     }
   }, [kind, q, pair, draws, chains]);
 
@@ -82,7 +97,18 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
         ))}
       </div>
       <div className="flex flex-wrap items-end gap-3 text-sm">
-        {kind === 'pair' || kind === 'region' ? (
+        {kind === 'region' && triples.length > 0 && (
+          <label className="flex items-center gap-2">
+            <span className="sl-cell-sub">view</span>
+            <select className="sl-input" style={{ width: 'auto' }} value={regionMode} onChange={(e) => setRegionMode(Number(e.target.value))} aria-label="Region view">
+              {triples.map((t, k) => (
+                <option key={k} value={k}>{t.members.map((m) => draws.names[m]).join(' + ')} (triangle)</option>
+              ))}
+              <option value={-1}>two unknowns</option>
+            </select>
+          </label>
+        )}
+        {(kind === 'pair' || kind === 'region') && !triangle ? (
           <>
             <label className="flex items-center gap-2">
               <span className="sl-cell-sub">across</span>
@@ -97,7 +123,7 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
               </select>
             </label>
           </>
-        ) : (
+        ) : kind === 'region' ? null : (
           <label className="flex items-center gap-2">
             <span className="sl-cell-sub">quantity</span>
             <select className="sl-input" style={{ width: 'auto' }} value={q} onChange={(e) => setQ(Number(e.target.value))} aria-label="Quantity">
@@ -108,12 +134,22 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
       </div>
       {kind === 'region' && (
         <p className="sl-hint" style={{ maxWidth: '44rem' }}>
-          The slice of the constraint region through the posterior mean: every other unknown is held at its mean, each
-          constraint becomes a line in this plane, and the tinted side is where all of them hold. Draws vary in the other
-          unknowns too, so a few may sit outside this one slice.
+          {triangle
+            ? `Each corner is one share taking the whole ${triangle.total === 1 ? 'total' : `total of ${triangle.total}`}; the tinted shape is every mix the constraints allow, and every draw lies in it.`
+            : 'The tinted shape is every pair of values the constraints allow once the other unknowns are free to move (the region seen from these two axes); every draw lies in it.'}
+          {regionFigure?.clipped ? ' The region reaches beyond the frame; the frame shows where the draws are.' : ''}
         </p>
       )}
-      {spec === null || pairSame ? (
+      {kind === 'region' ? (
+        regionFigure === null ? (
+          <p className="sl-cell-sub">Choose two different unknowns.</p>
+        ) : (
+          <figure aria-label="Feasible region plot" data-testid="plot" style={{ margin: 0 }}>
+            {regionFigure.node}
+            {!regionFigure.available && <figcaption className="sl-hint">No outline for this pair: the region is outlined for pairs among the first twelve unknowns.</figcaption>}
+          </figure>
+        )
+      ) : spec === null || pairSame ? (
         <p className="sl-cell-sub">Choose two different quantities.</p>
       ) : (
         <PlotFrame spec={spec} label={`${PLOT_WORDS[kind]} plot`} />

@@ -2,7 +2,7 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { cleanup, fireEvent, render, screen } from '@testing-library/react';
 import { readFileSync } from 'node:fs';
-import { densitySpec, pairSpec, rankSpec, regionSpec, traceSpec } from '../../../../src/lib/plot/specs';
+import { densitySpec, pairSpec, rankSpec, traceSpec } from '../../../../src/lib/plot/specs';
 import { PALETTE } from '../../../../src/lib/plot/palette';
 import { FitPlots } from '../../../../src/features/notebook/components/fit-plots';
 import type { RunDraws } from '../../../../shared/api/notebook';
@@ -27,20 +27,6 @@ describe('plot specifications', () => {
     expect(p).toContain('datum.divergent == 1');
   });
 
-  it('region view: tinted accent polygon, constraint strokes, draws, and the slice point', () => {
-    const spec = regionSpec({
-      xName: 'w[1]',
-      yName: 'w[2]',
-      box: { xMin: 0, xMax: 1, yMin: 0, yMax: 1 },
-      polygon: [{ x: 0, y: 0 }, { x: 1, y: 0 }, { x: 0, y: 1 }],
-      lines: [{ x1: 0, y1: 1, x2: 1, y2: 0, label: 'sum <= 1' }],
-      draws: [{ x: 0.2, y: 0.3 }],
-      point: { x: 0.3, y: 0.3 },
-    }) as { layer: Layer[] };
-    expect(spec.layer.map((l) => l.mark.type)).toEqual(['line', 'circle', 'rule', 'point']);
-    expect(spec.layer[0].mark.fill).toBe(PALETTE.accent);
-    expect(JSON.stringify(spec)).not.toContain(PALETTE.warning);
-  });
 });
 
 const draws: RunDraws = {
@@ -64,6 +50,10 @@ describe('fit plots panel', () => {
   it('opens on the feasible-region view and offers only unknowns as its axes', () => {
     render(<FitPlots draws={draws} />);
     expect(screen.getByRole('tab', { name: 'Feasible region' }).getAttribute('aria-selected')).toBe('true');
+    // Three shares summing to one open in their own coordinates, the triangle.
+    expect(screen.getByTestId('triangle-figure')).toBeTruthy();
+    fireEvent.change(screen.getByLabelText('Region view'), { target: { value: '-1' } });
+    expect(screen.getByTestId('region-figure')).toBeTruthy();
     const across = screen.getByLabelText('Horizontal quantity') as HTMLSelectElement;
     expect([...across.options].map((o) => o.textContent)).toEqual(['w[1]', 'w[2]', 'w[3]']);
     fireEvent.click(screen.getByRole('tab', { name: 'Pair' }));
@@ -72,8 +62,9 @@ describe('fit plots panel', () => {
 
   it('asks for two different quantities', () => {
     render(<FitPlots draws={draws} />);
+    fireEvent.change(screen.getByLabelText('Region view'), { target: { value: '-1' } });
     fireEvent.change(screen.getByLabelText('Vertical quantity'), { target: { value: '0' } });
-    expect(screen.getByText('Choose two different quantities.')).toBeTruthy();
+    expect(screen.getByText('Choose two different unknowns.')).toBeTruthy();
   });
 
   it('without a constraint region the panel starts on the trace', () => {
