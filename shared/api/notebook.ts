@@ -7,6 +7,7 @@ import { z } from 'zod';
 import { fitProgressSchema, fitSettingsSchema, fitSummarySchema } from '../fit';
 import { idSchema, isoDateSchema } from './common';
 import { CELL_KINDS, cellKindSchema, cellSchema } from './notebooks';
+import { ACTIVE_RUN_STATUSES, RUN_STATUSES } from '../terms';
 
 /** Identifiers, dates, cell kinds and cells are the foundation's own schemas (one definition each). */
 export const nbIdSchema = idSchema;
@@ -269,7 +270,7 @@ export type CompileResponse = z.infer<typeof compileResponse>;
 /* Runs                                                                                        */
 /* ------------------------------------------------------------------------------------------ */
 
-export const RUN_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
+export { RUN_STATUSES, ACTIVE_RUN_STATUSES };
 export const runStatusSchema = z.enum(RUN_STATUSES);
 export type RunStatus = z.infer<typeof runStatusSchema>;
 

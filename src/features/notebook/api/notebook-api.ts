@@ -7,6 +7,7 @@ import type { FitSettings } from '@shared/fit';
 import { cellConflictResponse, nbCellResponse, saveCellBody, type CellConflictResponse, type NbCellKind, type Run } from '@shared/api/notebook';
 import { ApiError, callRoute, toApiError } from '@/lib/api-client';
 import { nbKeys } from './keys';
+import { ACTIVE_RUN_STATUSES } from '@shared/terms';
 
 export type NotebookAccess =
   | { mode: 'member'; workspaceId: string; notebookId: string }
@@ -118,7 +119,7 @@ export function useModelCheck(workspaceId: string, notebookId: string, source: s
 }
 
 // ---- runs ----
-const ACTIVE: Run['status'][] = ['queued', 'running'];
+const ACTIVE: readonly Run['status'][] = ACTIVE_RUN_STATUSES;
 
 export function useCellRuns(access: NotebookAccess, cellId: string) {
   return useQuery({

@@ -1,5 +1,7 @@
 import type { QuantitySummary } from '@shared/fit';
-import { essFails, rhatFails, RHAT_LIMIT, ESS_PER_CHAIN } from '@/lib/diagnostic-thresholds';
+import { essFails, rhatFails, DIAGNOSTIC_THRESHOLDS } from '@shared/diagnostics';
+const RHAT_LIMIT = DIAGNOSTIC_THRESHOLDS.rhatRunLonger;
+const ESS_PER_CHAIN = DIAGNOSTIC_THRESHOLDS.essPerChain;
 import { formatEss, formatEstimate, formatRhat } from '@/lib/estimates';
 
 export interface SummaryTableProps {
@@ -30,7 +32,7 @@ export function SummaryTable({ quantities, chains }: SummaryTableProps) {
         <td className="sl-num">{formatEstimate(q.q5)}</td>
         <td className="sl-num">{formatEstimate(q.q50)}</td>
         <td className="sl-num">{formatEstimate(q.q95)}</td>
-        <td className={`sl-num${rf ? ' sl-fail' : ''}`} title={rf ? `R̂ should be below ${RHAT_LIMIT}` : undefined}>{formatRhat(q.rhat)}</td>
+        <td className={`sl-num${rf ? ' sl-fail' : ''}`} title={rf ? `R̂ should be at most ${RHAT_LIMIT}` : undefined}>{formatRhat(q.rhat)}</td>
         <td className={`sl-num${bf ? ' sl-fail' : ''}`} title={bf ? `bulk-ESS should be at least ${essLimit}` : undefined}>{formatEss(q.essBulk)}</td>
         <td className={`sl-num${tf ? ' sl-fail' : ''}`} title={tf ? `tail-ESS should be at least ${essLimit}` : undefined}>{formatEss(q.essTail)}</td>
         <td className="sl-num">{formatEstimate(q.mcseMean, 2)}</td>
@@ -48,7 +50,7 @@ export function SummaryTable({ quantities, chains }: SummaryTableProps) {
             <th scope="col">5 %</th>
             <th scope="col">50 %</th>
             <th scope="col">95 %</th>
-            <th scope="col" title={`rank-normalised split-R̂; below ${RHAT_LIMIT} passes`}>R̂</th>
+            <th scope="col" title={`rank-normalised split-R̂; at most ${RHAT_LIMIT} passes`}>R̂</th>
             <th scope="col" title={`at least ${essLimit} passes`}>bulk-ESS</th>
             <th scope="col" title={`at least ${essLimit} passes`}>tail-ESS</th>
             <th scope="col" title="Monte Carlo standard error of the mean">MCSE</th>
