@@ -38,6 +38,8 @@ export interface CellViewProps {
   runSignal: number;
   editingNotes: boolean;
   setEditingNotes: (v: boolean) => void;
+  /** Runs this cell as Mod-Enter does (for editors that take the key before the column sees it). */
+  onRun?: () => void;
 }
 
 export function NotesCellView(p: CellViewProps) {
@@ -111,7 +113,7 @@ export function ModelCellView(p: CellViewProps) {
   return (
     <div className="grid gap-4" style={{ gridTemplateColumns: 'minmax(0, 1fr) minmax(12rem, 16rem)' }}>
       <div style={{ minWidth: 0 }}>
-        <ModelEditor value={p.source} onChange={p.setSource} schema={p.schema} readOnly={p.readOnly} label="Model program" />
+        <ModelEditor value={p.source} onChange={p.setSource} schema={p.schema} readOnly={p.readOnly} label="Model program" onRun={() => p.onRun?.()} />
       </div>
       {p.readOnly ? (
         <aside className="sl-cell-sub text-sm">Read-only.</aside>

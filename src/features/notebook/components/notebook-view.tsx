@@ -93,10 +93,22 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
     );
   };
 
+  /**
+   * Closing a notes editor removes the focused text area; the focus would fall to the page body,
+   * outside the column that listens for Alt-↑/↓. Hand it to the cell itself instead.
+   */
+  const closeNotes = (id: string) => {
+    setEditingNotes((e) => ({ ...e, [id]: false }));
+    requestAnimationFrame(() => {
+      const el = document.querySelector<HTMLElement>(`[data-cell-id="${CSS.escape(id)}"]`);
+      if (el && !el.contains(document.activeElement)) el.focus({ preventScroll: true });
+    });
+  };
+
   const run = (id: string) => {
     const cell = cells.find((c) => c.id === id);
     if (!cell) return;
-    if (cell.kind === 'notes') return setEditingNotes((e) => ({ ...e, [id]: false }));
+    if (cell.kind === 'notes') return closeNotes(id);
     let target = cell;
     if (cell.kind === 'model') {
       // Running a model runs the first fit cell below it that fits it.
@@ -147,7 +159,8 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
             schema={schema}
             runSignal={runSignals[cell.id] ?? 0}
             editingNotes={!!editingNotes[cell.id]}
-            setEditingNotes={(v) => setEditingNotes((e) => ({ ...e, [cell.id]: v }))}
+            setEditingNotes={(v) => (v ? setEditingNotes((e) => ({ ...e, [cell.id]: true })) : closeNotes(cell.id))}
+            onRun={() => run(cell.id)}
             onMove={(direction) => mut.move.mutate({ cellId: cell.id, direction }, { onError: (e) => setActionError(errorMessage(e)) })}
             onDelete={() => mut.remove.mutate(cell.id, { onError: (e) => setActionError(errorMessage(e)) })}
             onCollapse={(collapsed) => mut.collapse.mutate({ cellId: cell.id, collapsed }, { onError: (e) => setActionError(errorMessage(e)) })}
@@ -189,6 +202,8 @@ interface CellItemProps {
   runSignal: number;
   editingNotes: boolean;
   setEditingNotes: (v: boolean) => void;
+  /** Run this cell (Mod-Enter inside an editor that handles the key itself). */
+  onRun: () => void;
   onMove: (d: 'up' | 'down') => void;
   onDelete: () => void;
   onCollapse: (collapsed: boolean) => void;
@@ -232,6 +247,10 @@ function CellItem(p: CellItemProps) {
     runSignal: p.runSignal,
     editingNotes: p.editingNotes,
     setEditingNotes: p.setEditingNotes,
+    onRun: () => {
+      // Save what was typed first: the fit reads the model as stored.
+      void draft.flush().then(p.onRun, p.onRun);
+    },
   };
   const label = CELL_KIND_LABELS[cell.kind];
   const subtitle = cell.kind === 'model' ? (cell.source.match(/^\s*#\s*(.+)$/m)?.[1] ?? undefined) : undefined;

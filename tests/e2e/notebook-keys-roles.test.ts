@@ -1,0 +1,108 @@
+/**
+ * The notebook's keyboard, each role's view of a model cell and its comments, and the page on a
+ * phone-sized screen (390 px wide), in a real browser against the demo notebook.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { memberships } from '../../server/db/schema';
+import { DEMO_NOTEBOOK, DEMO_USER, seedDemo } from '../../server/db/seed';
+import { seedDemoNotebook } from '../../server/db/seed-notebook';
+import { startTestServer, type TestServer } from '../helpers/server';
+import { TestClient, signIn, signUp, TEST_PASSWORD } from '../helpers/http';
+import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';
+
+let server: TestServer;
+let browser: Browser;
+let page: Page;
+let pageErrors: string[] = [];
+let notebookUrl = '';
+let workspaceId = '';
+let notebookId = '';
+
+beforeAll(async () => {
+  server = await startTestServer();
+  const demo = await seedDemo(server.db.db);
+  await seedDemoNotebook(server.db.db, demo);
+  browser = await launchBrowser();
+  ({ page, errors: pageErrors } = await openWatchedPage(browser, 20_000));
+  await signInAs(DEMO_USER.email, DEMO_USER.password);
+  await page.getByRole('link', { name: /Alder Creek/ }).first().click();
+  await page.getByRole('link', { name: DEMO_NOTEBOOK }).click();
+  await page.getByRole('heading', { name: DEMO_NOTEBOOK }).first().waitFor();
+  notebookUrl = page.url();
+  [, workspaceId, notebookId] = new URL(notebookUrl).pathname.match(/^\/w\/([a-z0-9]+)\/n\/([a-z0-9]+)$/)!;
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+});
+
+async function signInAs(email: string, password: string) {
+  await page.context().clearCookies();
+  await page.goto(`${server.url}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((u) => !u.pathname.startsWith('/sign-in'));
+}
+
+/** Runs `body`; on failure keeps a full-page screenshot under test-results/. */
+async function withShot(name: string, body: () => Promise<void>) {
+  try {
+    await body();
+  } catch (e) {
+    await page.screenshot({ path: await screenshotPath(`${name}-failure.png`), fullPage: true });
+    throw e;
+  }
+}
+
+const activeCellKind = () => page.locator('section.sl-cell[data-active="true"]').getAttribute('data-kind');
+
+describe('keyboard', () => {
+  it('Ctrl-Enter in the model editor runs the fit below instead of inserting a line and saving a version', () =>
+    withShot('keys-model', async () => {
+      await page.goto(notebookUrl);
+      const model = page.locator('section[data-kind="model"]').first();
+      const fit = page.locator('section[data-kind="fit"]').first();
+      await fit.getByTestId('fit-results').waitFor();
+      const before = await model.locator('.cm-content').innerText();
+      const version = await model.getByTestId('save-state').innerText();
+      await model.locator('.cm-line').last().click();
+      await page.keyboard.press('End');
+      await page.keyboard.press('Control+Enter');
+      // The fit cell below queues a run (no worker runs here, so it stays queued with its chains listed).
+      await fit.getByTestId('chain-progress').waitFor();
+      await page.waitForTimeout(1500); // longer than the autosave pause: a stray edit would have saved by now
+      expect(await model.locator('.cm-content').innerText()).toBe(before);
+      expect(await model.getByTestId('save-state').innerText()).toBe(version);
+      // Cancel it so the other tests see the finished fit.
+      const cancel = fit.getByRole('button', { name: /^Cancel/ });
+      if (await cancel.count()) await cancel.first().click();
+    }));
+
+  it('after Ctrl-Enter closes a notes editor, Alt-↑/↓ still move between cells', () =>
+    withShot('keys-notes', async () => {
+      await page.goto(notebookUrl);
+      const notes = page.locator('section[data-kind="notes"]').first();
+      await notes.getByRole('button', { name: 'edit' }).click();
+      const text = notes.getByLabel('Notes text (markdown)');
+      await text.waitFor();
+      await text.press('End');
+      await page.keyboard.press('Control+Enter');
+      await expect.poll(() => notes.getByLabel('Notes text (markdown)').count()).toBe(0);
+      expect(await activeCellKind()).toBe('notes');
+      await page.keyboard.press('Alt+ArrowDown');
+      await expect.poll(activeCellKind).toBe('data');
+      await page.keyboard.press('Alt+ArrowDown');
+      await expect.poll(activeCellKind).toBe('model');
+      await page.keyboard.press('Alt+ArrowUp');
+      await expect.poll(activeCellKind).toBe('data');
+      // Escape closes it as well, with the same result.
+      await notes.getByRole('button', { name: 'edit' }).click();
+      await notes.getByLabel('Notes text (markdown)').press('Escape');
+      await expect.poll(() => notes.getByLabel('Notes text (markdown)').count()).toBe(0);
+      await page.keyboard.press('Alt+ArrowDown');
+      await expect.poll(activeCellKind).toBe('data');
+    }));
+});
