@@ -106,3 +106,88 @@ describe('keyboard', () => {
       await expect.poll(activeCellKind).toBe('data');
     }));
 });
+
+describe("each role's view of a model cell and its comments", () => {
+  let reviewer: { email: string };
+  let viewer: { email: string };
+  let shareUrl = '';
+
+  beforeAll(async () => {
+    const owner = new TestClient(server.url);
+    await signIn(owner, DEMO_USER.email, DEMO_USER.password);
+    const cells = (await owner.get(`/api/workspaces/${workspaceId}/notebooks/${notebookId}`)).body.cells as { id: string; kind: string; position: number }[];
+    const model = cells.filter((c) => c.kind === 'model').sort((a, b) => a.position - b.position)[0];
+    const posted = await owner.post(`/api/workspaces/${workspaceId}/notebooks/${notebookId}/cells/${model.id}/comments`, { body: 'Are the three source signatures from the same lab?' });
+    expect(posted.status).toBe(201);
+    for (const [role, name] of [['reviewer', 'Rhea Reviewer'], ['viewer', 'Vic Viewer']] as const) {
+      const c = new TestClient(server.url);
+      const person = await signUp(c, { name });
+      await server.db.db.insert(memberships).values({ workspaceId, userId: person.id, role, createdAt: server.clock.now() });
+      if (role === 'reviewer') reviewer = person;
+      else viewer = person;
+    }
+    const link = await owner.post(`/api/workspaces/${workspaceId}/notebooks/${notebookId}/share-links`, {});
+    expect(link.status).toBe(201);
+    shareUrl = `${server.url}${link.body.path}`;
+  });
+
+  /** The first model cell shows its side panel, read-only, with the unknowns and the region check. */
+  async function expectReadOnlyModelPanel() {
+    const model = page.locator('section[data-kind="model"]').first();
+    const panel = model.getByTestId('model-side-panel');
+    await panel.waitFor();
+    expect(await panel.getAttribute('data-read-only')).toBe('true');
+    expect(await panel.innerText()).toContain('share');
+    await panel.getByTestId('region-status').filter({ hasText: 'interior found' }).waitFor();
+    expect(await model.locator('.cm-content[contenteditable="true"]').count()).toBe(0);
+    // The fit settings read as text, not as fields waiting for input.
+    const fit = page.locator('section[data-kind="fit"]').first();
+    const chains = fit.getByLabel('Chains');
+    expect(await chains.isDisabled()).toBe(true);
+    const style = await chains.evaluate((el) => {
+      const s = getComputedStyle(el);
+      return { background: s.backgroundColor, borderTop: s.borderTopColor };
+    });
+    expect(style.background).toBe('rgba(0, 0, 0, 0)');
+    expect(style.borderTop).toBe('rgba(0, 0, 0, 0)');
+  }
+
+  it('a reviewer sees the side panel read-only and writes comments', () =>
+    withShot('role-reviewer', async () => {
+      await signInAs(reviewer.email, TEST_PASSWORD);
+      await page.goto(notebookUrl);
+      await expectReadOnlyModelPanel();
+      const model = page.locator('section[data-kind="model"]').first();
+      await model.getByRole('button', { name: /^Comments on this model cell/ }).click();
+      await page.getByTestId('comment-thread').filter({ hasText: 'same lab' }).waitFor();
+      await page.getByLabel('Comment on this cell…').fill('Yes: one lab, one protocol.');
+      await page.getByRole('button', { name: 'Post' }).click();
+      await page.getByTestId('comment-thread').filter({ hasText: 'one protocol' }).waitFor();
+    }));
+
+  it('a viewer sees the side panel read-only and reads the comments without a way to write', () =>
+    withShot('role-viewer', async () => {
+      await signInAs(viewer.email, TEST_PASSWORD);
+      await page.goto(notebookUrl);
+      await expectReadOnlyModelPanel();
+      const model = page.locator('section[data-kind="model"]').first();
+      await model.getByRole('button', { name: /^Comments on this model cell/ }).click();
+      await page.getByTestId('comment-thread').filter({ hasText: 'same lab' }).waitFor();
+      await page.getByTestId('comments-read-only').waitFor();
+      expect(await page.getByLabel('Comment on this cell…').count()).toBe(0);
+      expect(await page.getByRole('button', { name: 'resolve' }).count()).toBe(0);
+      expect(await page.getByRole('button', { name: 'reply' }).count()).toBe(0);
+      await page.screenshot({ path: await screenshotPath('role-viewer.png'), fullPage: false });
+    }));
+
+  it('a share-link visitor sees the side panel read-only and no comments', () =>
+    withShot('role-share', async () => {
+      await page.context().clearCookies();
+      await page.goto(shareUrl);
+      await page.getByRole('status').filter({ hasText: 'Read-only view' }).waitFor();
+      await expectReadOnlyModelPanel();
+      expect(await page.getByRole('button', { name: /^Comments on this/ }).count()).toBe(0);
+      expect(await page.getByText('same lab').count()).toBe(0);
+      expect(pageErrors).toEqual([]);
+    }));
+});

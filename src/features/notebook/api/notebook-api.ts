@@ -118,6 +118,16 @@ export function useModelCheck(workspaceId: string, notebookId: string, source: s
   });
 }
 
+/** A share-link reader's model check: the stored program of that model cell (`source` keys the cache). */
+export function useSharedModelCheck(token: string, cellId: string, source: string, enabled: boolean) {
+  return useQuery({
+    queryKey: nbKeys.shared.modelCheck(token, cellId, source),
+    queryFn: ({ signal }) => callRoute('sharedModelCheck', { params: { token, cellId }, signal }),
+    enabled: enabled && source.trim().length > 0,
+    staleTime: 60_000,
+  });
+}
+
 // ---- runs ----
 const ACTIVE: readonly Run['status'][] = ACTIVE_RUN_STATUSES;
 

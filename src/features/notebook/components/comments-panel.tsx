@@ -61,7 +61,13 @@ export function CommentsPanel({ comments, canComment, busy, error, onCreate, onR
         <Thread key={t.root.id} thread={t} canComment={canComment} busy={busy} onCreate={onCreate} onResolve={onResolve} />
       ))}
       {error && <p className="sl-field-error" role="alert">{error}</p>}
-      {canComment && <CommentForm placeholder="Comment on this cell…" busy={busy} onSubmit={(b) => onCreate(b, null)} />}
+      {canComment ? (
+        <CommentForm placeholder="Comment on this cell…" busy={busy} onSubmit={(b) => onCreate(b, null)} />
+      ) : (
+        <p className="sl-hint" data-testid="comments-read-only">
+          {threads.length === 0 ? 'No comments on this cell. ' : ''}Your role lets you read the comments; reviewers, editors and owners write them.
+        </p>
+      )}
     </div>
   );
 }

@@ -57,7 +57,8 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
   const member = access.mode === 'member';
   const wsId = member ? access.workspaceId : '';
   const mut = useCellMutations(wsId, access.notebookId);
-  const comments = useComments(wsId, access.notebookId, member && canComment);
+  // Every member reads the comments; reviewers and above write them.
+  const comments = useComments(wsId, access.notebookId, member);
   const commentMut = useCommentMutations(wsId, access.notebookId);
 
   // Tables bound by the data cells, for the model editor's completion and checks.
@@ -165,8 +166,8 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
             onDelete={() => mut.remove.mutate(cell.id, { onError: (e) => setActionError(errorMessage(e)) })}
             onCollapse={(collapsed) => mut.collapse.mutate({ cellId: cell.id, collapsed }, { onError: (e) => setActionError(errorMessage(e)) })}
             commentsOpen={!!openComments[cell.id]}
-            toggleComments={member && canComment ? () => setOpenComments((o) => ({ ...o, [cell.id]: !o[cell.id] })) : undefined}
-            openCommentCount={member && canComment ? (openCounts[cell.id] ?? 0) : undefined}
+            toggleComments={member ? () => setOpenComments((o) => ({ ...o, [cell.id]: !o[cell.id] })) : undefined}
+            openCommentCount={member ? (openCounts[cell.id] ?? 0) : undefined}
             comments={
               openComments[cell.id] ? (
                 <CommentsPanel
