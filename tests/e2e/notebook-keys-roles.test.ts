@@ -191,3 +191,45 @@ describe("each role's view of a model cell and its comments", () => {
       expect(pageErrors).toEqual([]);
     }));
 });
+
+describe('on a phone (390 px wide)', () => {
+  it('the notebook does not scroll sideways, the model editor keeps at least 30 characters, the header actions fit', () =>
+    withShot('phone', async () => {
+      await signInAs(DEMO_USER.email, DEMO_USER.password);
+      await page.setViewportSize({ width: 390, height: 844 });
+      try {
+        await page.goto(notebookUrl);
+        const fit = page.locator('section[data-kind="fit"]').first();
+        await fit.getByTestId('fit-results').waitFor();
+        await page.locator('section[data-kind="fit"] [data-testid="plot"]').first().waitFor();
+        await page.waitForTimeout(500);
+        // No horizontal scroll of the page itself.
+        const widths = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, client: document.documentElement.clientWidth }));
+        expect(widths.scroll).toBeLessThanOrEqual(widths.client);
+        // The model editor's text area holds at least 30 characters of its monospace font.
+        const chars = await page.locator('section[data-kind="model"] .cm-content').first().evaluate((el) => {
+          const probe = document.createElement('span');
+          probe.textContent = 'x'.repeat(40);
+          probe.style.visibility = 'hidden';
+          probe.style.position = 'absolute';
+          el.appendChild(probe);
+          const w = probe.getBoundingClientRect().width / 40;
+          probe.remove();
+          const scroller = el.closest('.cm-scroller') as HTMLElement;
+          const gutters = scroller.querySelector('.cm-gutters') as HTMLElement | null;
+          return (scroller.clientWidth - (gutters?.offsetWidth ?? 0)) / w;
+        });
+        expect(chars).toBeGreaterThanOrEqual(30);
+        // Rename and Delete are wholly on screen.
+        for (const name of ['Rename', 'Delete']) {
+          const box = await page.getByRole('button', { name, exact: true }).first().boundingBox();
+          expect(box).not.toBeNull();
+          expect(box!.x).toBeGreaterThanOrEqual(0);
+          expect(box!.x + box!.width).toBeLessThanOrEqual(390);
+        }
+        await page.screenshot({ path: await screenshotPath('phone-notebook.png'), fullPage: true });
+      } finally {
+        await page.setViewportSize({ width: 1280, height: 860 });
+      }
+    }));
+});
