@@ -201,7 +201,7 @@ describe('on a phone (390 px wide)', () => {
         await page.goto(notebookUrl);
         const fit = page.locator('section[data-kind="fit"]').first();
         await fit.getByTestId('fit-results').waitFor();
-        await page.locator('section[data-kind="fit"] [data-testid="plot"]').first().waitFor();
+        await fit.getByTestId('plot').first().waitFor();
         await page.waitForTimeout(500);
         // No horizontal scroll of the page itself.
         const widths = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, client: document.documentElement.clientWidth }));
@@ -227,9 +227,43 @@ describe('on a phone (390 px wide)', () => {
           expect(box!.x).toBeGreaterThanOrEqual(0);
           expect(box!.x + box!.width).toBeLessThanOrEqual(390);
         }
+        // Every row of the results stays within its cell (nothing cut off at the right edge).
+        const cutoff = await fit.evaluate((cell) => {
+          const right = cell.getBoundingClientRect().right + 0.5;
+          return [...cell.querySelectorAll<HTMLElement>('[data-testid="quantity-row"]')].filter((r) => r.getBoundingClientRect().right > right).length;
+        });
+        expect(cutoff).toBe(0);
+        expect(await fit.getByTestId('quantity-row').count()).toBeGreaterThan(0);
         await page.screenshot({ path: await screenshotPath('phone-notebook.png'), fullPage: true });
+        await fit.screenshot({ path: await screenshotPath('phone-fit-cell.png') });
       } finally {
         await page.setViewportSize({ width: 1280, height: 860 });
       }
+    }));
+});
+
+describe('the results in our own figures (desktop)', () => {
+  it('rows with inline intervals, the triangle, the chain agreement and the ladder; screenshots', () =>
+    withShot('results', async () => {
+      await signInAs(DEMO_USER.email, DEMO_USER.password);
+      await page.goto(notebookUrl);
+      const mix = page.locator('section[data-kind="fit"]').first();
+      await mix.getByTestId('quantity-row').first().waitFor();
+      // Three shares summing to one open in their triangle, with every draw inside the tinted region.
+      await mix.getByTestId('triangle-figure').waitFor();
+      await mix.screenshot({ path: await screenshotPath('desktop-mixing-fit.png') });
+      await mix.getByRole('tab', { name: 'Chain agreement' }).click();
+      await mix.getByTestId('mixing-view').waitFor();
+      await mix.screenshot({ path: await screenshotPath('desktop-chain-agreement.png') });
+      const dose = page.locator('section[data-kind="fit"]').nth(1);
+      await dose.getByRole('tab', { name: 'Order' }).click();
+      await dose.getByTestId('ladder-view').waitFor();
+      expect(await dose.getByTestId('ladder-rung').count()).toBeGreaterThanOrEqual(3);
+      await dose.screenshot({ path: await screenshotPath('desktop-ladder.png') });
+      await dose.getByRole('tab', { name: 'Feasible region' }).click();
+      await dose.getByTestId('region-figure').waitFor();
+      await dose.screenshot({ path: await screenshotPath('desktop-region.png') });
+      await page.screenshot({ path: await screenshotPath('desktop-notebook.png'), fullPage: true });
+      expect(pageErrors).toEqual([]);
     }));
 });
