@@ -84,7 +84,7 @@ export function judgeRun(input: VerdictInput): Verdict {
     advice: 'the chains disagree about the posterior',
   });
   out.push({
-    rule: `chains agree closely: max R̂ ≤ ${t.rhatRunLonger} (Vehtari et al. 2021)`,
+    rule: `chains agree closely: max R̂ ≤ ${t.rhatRunLonger} ("an improved R̂", Bayesian Analysis 2021)`,
     passed: !rhatFails(input.maxRhat),
     detail: `max R̂ = ${fmt(input.maxRhat, 4)}${rhatName}`,
     level: 'run-longer',
@@ -92,14 +92,14 @@ export function judgeRun(input: VerdictInput): Verdict {
   });
   const essNeeded = essNeededFor(input.chains);
   out.push({
-    rule: `enough draws in the bulk: min bulk-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} (Vehtari et al. 2021)`,
+    rule: `enough draws in the bulk: min bulk-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} ("an improved R̂", Bayesian Analysis 2021)`,
     passed: !essFails(input.minEssBulk, input.chains),
     detail: `min bulk-ESS = ${fmt(input.minEssBulk)}`,
     level: 'run-longer',
     advice: 'too few effective draws for stable means and medians',
   });
   out.push({
-    rule: `enough draws in the tails: min tail-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} (Vehtari et al. 2021)`,
+    rule: `enough draws in the tails: min tail-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} ("an improved R̂", Bayesian Analysis 2021)`,
     passed: !essFails(input.minEssTail, input.chains),
     detail: `min tail-ESS = ${fmt(input.minEssTail)}${essName}`,
     level: 'run-longer',

@@ -1,5 +1,6 @@
 import { useState, type FormEvent } from 'react';
 import type { Comment } from '@shared/api/notebook';
+import { formatDateTime } from '@/lib/format';
 
 export interface CommentThread {
   root: Comment;
@@ -80,7 +81,7 @@ function Thread({ thread, canComment, busy, onCreate, onResolve }: { thread: Com
       {[root, ...replies].map((c) => (
         <div key={c.id} style={{ marginLeft: c === root ? 0 : '1rem', marginTop: c === root ? 0 : '0.4rem' }}>
           <div className="sl-cell-sub">
-            <strong style={{ color: 'var(--sl-ink)' }}>{c.author?.name ?? 'former member'}</strong> · {new Date(c.createdAt).toLocaleString()}
+            <strong style={{ color: 'var(--sl-ink)' }}>{c.author?.name ?? 'former member'}</strong> · <span className="sl-num">{formatDateTime(c.createdAt)}</span>
           </div>
           <p style={{ whiteSpace: 'pre-wrap' }}>{c.body}</p>
         </div>

@@ -204,7 +204,7 @@ describe('quantity rows and verdict', () => {
     expect(rows).toHaveLength(4);
     expect(rows.map((r) => r.hasAttribute('data-failing'))).toEqual([false, true, false, false]);
     expect(rows[0].textContent).toContain('1.23');
-    expect(rows[0].textContent).toContain('1.07 to 1.4');
+    expect(rows[0].textContent).toContain('1.07 to 1.40');
     expect(rows[1].querySelector('[role="img"]')?.getAttribute('aria-label')).toMatch(/chains disagree.*tails/);
     const fold = screen.getByTestId('mixing-figures');
     expect([...fold.querySelectorAll('.sl-fail')].map((e) => e.textContent)).toEqual(['1.040', '120']);

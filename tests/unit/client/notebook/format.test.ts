@@ -11,6 +11,11 @@ describe('formatting', () => {
     expect(formatEstimate(123456)).toBe('1.23e5');
     expect(formatEstimate(0.0000123)).toBe('1.23e-5');
     expect(formatEstimate(0)).toBe('0');
+    // Trailing zeros stay: every number in a column carries the same number of significant digits.
+    expect(formatEstimate(4.5)).toBe('4.50');
+    expect(formatEstimate(0.08)).toBe('0.0800');
+    expect(formatEstimate(12)).toBe('12.0');
+    expect(formatEstimate(0.5, 2)).toBe('0.50');
     expect(formatEstimate(NaN)).toBe('NaN');
   });
   it('R̂ with three decimals, ESS whole', () => {
