@@ -142,7 +142,7 @@ describe("each role's view of a model cell and its comments", () => {
     expect(await model.locator('.cm-content[contenteditable="true"]').count()).toBe(0);
     // The fit settings read as text, not as fields waiting for input.
     const fit = page.locator('section[data-kind="fit"]').first();
-    const chains = fit.getByLabel('Chains');
+    const chains = fit.getByLabel('Chains', { exact: true });
     expect(await chains.isDisabled()).toBe(true);
     const style = await chains.evaluate((el) => {
       const s = getComputedStyle(el);

@@ -2,7 +2,7 @@
  * The notebook page body: the column of cells with their tools, autosave, conflicts, comments and
  * the keyboard. Members edit according to their role; share-link visitors and viewers read only.
  */
-import { useEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
+import { useEffect, useLayoutEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
 import { useQueries, useQueryClient } from '@tanstack/react-query';
 import { useNavigate } from 'react-router-dom';
 import { CELL_KIND_LABELS, dataContentSchema, type NbCell, type NbCellKind } from '@shared/api/notebook';
@@ -98,13 +98,19 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
    * Closing a notes editor removes the focused text area; the focus would fall to the page body,
    * outside the column that listens for Alt-↑/↓. Hand it to the cell itself instead.
    */
+  const refocus = useRef<string | null>(null);
   const closeNotes = (id: string) => {
+    refocus.current = id;
     setEditingNotes((e) => ({ ...e, [id]: false }));
-    requestAnimationFrame(() => {
-      const el = document.querySelector<HTMLElement>(`[data-cell-id="${CSS.escape(id)}"]`);
-      if (el && !el.contains(document.activeElement)) el.focus({ preventScroll: true });
-    });
   };
+  // Right after the commit that removed the text area (before the next key can arrive).
+  useLayoutEffect(() => {
+    const id = refocus.current;
+    if (!id) return;
+    refocus.current = null;
+    const el = document.querySelector<HTMLElement>(`[data-cell-id="${CSS.escape(id)}"]`);
+    if (el && !el.contains(document.activeElement)) el.focus({ preventScroll: true });
+  }, [editingNotes]);
 
   const run = (id: string) => {
     const cell = cells.find((c) => c.id === id);

@@ -90,7 +90,7 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
                   <span
                     className={ok ? 'sl-trust' : 'sl-trust sl-trust-fail'}
                     role="img"
-                    aria-label={ok ? 'chains agree, enough independent draws' : `not settled: ${problems.join('; ')}`}
+                    aria-label={ok ? 'mixed well: the chains agree and there are enough independent draws' : `not settled: ${problems.join('; ')}`}
                     title={ok ? 'Chains agree and there are enough independent draws for this quantity.' : `Not settled: ${problems.join('; ')}.`}
                   >
                     {ok ? '✓' : '!'}
