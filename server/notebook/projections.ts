@@ -1,11 +1,11 @@
 /**
  * The feasible-region view's polygons: the constraint region projected onto pairs of unknowns
- * (server/engine/geometry/project.ts), clipped to a box well around the draws so unbounded
- * regions stay finite. Every draw lies inside its pair's polygon by construction.
+ * (server/engine/geometry/project.ts); a pair whose projection is unbounded is clipped to a box
+ * well around the draws so it stays finite. Every draw lies inside its pair's polygon by construction.
  */
 import type { RegionProjection, RunDraws } from '../../shared/api/notebook';
 import { prepareTarget } from '../engine/geometry';
-import { projectRegion } from '../engine/geometry/project';
+import { projectRegion, UnboundedProjectionError } from '../engine/geometry/project';
 import type { LinearSystem, ModelTarget } from '../engine/types';
 
 /** Pairs are computed among the first this many unknowns (66 pairs; each a few small LPs). */
@@ -51,7 +51,14 @@ export function regionProjections(region: NonNullable<RunDraws['region']>, range
       const [xmin, xmax] = pad(ranges[i]);
       const [ymin, ymax] = pad(ranges[j]);
       try {
-        const p = projectRegion(prepared, i, j, { clip: { xmin, xmax, ymin, ymax } });
+        // Bounded pairs whole (their every edge is a constraint's); unbounded ones cut by the box.
+        let p;
+        try {
+          p = projectRegion(prepared, i, j);
+        } catch (e) {
+          if (!(e instanceof UnboundedProjectionError)) throw e;
+          p = projectRegion(prepared, i, j, { clip: { xmin, xmax, ymin, ymax } });
+        }
         out.push({ i, j, vertices: p.vertices, clipped: p.clipped });
       } catch {
         // A pair whose programme fails is left out; the view says the region is unavailable for it.

@@ -235,6 +235,10 @@ describe('on a phone (390 px wide)', () => {
         expect(cutoff).toBe(0);
         expect(await fit.getByTestId('quantity-row').count()).toBeGreaterThan(0);
         await page.screenshot({ path: await screenshotPath('phone-notebook.png'), fullPage: true });
+        await page.evaluate(() => window.scrollTo(0, 0));
+        await page.screenshot({ path: await screenshotPath('phone-top.png') });
+        await page.locator('section[data-kind="model"]').first().scrollIntoViewIfNeeded();
+        await page.screenshot({ path: await screenshotPath('phone-model.png') });
         await fit.screenshot({ path: await screenshotPath('phone-fit-cell.png') });
       } finally {
         await page.setViewportSize({ width: 1280, height: 860 });

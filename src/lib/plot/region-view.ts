@@ -62,10 +62,11 @@ export function buildRegionView(draws: RunDraws, i: number, j: number, maxPoints
   const { xs, ys } = pairDraws(draws, i, j, maxPoints);
   const proj = findProjection(draws, i, j);
   const polygon = proj ? proj.vertices.map(([x, y]) => ({ x, y })) : [];
-  // The box shows the draws; a projection that fits comfortably is shown whole.
+  // The box shows the draws; a projection that fits comfortably is shown whole. One the server had
+  // to cut (an unbounded region) is not: its cut edges are no constraints and stay outside the frame.
   const box = boxAround([...xs, ...polygon.map((p) => p.x)], [...ys, ...polygon.map((p) => p.y)], 0.08);
   const tight = boxAround(xs, ys, 0.3);
-  const whole = (box.xMax - box.xMin) <= 4 * (tight.xMax - tight.xMin) && (box.yMax - box.yMin) <= 4 * (tight.yMax - tight.yMin);
+  const whole = !proj?.clipped && box.xMax - box.xMin <= 4 * (tight.xMax - tight.xMin) && box.yMax - box.yMin <= 4 * (tight.yMax - tight.yMin);
   return {
     box: whole ? box : tight,
     polygon,
