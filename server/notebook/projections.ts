@@ -22,6 +22,26 @@ function toSystem(A: number[][], b: number[], labels: string[], cols: number): L
  * the range of unknown k over every kept draw; the clip box extends it by twice its width each side.
  * Returns [] when the region cannot be prepared (the view then says so).
  */
+/**
+ * Finished runs never change, so their polygons are kept (by run id) for the next request: the
+ * programmes take about 10–25 ms for the sample models, on the server's main thread.
+ */
+const CACHE = new Map<string, RegionProjection[]>();
+const CACHE_SIZE = 64;
+
+export function cachedRegionProjections(key: string, region: NonNullable<RunDraws['region']>, ranges: () => [number, number][]): RegionProjection[] {
+  const hit = CACHE.get(key);
+  if (hit) {
+    CACHE.delete(key);
+    CACHE.set(key, hit);
+    return hit;
+  }
+  const out = regionProjections(region, ranges());
+  CACHE.set(key, out);
+  if (CACHE.size > CACHE_SIZE) CACHE.delete(CACHE.keys().next().value!);
+  return out;
+}
+
 export function regionProjections(region: NonNullable<RunDraws['region']>, ranges: [number, number][]): RegionProjection[] {
   const d = region.names.length;
   const target: ModelTarget = {

@@ -9,7 +9,7 @@ import { decodeDraws, decodeFlags } from '../jobs/draws-codec';
 import type { ChainStats, RunRow, RunSpec } from '../jobs/queue';
 import { toDataTables } from './datasets';
 import { checkModel, regionSystem } from './model';
-import { regionProjections, PROJECTION_MAX_UNKNOWNS } from './projections';
+import { cachedRegionProjections, PROJECTION_MAX_UNKNOWNS } from './projections';
 
 /** Range of each of the first unknowns over every kept draw (for the projections' clip box). */
 function unknownRanges(loaded: LoadedChains): [number, number][] {
@@ -117,7 +117,7 @@ export async function runDraws(exec: Exec, run: RunRow, max: number): Promise<Ru
     divergent: idx.map((t) => c.divergent[t]),
   }));
   const region = await runRegion(exec, run, loaded.unknownNames);
-  return { names, unknownCount: loaded.unknownNames.length, thin, chains, region, projections: region ? regionProjections(region, unknownRanges(loaded)) : [] };
+  return { names, unknownCount: loaded.unknownNames.length, thin, chains, region, projections: region ? cachedRegionProjections(run.id, region, () => unknownRanges(loaded)) : [] };
 }
 
 /** The constraint rows of the model a run fitted (data filled in), or null when unavailable. */
