@@ -18,6 +18,7 @@ import type { AppContext } from '../context';
 import { memberships, shareLinks, workspaces } from '../db/schema';
 import { HttpError, forbidden, notFound, unauthenticated } from '../http/errors';
 import { hashToken } from '../lib/ids';
+import { ROLES } from '../../shared/terms';
 
 export interface WorkspaceGrant {
   id: string;
@@ -47,7 +48,7 @@ declare global {
   }
 }
 
-const ROLES = new Set<Access>(['owner', 'editor', 'reviewer', 'viewer']);
+const ROLE_ACCESS = new Set<Access>(ROLES);
 
 export function authorize(ctx: AppContext, access: Access): RequestHandler {
   return async (req, _res, next) => {
@@ -73,7 +74,7 @@ export function authorize(ctx: AppContext, access: Access): RequestHandler {
       }
       if (!req.user) throw unauthenticated();
       if (access === 'signed-in') return next();
-      if (!ROLES.has(access)) throw new HttpError(500, 'internal', `unknown access level ${access}`);
+      if (!ROLE_ACCESS.has(access)) throw new HttpError(500, 'internal', `unknown access level ${access}`);
 
       const workspaceId = String(req.params.workspaceId ?? '');
       const [row] = await ctx.db

@@ -4,6 +4,7 @@
  * Change this file, then `npx drizzle-kit generate` to add a migration under drizzle/.
  */
 import { sql } from 'drizzle-orm';
+import { CELL_KINDS, ROLES, RUN_STATUSES } from '../../shared/terms';
 import {
   boolean,
   char,
@@ -41,9 +42,11 @@ const id = (name = 'id') => varchar(name, { length: ID });
 const ts = (name: string) => datetime(name, { mode: 'date', fsp: 3 });
 const createdAt = () => ts('created_at').notNull().default(sql`CURRENT_TIMESTAMP(3)`);
 
-export const ROLE_VALUES = ['owner', 'editor', 'reviewer', 'viewer'] as const;
-export const CELL_KIND_VALUES = ['notes', 'data', 'model', 'fit', 'compare'] as const;
-export const RUN_STATUS_VALUES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
+// The enums' values are the shared vocabulary (shared/terms.ts); reordering them there changes the
+// columns' definitions and needs a migration.
+export const ROLE_VALUES = ROLES;
+export const CELL_KIND_VALUES = CELL_KINDS;
+export const RUN_STATUS_VALUES = RUN_STATUSES;
 
 // ---------------------------------------------------------------- accounts
 export const users = mysqlTable(

@@ -5,6 +5,7 @@ import type { Cell } from '../../shared/api/notebooks';
 import { cells, notebooks } from '../db/schema';
 import type { Exec } from '../lib/audit';
 import { notFound } from '../http/errors';
+import { CELL_KINDS } from '../../shared/terms';
 
 export type CellRow = typeof cells.$inferSelect;
 
@@ -88,4 +89,4 @@ export async function touchNotebook(exec: Exec, workspaceId: string, notebookId:
   await exec.update(notebooks).set({ updatedAt: at }).where(and(eq(notebooks.workspaceId, workspaceId), eq(notebooks.id, notebookId)));
 }
 
-export const isKind = (k: string): k is NbCellKind => ['notes', 'data', 'model', 'fit', 'compare'].includes(k);
+export const isKind = (k: string): k is NbCellKind => (CELL_KINDS as readonly string[]).includes(k);

@@ -46,7 +46,7 @@ export function checkModel(source: string, tables: DataTables, region: boolean):
   const check = checkProgram(source, schemaOf(tables));
   const messages = check.messages.map((m) => ({ severity: m.severity, message: m.suggestion ? `${m.message} ${m.suggestion}` : m.message, line: m.line, column: m.column }));
   let rows: ModelCheck['rows'] = null;
-  let regionStatus: CompileResponse['region'] = { status: 'unchecked', message: check.ok ? 'Not checked.' : 'Fix the problems above first.' };
+  let regionStatus: CompileResponse['region'] = { status: 'unchecked', message: check.ok ? 'Not checked.' : 'Fix the problems listed below first.' };
   if (check.ok) {
     const missing = check.tables.filter((t) => !(t in tables));
     if (missing.length === 0) {

@@ -9,6 +9,21 @@ import { decodeDraws, decodeFlags } from '../jobs/draws-codec';
 import type { ChainStats, RunRow, RunSpec } from '../jobs/queue';
 import { toDataTables } from './datasets';
 import { checkModel, regionSystem } from './model';
+import { cachedRegionProjections, PROJECTION_MAX_UNKNOWNS } from './projections';
+
+/** Range of each of the first unknowns over every kept draw (for the projections' clip box). */
+function unknownRanges(loaded: LoadedChains): [number, number][] {
+  const k = Math.min(loaded.unknownNames.length, PROJECTION_MAX_UNKNOWNS);
+  const out: [number, number][] = Array.from({ length: k }, () => [Infinity, -Infinity]);
+  for (const c of loaded.chains)
+    for (let t = 0; t < c.drawCount; t++)
+      for (let q = 0; q < k; q++) {
+        const v = c.draws[t * c.dimension + q];
+        if (v < out[q][0]) out[q][0] = v;
+        if (v > out[q][1]) out[q][1] = v;
+      }
+  return out;
+}
 
 export function toRun(r: RunRow, summary: FitSummary | null, requestedByName: string | null): Run {
   return {
@@ -101,7 +116,8 @@ export async function runDraws(exec: Exec, run: RunRow, max: number): Promise<Ru
     values: names.map((_, q) => idx.map((t) => c.draws[t * c.dimension + q])),
     divergent: idx.map((t) => c.divergent[t]),
   }));
-  return { names, unknownCount: loaded.unknownNames.length, thin, chains, region: await runRegion(exec, run, loaded.unknownNames) };
+  const region = await runRegion(exec, run, loaded.unknownNames);
+  return { names, unknownCount: loaded.unknownNames.length, thin, chains, region, projections: region ? cachedRegionProjections(run.id, region, () => unknownRanges(loaded)) : [] };
 }
 
 /** The constraint rows of the model a run fitted (data filled in), or null when unavailable. */

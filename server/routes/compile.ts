@@ -8,6 +8,8 @@ import { mount } from '../http/route';
 import { notebookTables, toDataTables, type DatasetRow } from '../notebook/datasets';
 import { checkModel, tablesNamed } from '../notebook/model';
 import { findNotebook } from './notebooks';
+import { findCell } from '../notebook/cells';
+import { notFound } from '../http/errors';
 
 export function compileRouter(ctx: AppContext): Router {
   const r = Router();
@@ -31,6 +33,17 @@ export function compileRouter(ctx: AppContext): Router {
     const wanted = tablesNamed(body.source);
     const tables = toDataTables([...bound.values()].filter((d) => wanted.includes(d.name)));
     return checkModel(body.source, tables, body.region ?? true).response;
+  });
+
+  // A share-link reader's side panel: only the notebook's own model cells, as stored.
+  mount(r, ctx, routes.sharedModelCheck, async ({ params }, req) => {
+    const share = req.share!;
+    const cell = await findCell(db, share.workspaceId, share.notebookId, params.cellId);
+    if (cell.kind !== 'model') throw notFound('No model cell here');
+    const bound = await notebookTables(db, share.workspaceId, share.notebookId);
+    const wanted = tablesNamed(cell.source);
+    const tables = toDataTables([...bound.values()].filter((d) => wanted.includes(d.name)));
+    return checkModel(cell.source, tables, true).response;
   });
 
   return r;

@@ -64,8 +64,8 @@ export const notebookRoutes = {
 
   // ---- model check ----
   compileModel: {
-    method: 'POST', path: '/api/workspaces/:workspaceId/compile', access: 'editor', status: 200,
-    purpose: 'Check a model program: unknowns and shapes, constraint counts, messages, and the region check',
+    method: 'POST', path: '/api/workspaces/:workspaceId/compile', access: 'viewer', status: 200,
+    purpose: 'Check a model program: unknowns and shapes, constraint counts, messages, and the region check (changes nothing, so every member may; readers see the side panel too)',
     params: ws, body: nb.compileBody, response: nb.compileResponse,
   },
 
@@ -108,12 +108,12 @@ export const notebookRoutes = {
 
   // ---- comments ----
   listComments: {
-    method: 'GET', path: `${nbBase}/comments`, access: 'reviewer', status: 200,
-    purpose: 'Every comment of a notebook, oldest first',
+    method: 'GET', path: `${nbBase}/comments`, access: 'viewer', status: 200,
+    purpose: 'Every comment of a notebook, oldest first (viewers read, reviewers and above write)',
     params: nbParams, response: nb.commentListResponse,
   },
   commentCounts: {
-    method: 'GET', path: `${nbBase}/comment-counts`, access: 'reviewer', status: 200,
+    method: 'GET', path: `${nbBase}/comment-counts`, access: 'viewer', status: 200,
     purpose: 'Open threads and total comments per cell',
     params: nbParams, response: nb.commentCountsResponse,
   },
@@ -141,6 +141,11 @@ export const notebookRoutes = {
   },
 
   // ---- read-only through a share link ----
+  sharedModelCheck: {
+    method: 'GET', path: '/api/share/:token/cells/:cellId/check', access: 'share-token', status: 200,
+    purpose: 'The side panel of a model cell of the shared notebook: its stored program checked against the notebook\'s tables',
+    params: shareCell, response: nb.compileResponse,
+  },
   sharedCellRuns: {
     method: 'GET', path: '/api/share/:token/cells/:cellId/runs', access: 'share-token', status: 200,
     purpose: 'Runs of a fit cell of the shared notebook',

@@ -7,6 +7,7 @@ import { z } from 'zod';
 import { fitProgressSchema, fitSettingsSchema, fitSummarySchema } from '../fit';
 import { idSchema, isoDateSchema } from './common';
 import { CELL_KINDS, cellKindSchema, cellSchema } from './notebooks';
+import { ACTIVE_RUN_STATUSES, RUN_STATUSES } from '../terms';
 
 /** Identifiers, dates, cell kinds and cells are the foundation's own schemas (one definition each). */
 export const nbIdSchema = idSchema;
@@ -271,7 +272,7 @@ export type CompileResponse = z.infer<typeof compileResponse>;
 /* Runs                                                                                        */
 /* ------------------------------------------------------------------------------------------ */
 
-export const RUN_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
+export { RUN_STATUSES, ACTIVE_RUN_STATUSES };
 export const runStatusSchema = z.enum(RUN_STATUSES);
 export type RunStatus = z.infer<typeof runStatusSchema>;
 
@@ -335,6 +336,19 @@ export const regionSystemSchema = z.object({
 });
 export type RegionSystem = z.infer<typeof regionSystemSchema>;
 
+/**
+ * The constraint region projected onto unknowns i and j (0-based, i < j): a convex polygon,
+ * counter-clockwise, clipped to a box well around the draws (`clipped` when the box cut it).
+ * Every draw's (θᵢ, θⱼ) lies inside it.
+ */
+export const regionProjectionSchema = z.object({
+  i: z.number().int(),
+  j: z.number().int(),
+  vertices: z.array(z.tuple([z.number(), z.number()])),
+  clipped: z.boolean(),
+});
+export type RegionProjection = z.infer<typeof regionProjectionSchema>;
+
 /** Draws for plotting: per chain, per quantity, the kept draws (possibly thinned). */
 export const runDrawsResponse = z.object({
   names: z.array(z.string()),
@@ -352,6 +366,8 @@ export const runDrawsResponse = z.object({
     }),
   ),
   region: regionSystemSchema.nullable(),
+  /** Projections of the region onto pairs of the first unknowns (absent from older servers). */
+  projections: z.array(regionProjectionSchema).optional(),
 });
 export type RunDraws = z.infer<typeof runDrawsResponse>;
 export const runDrawsQuery = z.strictObject({

@@ -1,6 +1,7 @@
 /** Notebooks, their cells (read side), and read-only share links. */
 import { z } from 'zod';
 import { idSchema, isoDateSchema, nameSchema, roleSchema, tokenSchema } from './common';
+import { CELL_KINDS } from '../terms';
 
 export const notebookParams = z.strictObject({ workspaceId: idSchema, notebookId: idSchema });
 
@@ -13,7 +14,7 @@ export const notebookSchema = z.object({
 });
 export type Notebook = z.infer<typeof notebookSchema>;
 
-export const CELL_KINDS = ['notes', 'data', 'model', 'fit', 'compare'] as const;
+export { CELL_KINDS };
 export const cellKindSchema = z.enum(CELL_KINDS);
 export type CellKind = z.infer<typeof cellKindSchema>;
 

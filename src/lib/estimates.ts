@@ -1,6 +1,10 @@
 /** Number formatting for estimates: tabular, compact, never misleadingly precise. */
 
-/** Significant-digit formatting that switches to exponent form for very large or small magnitudes. */
+/**
+ * Always `digits` significant digits — trailing zeros kept, so 4.50 beside 3.18 reads as just as
+ * precise — switching to exponent form for very large or small magnitudes. Whole numbers of more
+ * digits are rounded to `digits` significant ones (1234.5 → 1230).
+ */
 export function formatEstimate(x: number, digits = 3): string {
   if (Number.isNaN(x)) return 'NaN';
   if (x === Infinity) return '∞';
@@ -9,8 +13,15 @@ export function formatEstimate(x: number, digits = 3): string {
   const ax = Math.abs(x);
   let s: string;
   if (ax >= 1e5 || ax < 1e-3) s = x.toExponential(digits - 1).replace('e+', 'e');
-  else s = Number(x.toPrecision(digits)).toString();
+  else if (ax >= 10 ** digits) s = Number(x.toPrecision(digits)).toString();
+  else s = x.toPrecision(digits);
   return s.replace(/^-/, '−');
+}
+
+/** A data value as read (not an estimate): at most `digits` significant digits, no padding zeros. */
+export function formatDataValue(x: number, digits = 4): string {
+  if (!Number.isFinite(x) || x === 0 || Math.abs(x) >= 1e5 || Math.abs(x) < 1e-3) return formatEstimate(x, digits);
+  return Number(x.toPrecision(digits)).toString().replace(/^-/, '−');
 }
 
 /** R̂ to two decimals below 1.1 is too coarse (1.005 vs 1.014 matters): three decimals. */

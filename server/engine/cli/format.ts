@@ -5,7 +5,7 @@
 import type { FitSummary } from '../../../shared/fit';
 import { drawsCsvHeader, drawsCsvRows } from '../../../shared/export-csv';
 import type { FitResult } from '../types';
-import { THRESHOLDS } from '../diagnostics/verdict';
+import { essFails, rhatFails } from '../../../shared/diagnostics';
 
 /** Version of the JSON document; raised only when a field changes meaning or disappears. */
 export const JSON_FORMAT_VERSION = 1;
@@ -83,9 +83,8 @@ export function summaryTable(summary: FitSummary, model?: string): string {
   }
   out.push('');
   // "!" marks a quantity whose own R̂ or ESS fails the verdict's thresholds.
-  const essNeeded = THRESHOLDS.essPerChain * s.chains;
   const flag = (q: FitSummary['quantities'][number]) =>
-    q.rhat > THRESHOLDS.rhatRunLonger || q.essBulk < essNeeded || q.essTail < essNeeded ? '!' : '';
+    rhatFails(q.rhat) || essFails(q.essBulk, s.chains) || essFails(q.essTail, s.chains) ? '!' : '';
   // Estimate first (median and central 90 % interval, then mean and sd), then how well the chains
   // mixed and how precise the median is; a bar separates the two groups.
   const rows = summary.quantities.map((q) => [

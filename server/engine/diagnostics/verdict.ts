@@ -37,16 +37,10 @@
  *   Samplers without an energy (hit-and-run) pass this rule as not applicable.
  */
 import type { Verdict, VerdictLevel } from '../../../shared/fit';
+import { DIAGNOSTIC_THRESHOLDS, essFails, essNeeded as essNeededFor, rhatFails } from '../../../shared/diagnostics';
 
-export const THRESHOLDS = {
-  rhatDoNotUse: 1.05,
-  rhatRunLonger: 1.01,
-  essPerChain: 100,
-  divergenceShareDoNotUse: 0.01,
-  /** Our judgement call (see the module notes): above this share of rejected steps, "run-longer". */
-  rejectedShareRunLonger: 0.1,
-  efmiMin: 0.2,
-} as const;
+/** The thresholds (defined once in shared/diagnostics.ts, where the client reads them too). */
+export const THRESHOLDS = DIAGNOSTIC_THRESHOLDS;
 
 export interface VerdictInput {
   chains: number;
@@ -93,22 +87,22 @@ export function judgeRun(input: VerdictInput): Verdict {
   });
   out.push({
     rule: `chains agree closely: max R̂ ≤ ${t.rhatRunLonger} (Improved R̂, Bayesian Analysis 2021)`,
-    passed: input.maxRhat <= t.rhatRunLonger,
+    passed: !rhatFails(input.maxRhat),
     detail: `max R̂ = ${fmt(input.maxRhat, 4)}${rhatName}`,
     level: 'run-longer',
     advice: 'the chains have not yet mixed well enough',
   });
-  const essNeeded = t.essPerChain * input.chains;
+  const essNeeded = essNeededFor(input.chains);
   out.push({
     rule: `enough draws in the bulk: min bulk-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} (Improved R̂, Bayesian Analysis 2021)`,
-    passed: input.minEssBulk >= essNeeded,
+    passed: !essFails(input.minEssBulk, input.chains),
     detail: `min bulk-ESS = ${fmt(input.minEssBulk)}`,
     level: 'run-longer',
     advice: 'too few effective draws for stable means and medians',
   });
   out.push({
     rule: `enough draws in the tails: min tail-ESS ≥ ${t.essPerChain} × ${input.chains} chains = ${essNeeded} (Improved R̂, Bayesian Analysis 2021)`,
-    passed: input.minEssTail >= essNeeded,
+    passed: !essFails(input.minEssTail, input.chains),
     detail: `min tail-ESS = ${fmt(input.minEssTail)}${essName}`,
     level: 'run-longer',
     advice: 'too few effective draws for stable 5% and 95% quantiles',

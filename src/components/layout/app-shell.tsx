@@ -46,7 +46,7 @@ export function AppShell() {
   return (
     <div className="flex min-h-screen flex-col">
       <header className="border-b border-rule bg-sheet/80 backdrop-blur-sm">
-        <div className="mx-auto flex h-14 max-w-6xl items-center justify-between gap-6 px-6">
+        <div className="mx-auto flex h-14 max-w-6xl items-center justify-between gap-4 px-4 sm:gap-6 sm:px-6">
           <div className="flex items-center gap-8">
             <Link to="/" aria-label="Slackline home">
               <Logo />
@@ -66,11 +66,11 @@ export function AppShell() {
           {me.data && <UserMenu user={me.data} />}
         </div>
       </header>
-      <div className="mx-auto w-full max-w-6xl flex-1 px-6 py-10">
+      <div className="mx-auto w-full max-w-6xl flex-1 px-3 py-6 sm:px-6 sm:py-10">
         <Outlet />
       </div>
       <footer className="border-t border-rule/70">
-        <div className="mx-auto flex max-w-6xl items-center justify-between px-6 py-4 text-xs text-ink-faint">
+        <div className="mx-auto flex max-w-6xl items-center justify-between px-4 py-4 text-xs sm:px-6 text-ink-faint">
           <span>Slackline — Bayesian fits inside linear constraints</span>
         </div>
       </footer>

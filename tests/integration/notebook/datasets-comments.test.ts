@@ -67,7 +67,7 @@ describe('dataset upload', () => {
 });
 
 describe('comments', () => {
-  it('reviewers comment, reply, resolve and reopen; counts follow; viewers cannot', async () => {
+  it('reviewers comment, reply, resolve and reopen; counts follow; viewers read but cannot write', async () => {
     const cell = (await w.editor.post(`${w.base}/cells`, { kind: 'notes', source: 'Roast shares must sum to one.' })).body.cell;
     const c1 = await w.reviewer.post(`${w.base}/cells/${cell.id}/comments`, { body: 'Is the dark roast share plausible?' });
     expect(c1.status).toBe(201);
@@ -88,6 +88,11 @@ describe('comments', () => {
     const list = await w.reviewer.get(`${w.base}/comments`);
     expect(list.body.comments.map((c: { body: string }) => c.body)).toEqual(['Is the dark roast share plausible?', 'Yes, from the supplier sheet.']);
     expect((await w.viewer.post(`${w.base}/cells/${cell.id}/comments`, { body: 'hi' })).status).toBe(403);
+    // Viewers read the threads, and only read them.
+    const seen = await w.viewer.get(`${w.base}/comments`);
+    expect(seen.status).toBe(200);
+    expect(seen.body.comments).toHaveLength(2);
+    expect((await w.viewer.patch(`${w.base}/comments/${c1.body.comment.id}`, { resolved: true })).status).toBe(403);
     expect((await w.reviewer.post(`${w.base}/cells/${cell.id}/comments`, { body: '   ' })).status).toBe(400);
   });
 });

@@ -268,6 +268,8 @@ describe('a fit end to end', () => {
     expect(draws.body.chains).toHaveLength(2);
     expect(draws.body.chains[0].values[0].length).toBe(100);
     expect(draws.body.region.A).toEqual([[-1], [1]]);
+    // One unknown: no pair to project the region onto.
+    expect(draws.body.projections).toEqual([]);
 
     const csvRes = await w.viewer.get(`/api/workspaces/${w.ws}/runs/${runId}/draws.csv`);
     expect(csvRes.status).toBe(200);

@@ -14,6 +14,7 @@ export interface NotebookMatrixWorld {
   notesCell: string;
   dataset: string;
   fitCell: string;
+  modelCell: string;
   doneRun: string;
   queuedRun: string;
   comment: string;
@@ -79,5 +80,5 @@ export async function notebookMatrixWorld(db: Db, ws: string, nb: string, ownerI
   if (!ok) throw new Error('could not store the matrix run');
   const comment = newId();
   await db.insert(comments).values({ id: comment, workspaceId: ws, notebookId: nb, cellId: notesCell, parentId: null, authorId: reviewerId, body: 'Why this prior?', resolved: false, createdAt: now, updatedAt: now });
-  return { notesCell, dataset, fitCell, doneRun, queuedRun, comment };
+  return { notesCell, dataset, fitCell, modelCell, doneRun, queuedRun, comment };
 }

@@ -12,6 +12,7 @@ export const nbKeys = {
   shared: {
     dataset: (token: string, id: string) => ['shared-notebook', token, 'dataset', id] as const,
     cellRuns: (token: string, cell: string) => ['shared-notebook', token, 'cell-runs', cell] as const,
+    modelCheck: (token: string, cell: string, source: string) => ['shared-notebook', token, 'model-check', cell, source] as const,
     runDraws: (token: string, run: string) => ['shared-notebook', token, 'run', run, 'draws'] as const,
   },
 };

@@ -7,6 +7,7 @@ import type { FitSettings } from '@shared/fit';
 import { cellConflictResponse, nbCellResponse, saveCellBody, type CellConflictResponse, type NbCellKind, type Run } from '@shared/api/notebook';
 import { ApiError, callRoute, toApiError } from '@/lib/api-client';
 import { nbKeys } from './keys';
+import { ACTIVE_RUN_STATUSES } from '@shared/terms';
 
 export type NotebookAccess =
   | { mode: 'member'; workspaceId: string; notebookId: string }
@@ -117,8 +118,18 @@ export function useModelCheck(workspaceId: string, notebookId: string, source: s
   });
 }
 
+/** A share-link reader's model check: the stored program of that model cell (`source` keys the cache). */
+export function useSharedModelCheck(token: string, cellId: string, source: string, enabled: boolean) {
+  return useQuery({
+    queryKey: nbKeys.shared.modelCheck(token, cellId, source),
+    queryFn: ({ signal }) => callRoute('sharedModelCheck', { params: { token, cellId }, signal }),
+    enabled: enabled && source.trim().length > 0,
+    staleTime: 60_000,
+  });
+}
+
 // ---- runs ----
-const ACTIVE: Run['status'][] = ['queued', 'running'];
+const ACTIVE: readonly Run['status'][] = ACTIVE_RUN_STATUSES;
 
 export function useCellRuns(access: NotebookAccess, cellId: string) {
   return useQuery({

@@ -19,7 +19,7 @@ import { FitResults } from './fit-results';
 import { RunsList } from './runs-list';
 import { CompareCell } from './compare-cell';
 import { NotesCell } from './notes-cell';
-import { datasetQuery, runExportLinks, uploadDataset, useCellRuns, useModelCheck, useRunDraws, useRunMutations, type NotebookAccess } from '../api/notebook-api';
+import { datasetQuery, runExportLinks, uploadDataset, useCellRuns, useModelCheck, useRunDraws, useRunMutations, useSharedModelCheck, type NotebookAccess } from '../api/notebook-api';
 
 export interface CellViewProps {
   cell: NbCell;
@@ -38,6 +38,8 @@ export interface CellViewProps {
   runSignal: number;
   editingNotes: boolean;
   setEditingNotes: (v: boolean) => void;
+  /** Runs this cell as Mod-Enter does (for editors that take the key before the column sees it). */
+  onRun?: () => void;
 }
 
 export function NotesCellView(p: CellViewProps) {
@@ -102,22 +104,18 @@ export function ModelCellView(p: CellViewProps) {
     const t = setTimeout(() => setDebounced(p.source), 600);
     return () => clearTimeout(t);
   }, [p.source]);
-  const check = useModelCheck(
-    p.access.mode === 'member' ? p.access.workspaceId : '',
-    p.access.notebookId,
-    debounced,
-    p.access.mode === 'member' && !p.readOnly,
-  );
+  // Every member checks through the workspace (readers included: a check changes nothing);
+  // share-link readers ask for the stored cell's check.
+  const member = p.access.mode === 'member';
+  const memberCheck = useModelCheck(p.access.mode === 'member' ? p.access.workspaceId : '', p.access.notebookId, debounced, member);
+  const sharedCheck = useSharedModelCheck(p.access.mode === 'share' ? p.access.token : '', p.cell.id, p.cell.source, p.access.mode === 'share');
+  const check = member ? memberCheck : sharedCheck;
   return (
-    <div className="grid gap-4" style={{ gridTemplateColumns: 'minmax(0, 1fr) minmax(12rem, 16rem)' }}>
+    <div className="sl-model-grid">
       <div style={{ minWidth: 0 }}>
-        <ModelEditor value={p.source} onChange={p.setSource} schema={p.schema} readOnly={p.readOnly} label="Model program" />
+        <ModelEditor value={p.source} onChange={p.setSource} schema={p.schema} readOnly={p.readOnly} label="Model program" onRun={() => p.onRun?.()} />
       </div>
-      {p.readOnly ? (
-        <aside className="sl-cell-sub text-sm">Read-only.</aside>
-      ) : (
-        <ModelSidePanel check={check.data ?? null} checking={check.isFetching} />
-      )}
+      <ModelSidePanel check={check.data ?? null} checking={check.isFetching} readOnly={p.readOnly} />
     </div>
   );
 }

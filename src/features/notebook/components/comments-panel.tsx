@@ -1,5 +1,6 @@
 import { useState, type FormEvent } from 'react';
 import type { Comment } from '@shared/api/notebook';
+import { formatDateTime } from '@/lib/format';
 
 export interface CommentThread {
   root: Comment;
@@ -61,7 +62,13 @@ export function CommentsPanel({ comments, canComment, busy, error, onCreate, onR
         <Thread key={t.root.id} thread={t} canComment={canComment} busy={busy} onCreate={onCreate} onResolve={onResolve} />
       ))}
       {error && <p className="sl-field-error" role="alert">{error}</p>}
-      {canComment && <CommentForm placeholder="Comment on this cell…" busy={busy} onSubmit={(b) => onCreate(b, null)} />}
+      {canComment ? (
+        <CommentForm placeholder="Comment on this cell…" busy={busy} onSubmit={(b) => onCreate(b, null)} />
+      ) : (
+        <p className="sl-hint" data-testid="comments-read-only">
+          {threads.length === 0 ? 'No comments on this cell. ' : ''}Your role lets you read the comments; reviewers, editors and owners write them.
+        </p>
+      )}
     </div>
   );
 }
@@ -74,7 +81,7 @@ function Thread({ thread, canComment, busy, onCreate, onResolve }: { thread: Com
       {[root, ...replies].map((c) => (
         <div key={c.id} style={{ marginLeft: c === root ? 0 : '1rem', marginTop: c === root ? 0 : '0.4rem' }}>
           <div className="sl-cell-sub">
-            <strong style={{ color: 'var(--sl-ink)' }}>{c.author?.name ?? 'former member'}</strong> · {new Date(c.createdAt).toLocaleString()}
+            <strong style={{ color: 'var(--sl-ink)' }}>{c.author?.name ?? 'former member'}</strong> · <span className="sl-num">{formatDateTime(c.createdAt)}</span>
           </div>
           <p style={{ whiteSpace: 'pre-wrap' }}>{c.body}</p>
         </div>

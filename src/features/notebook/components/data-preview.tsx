@@ -1,6 +1,6 @@
 import { useMemo, useState } from 'react';
 import type { Dataset, PreviewValue } from '@shared/api/notebook';
-import { formatEstimate } from '@/lib/estimates';
+import { formatDataValue } from '@/lib/estimates';
 
 export type SortDir = 'asc' | 'desc';
 
@@ -75,7 +75,7 @@ export function DataPreview({ dataset, rows }: DataPreviewProps) {
                   const col = dataset.columns[j];
                   return (
                     <td key={j} className={col?.type === 'category' ? 'sl-mono' : 'sl-num'} style={col?.type === 'category' ? { textAlign: 'left' } : undefined}>
-                      {v === null ? <span style={{ color: 'var(--sl-ink-soft)' }}>·</span> : typeof v === 'number' ? (col?.type === 'integer' ? String(v) : formatEstimate(v, 4)) : v}
+                      {v === null ? <span style={{ color: 'var(--sl-ink-soft)' }}>·</span> : typeof v === 'number' ? (col?.type === 'integer' ? String(v) : formatDataValue(v, 4)) : v}
                     </td>
                   );
                 })}

@@ -1,74 +1,78 @@
 import { useMemo, useState } from 'react';
 import type { RunDraws } from '@shared/api/notebook';
-import { densitySpec, pairSpec, rankSpec, regionSpec, traceSpec } from '@/lib/plot/specs';
-import { rankHistogram, thinIndices } from '@/lib/plot/thin';
-import { buildRegionView } from '@/lib/plot/region-view';
+import type { QuantitySummary } from '@shared/fit';
+import { pairSpec } from '@/lib/plot/specs';
+import { thinIndices } from '@/lib/plot/thin';
+import { orderedChains } from '@/lib/plot/mixing';
+import { buildRegionView, buildTriangleView, shareTriples } from '@/lib/plot/region-view';
 import { PlotFrame } from './plot-frame';
+import { RegionFigure, TriangleFigure } from './region-figure';
+import { MixingView } from './mixing-view';
+import { LadderView } from './ladder-view';
 
-export const PLOT_KINDS = ['region', 'trace', 'density', 'rank', 'pair'] as const;
+export const PLOT_KINDS = ['region', 'mixing', 'ladder', 'pair'] as const;
 export type PlotKind = (typeof PLOT_KINDS)[number];
 const PLOT_WORDS: Record<PlotKind, string> = {
   region: 'Feasible region',
-  trace: 'Trace',
-  density: 'Density',
-  rank: 'Ranks',
-  pair: 'Pair',
+  mixing: 'Chain agreement',
+  ladder: 'Order',
+  pair: 'Two quantities',
 };
 
-/** Points per chain drawn in traces and densities (summaries always use every draw). */
-const MAX_PER_CHAIN = 1000;
 /**
- * Points drawn in a pair cloud over all chains, as in the feasible-region cloud: every one is an
- * SVG element, and 4 chains × 1,000 circles took about twice as long to draw as 2,000.
+ * Points drawn in the cloud of two quantities over all chains, as in the feasible-region view:
+ * every one is an SVG element, and 4 chains × 1,000 circles took about twice as long to draw as 2,000.
  */
 const MAX_CLOUD_POINTS = 2000;
 
-export function FitPlots({ draws }: { draws: RunDraws }) {
+export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantities?: QuantitySummary[] }) {
   const hasRegion = draws.region !== null && draws.unknownCount >= 2 && (draws.region.A.length > 0 || draws.region.E.length > 0);
-  const kinds = PLOT_KINDS.filter((k) => k !== 'region' || hasRegion);
+  const ladders = useMemo(() => orderedChains(draws.region), [draws.region]);
+  const byName = useMemo(() => new Map(quantities.map((q) => [q.name, q])), [quantities]);
+  const ladderRungs = ladders.map((path) => path.map((k) => byName.get(draws.names[k])).filter((q): q is QuantitySummary => !!q)).filter((r) => r.length >= 3);
+  const kinds = PLOT_KINDS.filter((k) => (k !== 'region' || hasRegion) && (k !== 'ladder' || ladderRungs.length > 0));
   const [kind, setKind] = useState<PlotKind>(kinds[0]);
   const [q, setQ] = useState(0);
+  const [ladder, setLadder] = useState(0);
   const [pair, setPair] = useState<[number, number]>([0, Math.min(1, draws.names.length - 1)]);
   const chains = draws.chains.length;
+  const triples = useMemo(() => shareTriples(draws.region), [draws.region]);
+  /** Region view: -1 for two unknowns, otherwise the index of a triple of shares. */
+  const [regionMode, setRegionMode] = useState(triples.length > 0 ? 0 : -1);
+  const triangle = kind === 'region' && regionMode >= 0 && triples[regionMode] ? triples[regionMode] : null;
 
-  const pairSame = pair[0] === pair[1];
-  const spec = useMemo(() => {
-    if ((kind === 'pair' || kind === 'region') && pair[0] === pair[1]) return null;
-    const values = (idx: number) => draws.chains.map((c) => c.values[idx] ?? []);
-    switch (kind) {
-      case 'trace': {
-        const rows = draws.chains.flatMap((c) => thinIndices(c.values[q]?.length ?? 0, MAX_PER_CHAIN).map((t) => ({ chain: c.chain, iter: t * draws.thin + 1, value: c.values[q][t] })));
-        return traceSpec(draws.names[q], rows, chains);
+  const figure = useMemo(() => {
+    if (kind === 'region') {
+      if (triangle) {
+        const v = buildTriangleView(draws, triangle.members, triangle.total);
+        const names = triangle.members.map((k) => draws.names[k]) as [string, string, string];
+        return { available: v.available, clipped: v.clipped, node: <TriangleFigure names={names} polygon={v.polygon} draws={v.draws} point={v.point} /> };
       }
-      case 'density': {
-        const rows = draws.chains.flatMap((c) => thinIndices(c.values[q]?.length ?? 0, MAX_PER_CHAIN).map((t) => ({ chain: c.chain, value: c.values[q][t] })));
-        return densitySpec(draws.names[q], rows, chains);
-      }
-      case 'rank': {
-        const bins = 20;
-        const hist = rankHistogram(values(q), bins);
-        const total = draws.chains.reduce((s, c) => s + (c.values[q]?.length ?? 0), 0);
-        return rankSpec(draws.names[q], hist, chains, total / (chains * bins));
-      }
-      case 'pair': {
-        const [i, j] = pair;
-        // Thinned evenly per chain, but every divergent transition is kept: they are what the cloud is read for.
-        const perChain = Math.max(1, Math.floor(MAX_CLOUD_POINTS / Math.max(1, chains)));
-        const rows = draws.chains.flatMap((c) => {
-          const n = c.values[i]?.length ?? 0;
-          const keep = new Set(thinIndices(n, perChain));
-          for (let t = 0; t < n; t++) if (c.divergent[t]) keep.add(t);
-          return [...keep].sort((a, b) => a - b).map((t) => ({ x: c.values[i][t], y: c.values[j][t], chain: c.chain, divergent: c.divergent[t] ?? 0 }));
-        });
-        return pairSpec(draws.names[i], draws.names[j], rows, chains);
-      }
-      case 'region': {
-        const [i, j] = pair;
-        const view = buildRegionView(draws, draws.region!, Math.min(i, draws.unknownCount - 1), Math.min(j, draws.unknownCount - 1));
-        return regionSpec({ xName: draws.names[i], yName: draws.names[j], ...view });
-      }
+      const [i, j] = pair;
+      if (i === j || i >= draws.unknownCount || j >= draws.unknownCount) return null;
+      const v = buildRegionView(draws, i, j);
+      return { available: v.available, clipped: v.clipped, node: <RegionFigure xName={draws.names[i]} yName={draws.names[j]} box={v.box} polygon={v.polygon} draws={v.draws} point={v.point} /> };
     }
-  }, [kind, q, pair, draws, chains]);
+    if (kind === 'mixing') {
+      const series = draws.chains.map((c) => ({ chain: c.chain, values: c.values[q] ?? [] }));
+      return { available: true, clipped: false, node: <MixingView name={draws.names[q]} chains={series} thin={draws.thin} summary={byName.get(draws.names[q])} /> };
+    }
+    if (kind === 'ladder') {
+      const rungs = ladderRungs[Math.min(ladder, ladderRungs.length - 1)];
+      return rungs ? { available: true, clipped: false, node: <LadderView rungs={rungs} /> } : null;
+    }
+    const [i, j] = pair;
+    if (i === j) return null;
+    // Thinned evenly per chain, but every divergent transition is kept: they are what the cloud is read for.
+    const perChain = Math.max(1, Math.floor(MAX_CLOUD_POINTS / Math.max(1, chains)));
+    const rows = draws.chains.flatMap((c) => {
+      const n = c.values[i]?.length ?? 0;
+      const keep = new Set(thinIndices(n, perChain));
+      for (let t = 0; t < n; t++) if (c.divergent[t]) keep.add(t);
+      return [...keep].sort((a, b) => a - b).map((t) => ({ x: c.values[i][t], y: c.values[j][t], chain: c.chain, divergent: c.divergent[t] ?? 0 }));
+    });
+    return { available: true, clipped: false, node: <PlotFrame spec={pairSpec(draws.names[i], draws.names[j], rows, chains)} label="Two quantities plot" /> };
+  }, [kind, triangle, pair, q, ladder, draws, chains, byName]); // eslint-disable-line react-hooks/exhaustive-deps
 
   const pairChoices = kind === 'region' ? draws.names.slice(0, draws.unknownCount) : draws.names;
 
@@ -82,7 +86,18 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
         ))}
       </div>
       <div className="flex flex-wrap items-end gap-3 text-sm">
-        {kind === 'pair' || kind === 'region' ? (
+        {kind === 'region' && triples.length > 0 && (
+          <label className="flex items-center gap-2">
+            <span className="sl-cell-sub">view</span>
+            <select className="sl-input" style={{ width: 'auto' }} value={regionMode} onChange={(e) => setRegionMode(Number(e.target.value))} aria-label="Region view">
+              {triples.map((t, k) => (
+                <option key={k} value={k}>{t.members.map((m) => draws.names[m]).join(' + ')} (triangle)</option>
+              ))}
+              <option value={-1}>two unknowns</option>
+            </select>
+          </label>
+        )}
+        {(kind === 'pair' || (kind === 'region' && !triangle)) && (
           <>
             <label className="flex items-center gap-2">
               <span className="sl-cell-sub">across</span>
@@ -97,7 +112,8 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
               </select>
             </label>
           </>
-        ) : (
+        )}
+        {kind === 'mixing' && (
           <label className="flex items-center gap-2">
             <span className="sl-cell-sub">quantity</span>
             <select className="sl-input" style={{ width: 'auto' }} value={q} onChange={(e) => setQ(Number(e.target.value))} aria-label="Quantity">
@@ -105,22 +121,36 @@ export function FitPlots({ draws }: { draws: RunDraws }) {
             </select>
           </label>
         )}
+        {kind === 'ladder' && ladderRungs.length > 1 && (
+          <label className="flex items-center gap-2">
+            <span className="sl-cell-sub">order</span>
+            <select className="sl-input" style={{ width: 'auto' }} value={ladder} onChange={(e) => setLadder(Number(e.target.value))} aria-label="Ordering">
+              {ladderRungs.map((r, k) => <option key={k} value={k}>{r.map((x) => x.name).join(' ≤ ')}</option>)}
+            </select>
+          </label>
+        )}
       </div>
       {kind === 'region' && (
         <p className="sl-hint" style={{ maxWidth: '44rem' }}>
-          The slice of the constraint region through the posterior mean: every other unknown is held at its mean, each
-          constraint becomes a line in this plane, and the tinted side is where all of them hold. Draws vary in the other
-          unknowns too, so a few may sit outside this one slice.
+          {triangle
+            ? `Each corner is one share taking the whole ${triangle.total === 1 ? 'total' : `total of ${triangle.total}`}; the tinted shape is every mix the constraints allow, and every draw lies in it.`
+            : 'The tinted shape is every pair of values the constraints allow once the other unknowns are free to move (the region seen from these two axes); every draw lies in it.'}
+          {figure?.clipped ? ' The region reaches beyond the frame; the frame shows where the draws are.' : ''}
         </p>
       )}
-      {spec === null || pairSame ? (
-        <p className="sl-cell-sub">Choose two different quantities.</p>
+      {figure === null ? (
+        <p className="sl-cell-sub">{kind === 'region' ? 'Choose two different unknowns.' : 'Choose two different quantities.'}</p>
+      ) : kind === 'region' ? (
+        <figure aria-label="Feasible region plot" data-testid="plot" style={{ margin: 0 }}>
+          {figure.node}
+          {!figure.available && <figcaption className="sl-hint">No outline for this pair: the region is outlined for pairs among the first twelve unknowns.</figcaption>}
+        </figure>
       ) : (
-        <PlotFrame spec={spec} label={`${PLOT_WORDS[kind]} plot`} />
+        figure.node
       )}
-      {draws.thin > 1 && <p className="sl-hint">Plotted from every {draws.thin}th draw; the summary uses them all.</p>}
+      {draws.thin > 1 && <p className="sl-hint">Drawn from every {draws.thin}th draw; the figures in the rows above use them all.</p>}
       {kind === 'pair' && (draws.chains[0]?.values[0]?.length ?? 0) * chains > MAX_CLOUD_POINTS && (
-        <p className="sl-hint">The cloud shows about {MAX_CLOUD_POINTS} evenly spaced draws and every divergent one.</p>
+        <p className="sl-hint">The cloud shows about {MAX_CLOUD_POINTS.toLocaleString('en')} evenly spaced draws and every divergent one (in the warning colour).</p>
       )}
     </div>
   );

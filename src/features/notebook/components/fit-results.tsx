@@ -1,7 +1,7 @@
 import type { Run, RunDraws } from '@shared/api/notebook';
 import { formatEstimate, formatSeconds } from '@/lib/estimates';
 import { VerdictBanner } from './verdict-banner';
-import { SummaryTable } from './summary-table';
+import { QuantityRows } from './quantity-rows';
 import { FitPlots } from './fit-plots';
 
 export interface FitResultsProps {
@@ -12,7 +12,7 @@ export interface FitResultsProps {
   exports?: { draws: string; summary: string };
 }
 
-/** A finished run: verdict first, then the summary table, the run's diagnostics, exports and plots. */
+/** A finished run: verdict first, then one row per quantity, the run's diagnostics, exports and figures. */
 export function FitResults({ run, draws, drawsError, exports }: FitResultsProps) {
   const s = run.summary;
   if (!s) return null;
@@ -20,7 +20,7 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
   return (
     <div className="flex flex-col gap-4" data-testid="fit-results">
       <VerdictBanner verdict={s.verdict} />
-      <SummaryTable quantities={s.quantities} chains={s.settings.chains} />
+      <QuantityRows quantities={s.quantities} chains={s.settings.chains} draws={s.settings.draws} />
       <p className="sl-hint" data-testid="run-diagnostics">
         {s.settings.chains} chains × {s.settings.draws} draws after {s.settings.warmup} warm-up · sampler {d.samplerUsed} ({d.samplerReason}) ·
         divergences <span className={d.divergences > 0 ? 'sl-fail' : ''}>{d.divergences}</span>
@@ -39,7 +39,7 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
           </a>
         </div>
       )}
-      {draws ? <FitPlots draws={draws} /> : drawsError ? <p className="sl-cell-sub">Plots unavailable: {drawsError}</p> : <p className="sl-cell-sub" style={{ minHeight: 300 }}>Loading draws for the plots…</p>}
+      {draws ? <FitPlots draws={draws} quantities={s.quantities} /> : drawsError ? <p className="sl-cell-sub">Plots unavailable: {drawsError}</p> : <p className="sl-cell-sub" style={{ minHeight: 300 }}>Loading draws for the plots…</p>}
     </div>
   );
 }

@@ -8,13 +8,19 @@ const REGION_WORDS: Record<CompileResponse['region']['status'], string> = {
 };
 
 /** Beside the model editor: unknowns and their shapes, constraint counts, the region check. */
-export function ModelSidePanel({ check, checking }: { check: CompileResponse | null; checking: boolean }) {
-  if (!check) return <aside className="sl-cell-sub" aria-label="Model check">{checking ? 'Checking the model…' : 'Write a model to see its unknowns and constraints.'}</aside>;
+export function ModelSidePanel({ check, checking, readOnly = false }: { check: CompileResponse | null; checking: boolean; readOnly?: boolean }) {
+  if (!check)
+    return (
+      <aside className="sl-cell-sub" aria-label="Model check">
+        {checking ? 'Checking the model…' : readOnly ? 'This model cell is empty.' : 'Write a model to see its unknowns and constraints.'}
+      </aside>
+    );
   const errors = check.messages.filter((m) => m.severity === 'error');
   const dims = check.unknowns.reduce((s, u) => s + u.shape.reduce((p, d) => p * d, 1), 0);
   const region = check.region;
   return (
-    <aside className="flex flex-col gap-3 text-sm" aria-label="Model check" data-testid="model-side-panel">
+    <aside className="flex flex-col gap-3 text-sm" aria-label="Model check" data-testid="model-side-panel" data-read-only={readOnly || undefined}>
+      {readOnly && <p className="sl-hint" style={{ marginTop: 0 }}>Read-only: the program as saved, checked against the notebook's tables.</p>}
       <div>
         <div className="sl-kind">Unknowns</div>
         {check.unknowns.length === 0 ? (

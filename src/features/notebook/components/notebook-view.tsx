@@ -2,7 +2,7 @@
  * The notebook page body: the column of cells with their tools, autosave, conflicts, comments and
  * the keyboard. Members edit according to their role; share-link visitors and viewers read only.
  */
-import { useEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
+import { useEffect, useLayoutEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
 import { useQueries, useQueryClient } from '@tanstack/react-query';
 import { useNavigate } from 'react-router-dom';
 import { CELL_KIND_LABELS, dataContentSchema, type NbCell, type NbCellKind } from '@shared/api/notebook';
@@ -57,7 +57,8 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
   const member = access.mode === 'member';
   const wsId = member ? access.workspaceId : '';
   const mut = useCellMutations(wsId, access.notebookId);
-  const comments = useComments(wsId, access.notebookId, member && canComment);
+  // Every member reads the comments; reviewers and above write them.
+  const comments = useComments(wsId, access.notebookId, member);
   const commentMut = useCommentMutations(wsId, access.notebookId);
 
   // Tables bound by the data cells, for the model editor's completion and checks.
@@ -93,10 +94,28 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
     );
   };
 
+  /**
+   * Closing a notes editor removes the focused text area; the focus would fall to the page body,
+   * outside the column that listens for Alt-↑/↓. Hand it to the cell itself instead.
+   */
+  const refocus = useRef<string | null>(null);
+  const closeNotes = (id: string) => {
+    refocus.current = id;
+    setEditingNotes((e) => ({ ...e, [id]: false }));
+  };
+  // Right after the commit that removed the text area (before the next key can arrive).
+  useLayoutEffect(() => {
+    const id = refocus.current;
+    if (!id) return;
+    refocus.current = null;
+    const el = document.querySelector<HTMLElement>(`[data-cell-id="${CSS.escape(id)}"]`);
+    if (el && !el.contains(document.activeElement)) el.focus({ preventScroll: true });
+  }, [editingNotes]);
+
   const run = (id: string) => {
     const cell = cells.find((c) => c.id === id);
     if (!cell) return;
-    if (cell.kind === 'notes') return setEditingNotes((e) => ({ ...e, [id]: false }));
+    if (cell.kind === 'notes') return closeNotes(id);
     let target = cell;
     if (cell.kind === 'model') {
       // Running a model runs the first fit cell below it that fits it.
@@ -147,13 +166,14 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
             schema={schema}
             runSignal={runSignals[cell.id] ?? 0}
             editingNotes={!!editingNotes[cell.id]}
-            setEditingNotes={(v) => setEditingNotes((e) => ({ ...e, [cell.id]: v }))}
+            setEditingNotes={(v) => (v ? setEditingNotes((e) => ({ ...e, [cell.id]: true })) : closeNotes(cell.id))}
+            onRun={() => run(cell.id)}
             onMove={(direction) => mut.move.mutate({ cellId: cell.id, direction }, { onError: (e) => setActionError(errorMessage(e)) })}
             onDelete={() => mut.remove.mutate(cell.id, { onError: (e) => setActionError(errorMessage(e)) })}
             onCollapse={(collapsed) => mut.collapse.mutate({ cellId: cell.id, collapsed }, { onError: (e) => setActionError(errorMessage(e)) })}
             commentsOpen={!!openComments[cell.id]}
-            toggleComments={member && canComment ? () => setOpenComments((o) => ({ ...o, [cell.id]: !o[cell.id] })) : undefined}
-            openCommentCount={member && canComment ? (openCounts[cell.id] ?? 0) : undefined}
+            toggleComments={member ? () => setOpenComments((o) => ({ ...o, [cell.id]: !o[cell.id] })) : undefined}
+            openCommentCount={member ? (openCounts[cell.id] ?? 0) : undefined}
             comments={
               openComments[cell.id] ? (
                 <CommentsPanel
@@ -189,6 +209,8 @@ interface CellItemProps {
   runSignal: number;
   editingNotes: boolean;
   setEditingNotes: (v: boolean) => void;
+  /** Run this cell (Mod-Enter inside an editor that handles the key itself). */
+  onRun: () => void;
   onMove: (d: 'up' | 'down') => void;
   onDelete: () => void;
   onCollapse: (collapsed: boolean) => void;
@@ -232,6 +254,10 @@ function CellItem(p: CellItemProps) {
     runSignal: p.runSignal,
     editingNotes: p.editingNotes,
     setEditingNotes: p.setEditingNotes,
+    onRun: () => {
+      // Save what was typed first: the fit reads the model as stored.
+      void draft.flush().then(p.onRun, p.onRun);
+    },
   };
   const label = CELL_KIND_LABELS[cell.kind];
   const subtitle = cell.kind === 'model' ? (cell.source.match(/^\s*#\s*(.+)$/m)?.[1] ?? undefined) : undefined;

@@ -1,5 +1,6 @@
 import type { Run } from '@shared/api/notebook';
 import { formatSeconds } from '@/lib/estimates';
+import { formatDateTime } from '@/lib/format';
 
 const STATUS_WORDS: Record<Run['status'], string> = {
   queued: 'waiting',
@@ -25,7 +26,7 @@ export function RunsList({ runs, openId, onOpen }: { runs: Run[]; openId: string
               <button type="button" className="sl-btn" aria-current={r.id === openId ? 'true' : undefined} disabled={r.id === openId} onClick={() => onOpen(r.id)}>
                 {r.id === openId ? 'shown' : 'open'}
               </button>
-              <span className="sl-num">{new Date(r.createdAt).toLocaleString()}</span>
+              <span className="sl-num">{formatDateTime(r.createdAt)}</span>
               <span>{STATUS_WORDS[r.status]}</span>
               <span className="sl-cell-sub">
                 {r.settings.chains}×{r.settings.draws} draws · seed {r.settings.seed}

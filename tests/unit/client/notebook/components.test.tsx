@@ -7,7 +7,7 @@ import { CellFrame } from '../../../../src/features/notebook/components/cell-fra
 import { DataPreview, sortRows } from '../../../../src/features/notebook/components/data-preview';
 import { FitSettingsForm, parseFitDraft } from '../../../../src/features/notebook/components/fit-settings-form';
 import { VerdictBanner } from '../../../../src/features/notebook/components/verdict-banner';
-import { SummaryTable } from '../../../../src/features/notebook/components/summary-table';
+import { QuantityRows } from '../../../../src/features/notebook/components/quantity-rows';
 import { ChainProgress } from '../../../../src/features/notebook/components/chain-progress';
 import { ConflictDialog } from '../../../../src/features/notebook/components/conflict-dialog';
 import { CommentsPanel, threadComments } from '../../../../src/features/notebook/components/comments-panel';
@@ -197,15 +197,29 @@ const q = (name: string, over: Partial<QuantitySummary> = {}): QuantitySummary =
   mcseMean: 0.0023, mcseQ5: 0.004, mcseQ50: 0.003, mcseQ95: 0.004, ...over,
 });
 
-describe('summary table and verdict', () => {
-  it('highlights only failing R̂ and ESS values (R̂ ≥ 1.01, ESS < 100 per chain)', () => {
-    render(<SummaryTable chains={4} quantities={[q('mu[1]'), q('mu[2]', { rhat: 1.04, essTail: 120 }), q('gain', { kind: 'derived' })]} />);
-    const table = screen.getByTestId('summary-table');
-    const failing = [...table.querySelectorAll('.sl-fail')].map((e) => e.textContent);
-    expect(failing).toEqual(['1.040', '120']);
-    expect(table.querySelectorAll('tr[data-failing]')).toHaveLength(1);
-    expect(table.textContent).toContain('derived');
-    expect(table.querySelector('td.sl-num')?.textContent).toBe('1.23');
+describe('quantity rows and verdict', () => {
+  it('one row per quantity with its median and 90 % interval; the trust mark and the warning colour only where R̂ > 1.01 or ESS < 100 per chain', () => {
+    render(<QuantityRows chains={4} draws={1000} quantities={[q('mu[1]'), q('mu[2]', { rhat: 1.04, essTail: 120 }), q('mu[3]', { rhat: 1.01 }), q('gain', { kind: 'derived' })]} />);
+    const rows = screen.getAllByTestId('quantity-row');
+    expect(rows).toHaveLength(4);
+    expect(rows.map((r) => r.hasAttribute('data-failing'))).toEqual([false, true, false, false]);
+    expect(rows[0].textContent).toContain('1.23');
+    expect(rows[0].textContent).toContain('1.07 to 1.40');
+    expect(rows[1].querySelector('[role="img"]')?.getAttribute('aria-label')).toMatch(/chains disagree.*tails/);
+    const fold = screen.getByTestId('mixing-figures');
+    expect([...fold.querySelectorAll('.sl-fail')].map((e) => e.textContent)).toEqual(['1.040', '120']);
+    expect(screen.getByTestId('summary-table').textContent).toContain('derived');
+  });
+
+  it('explains ESS above the number of draws and ESS at its ceiling in footnotes', () => {
+    // 2 chains × 100 draws = 200 draws; the ceiling is 200 · log10(200) ≈ 460 (the estimator's floor on τ).
+    const cap = 200 * Math.log10(200);
+    render(<QuantityRows chains={2} draws={100} quantities={[q('a', { essBulk: 150, essTail: 150 }), q('b', { essBulk: 320, essTail: 210 }), q('c', { essBulk: cap, essTail: 300 })]} />);
+    expect(screen.getByTestId('ess-note-above').textContent).toContain('200');
+    expect(screen.getByTestId('ess-note-capped').textContent).toContain(String(Math.round(cap)));
+    const fold = screen.getByTestId('mixing-figures');
+    expect(fold.textContent).toContain('320†');
+    expect(fold.textContent).toContain(`${Math.round(cap)}‡`);
   });
 
   const rules = [

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { formatEss, formatEstimate, formatRhat, formatSeconds } from '../../../../src/lib/estimates';
-import { essFails, rhatFails } from '../../../../src/lib/diagnostic-thresholds';
+import { essFails, rhatFails } from '../../../../shared/diagnostics';
+import { judgeRun } from '../../../../server/engine/diagnostics/verdict';
 
 describe('formatting', () => {
   it('keeps three significant digits and a true minus sign', () => {
@@ -10,6 +11,11 @@ describe('formatting', () => {
     expect(formatEstimate(123456)).toBe('1.23e5');
     expect(formatEstimate(0.0000123)).toBe('1.23e-5');
     expect(formatEstimate(0)).toBe('0');
+    // Trailing zeros stay: every number in a column carries the same number of significant digits.
+    expect(formatEstimate(4.5)).toBe('4.50');
+    expect(formatEstimate(0.08)).toBe('0.0800');
+    expect(formatEstimate(12)).toBe('12.0');
+    expect(formatEstimate(0.5, 2)).toBe('0.50');
     expect(formatEstimate(NaN)).toBe('NaN');
   });
   it('R̂ with three decimals, ESS whole', () => {
@@ -23,11 +29,20 @@ describe('formatting', () => {
   });
 });
 
-describe('failing thresholds (Improved R̂, Bayesian Analysis 2021: R̂ < 1.01, ESS ≥ 100 per chain)', () => {
-  it('flags R̂ at or above 1.01 and non-finite R̂', () => {
+describe('failing thresholds (Improved R̂, Bayesian Analysis 2021: R̂ ≤ 1.01, ESS ≥ 100 per chain)', () => {
+  it('flags R̂ above 1.01 and non-finite R̂; 1.01 itself passes', () => {
     expect(rhatFails(1.009)).toBe(false);
-    expect(rhatFails(1.01)).toBe(true);
+    expect(rhatFails(1.01)).toBe(false);
+    expect(rhatFails(1.0101)).toBe(true);
     expect(rhatFails(NaN)).toBe(true);
+  });
+  it('the summary and the verdict judge the boundary alike (one definition in shared/diagnostics)', () => {
+    for (const [rhat, ess] of [[1.01, 400], [1.0101, 400], [1.0, 399], [1.0, 400]] as const) {
+      const v = judgeRun({ chains: 4, draws: 1000, divergences: 0, maxRhat: rhat, minEssBulk: ess, minEssTail: ess });
+      const rule = (s: string) => v.rules.find((r) => r.rule.startsWith(s))!.passed;
+      expect(rule('chains agree closely')).toBe(!rhatFails(rhat));
+      expect(rule('enough draws in the bulk')).toBe(!essFails(ess, 4));
+    }
   });
   it('flags ESS below 100 per chain', () => {
     expect(essFails(400, 4)).toBe(false);

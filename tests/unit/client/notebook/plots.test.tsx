@@ -2,7 +2,7 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { cleanup, fireEvent, render, screen } from '@testing-library/react';
 import { readFileSync } from 'node:fs';
-import { densitySpec, pairSpec, rankSpec, regionSpec, traceSpec } from '../../../../src/lib/plot/specs';
+import { pairSpec } from '../../../../src/lib/plot/specs';
 import { PALETTE } from '../../../../src/lib/plot/palette';
 import { FitPlots } from '../../../../src/features/notebook/components/fit-plots';
 import type { RunDraws } from '../../../../shared/api/notebook';
@@ -12,35 +12,12 @@ afterEach(cleanup);
 type Layer = { mark: { type: string; color?: string; fill?: string }; data?: { values: unknown[] } };
 
 describe('plot specifications', () => {
-  it('trace and density colour by chain; rank plot carries the flat expectation', () => {
-    const t = traceSpec('mu', [{ chain: 1, iter: 1, value: 0 }], 2) as { encoding: { color: { scale: { domain: number[] } } } };
-    expect(t.encoding.color.scale.domain).toEqual([1, 2]);
-    const d = densitySpec('mu', [], 4) as { layer: { transform: { density: string }[] }[] };
-    expect(d.layer.map((l) => l.transform[0].density)).toEqual(['value', 'value']);
-    const r = rankSpec('mu', [], 4, 12.5) as { layer: Layer[] };
-    expect(r.layer[1].data?.values).toEqual([{ expected: 12.5 }]);
-  });
-
   it('pair scatter uses the warning colour for divergent draws only', () => {
     const p = JSON.stringify(pairSpec('a', 'b', [], 2));
     expect(p.split(PALETTE.warning)).toHaveLength(2);
     expect(p).toContain('datum.divergent == 1');
   });
 
-  it('region view: tinted accent polygon, constraint strokes, draws, and the slice point', () => {
-    const spec = regionSpec({
-      xName: 'w[1]',
-      yName: 'w[2]',
-      box: { xMin: 0, xMax: 1, yMin: 0, yMax: 1 },
-      polygon: [{ x: 0, y: 0 }, { x: 1, y: 0 }, { x: 0, y: 1 }],
-      lines: [{ x1: 0, y1: 1, x2: 1, y2: 0, label: 'sum <= 1' }],
-      draws: [{ x: 0.2, y: 0.3 }],
-      point: { x: 0.3, y: 0.3 },
-    }) as { layer: Layer[] };
-    expect(spec.layer.map((l) => l.mark.type)).toEqual(['line', 'circle', 'rule', 'point']);
-    expect(spec.layer[0].mark.fill).toBe(PALETTE.accent);
-    expect(JSON.stringify(spec)).not.toContain(PALETTE.warning);
-  });
 });
 
 const draws: RunDraws = {
@@ -64,22 +41,31 @@ describe('fit plots panel', () => {
   it('opens on the feasible-region view and offers only unknowns as its axes', () => {
     render(<FitPlots draws={draws} />);
     expect(screen.getByRole('tab', { name: 'Feasible region' }).getAttribute('aria-selected')).toBe('true');
+    // Three shares summing to one open in their own coordinates, the triangle.
+    expect(screen.getByTestId('triangle-figure')).toBeTruthy();
+    fireEvent.change(screen.getByLabelText('Region view'), { target: { value: '-1' } });
+    expect(screen.getByTestId('region-figure')).toBeTruthy();
     const across = screen.getByLabelText('Horizontal quantity') as HTMLSelectElement;
     expect([...across.options].map((o) => o.textContent)).toEqual(['w[1]', 'w[2]', 'w[3]']);
-    fireEvent.click(screen.getByRole('tab', { name: 'Pair' }));
+    fireEvent.click(screen.getByRole('tab', { name: 'Two quantities' }));
     expect([...(screen.getByLabelText('Horizontal quantity') as HTMLSelectElement).options].map((o) => o.textContent)).toContain('spread');
   });
 
   it('asks for two different quantities', () => {
     render(<FitPlots draws={draws} />);
+    fireEvent.change(screen.getByLabelText('Region view'), { target: { value: '-1' } });
     fireEvent.change(screen.getByLabelText('Vertical quantity'), { target: { value: '0' } });
-    expect(screen.getByText('Choose two different quantities.')).toBeTruthy();
+    expect(screen.getByText('Choose two different unknowns.')).toBeTruthy();
   });
 
-  it('without a constraint region the panel starts on the trace', () => {
+  it('without a constraint region the panel starts on the chain agreement, and offers no ladder', () => {
     render(<FitPlots draws={{ ...draws, region: null }} />);
     expect(screen.queryByRole('tab', { name: 'Feasible region' })).toBeNull();
-    expect(screen.getByRole('tab', { name: 'Trace' }).getAttribute('aria-selected')).toBe('true');
+    expect(screen.queryByRole('tab', { name: 'Order' })).toBeNull();
+    expect(screen.getByRole('tab', { name: 'Chain agreement' }).getAttribute('aria-selected')).toBe('true');
+    // One band and one median line per chain, one strip cell per stretch of the run (4 draws: 4 stretches).
+    expect(screen.getByTestId('mixing-view').querySelectorAll('[data-chain]')).toHaveLength(2);
+    expect(screen.getAllByTestId('agreement-cell')).toHaveLength(4);
   });
 
   it('loads the charting library lazily (dynamic import), never statically', () => {

@@ -9,7 +9,7 @@ import {
   sliceSystem,
   type Box,
 } from '../../../../src/lib/plot/region';
-import { buildRegionView } from '../../../../src/lib/plot/region-view';
+import { buildRegionView, buildTriangleView, shareTriples, toTriangle, TRIANGLE } from '../../../../src/lib/plot/region-view';
 import type { RegionSystem, RunDraws } from '../../../../shared/api/notebook';
 
 const unitBox: Box = { xMin: 0, xMax: 1, yMin: 0, yMax: 1 };
@@ -126,40 +126,63 @@ describe('boxAround', () => {
   });
 });
 
-describe('buildRegionView', () => {
-  it('slices a 3-simplex through the posterior mean and keeps every draw inside the tinted region', () => {
-    // Draws of (w1, w2, w3) on {w ≥ 0, w1 + w2 + w3 ≤ 1}, made up on a grid for the test.
-    const w1: number[] = [];
-    const w2: number[] = [];
-    const w3: number[] = [];
-    for (let a = 1; a < 10; a++) for (let b = 1; b < 10 - a; b++) {
-      w1.push(a / 20);
-      w2.push(b / 20);
-      w3.push(0.25);
+describe('buildRegionView (the projection sent by the server)', () => {
+  // Draws of shares (w1, w2, w3) summing to one, made up on a grid for the test.
+  const w1: number[] = [];
+  const w2: number[] = [];
+  const w3: number[] = [];
+  for (let a = 1; a < 10; a++)
+    for (let b = 1; b < 10 - a; b++) {
+      w1.push(a / 10);
+      w2.push(b / 10);
+      w3.push(1 - a / 10 - b / 10);
     }
-    const draws: RunDraws = {
-      names: ['w[1]', 'w[2]', 'w[3]'],
-      unknownCount: 3,
-      thin: 1,
-      chains: [{ chain: 1, values: [w1, w2, w3], divergent: w1.map(() => 0) }],
-      region: null,
-    };
-    const region: RegionSystem = {
-      names: draws.names,
-      A: [[-1, 0, 0], [0, -1, 0], [0, 0, -1], [1, 1, 1]],
-      b: [0, 0, 0, 1],
-      labels: ['w[1] >= 0', 'w[2] >= 0', 'w[3] >= 0', 'sum(w) <= 1'],
-      E: [],
-      e: [],
-      eLabels: [],
-    };
-    const view = buildRegionView(draws, region, 0, 1);
-    expect(view.point.x).toBeCloseTo(w1.reduce((s, v) => s + v, 0) / w1.length, 12);
-    // Three rows involve (w1, w2); the w3 row is constant and holds at w3 = 0.25.
-    expect(view.lines.length + view.offscreen).toBe(3);
-    expect(view.failingConstantRows).toEqual([]);
-    const hps = sliceSystem(region.A, region.b, 0, 1, [0, 0, 0.25]).halfPlanes;
+  const region: RegionSystem = {
+    names: ['w[1]', 'w[2]', 'w[3]'],
+    A: [[-1, 0, 0], [0, -1, 0], [0, 0, -1]],
+    b: [0, 0, 0],
+    labels: ['w[1] >= 0', 'w[2] >= 0', 'w[3] >= 0'],
+    E: [[1, 1, 1]],
+    e: [1],
+    eLabels: ['sum(w) == 1'],
+  };
+  // The projection of the probability simplex on any two shares: the unit triangle (handbook geometry).
+  const draws: RunDraws = {
+    names: region.names,
+    unknownCount: 3,
+    thin: 1,
+    chains: [{ chain: 1, values: [w1, w2, w3], divergent: w1.map(() => 0) }],
+    region,
+    projections: [
+      { i: 0, j: 1, vertices: [[0, 0], [1, 0], [0, 1]], clipped: false },
+      { i: 1, j: 2, vertices: [[0, 0], [1, 0], [0, 1]], clipped: false },
+    ],
+  };
+
+  it('takes the pair\'s polygon (either order) and the posterior mean; every draw is inside', () => {
+    const view = buildRegionView(draws, 2, 1);
+    expect(view.available).toBe(true);
+    expect(view.point.x).toBeCloseTo(w3.reduce((s, v) => s + v, 0) / w3.length, 12);
+    expect(polygonArea(view.polygon)).toBeCloseTo(0.5, 12); // counter-clockwise after the swap
+    const hps = [
+      { a: -1, b: 0, c: 0, label: '', row: 0 },
+      { a: 0, b: -1, c: 0, label: '', row: 1 },
+      { a: Math.SQRT1_2, b: Math.SQRT1_2, c: Math.SQRT1_2, label: '', row: 2 },
+    ];
     for (const d of view.draws) expect(insideAll(hps, d)).toBe(true);
-    for (const p of view.polygon) expect(insideAll(hps, p, 1e-9)).toBe(true);
+    expect(buildRegionView(draws, 0, 2).available).toBe(false);
+  });
+
+  it('finds three shares summing to one and places them in the triangle by barycentric coordinates', () => {
+    const triples = shareTriples(region);
+    expect(triples).toEqual([{ members: [0, 1, 2], total: 1, label: 'sum(w) == 1' }]);
+    const t = buildTriangleView(draws, triples[0].members, 1);
+    // Corners: (1,0,0) → TRIANGLE[0], (0,1,0) → TRIANGLE[1], (0,0,1) → TRIANGLE[2].
+    const near = (p: { x: number; y: number }, q: { x: number; y: number }) => Math.hypot(p.x - q.x, p.y - q.y) < 1e-12;
+    expect(t.polygon.some((p) => near(p, TRIANGLE[0]))).toBe(true);
+    expect(t.polygon.some((p) => near(p, TRIANGLE[1]))).toBe(true);
+    expect(t.polygon.some((p) => near(p, TRIANGLE[2]))).toBe(true);
+    expect(toTriangle(1 / 3, 1 / 3, 1).x).toBeCloseTo(0.5, 12);
+    expect(toTriangle(1 / 3, 1 / 3, 1).y).toBeCloseTo(Math.sqrt(3) / 6, 12); // centroid height = h/3
   });
 });

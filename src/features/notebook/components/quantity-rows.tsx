@@ -1,0 +1,168 @@
+import { Fragment } from 'react';
+import type { QuantitySummary } from '@shared/fit';
+import { DIAGNOSTIC_THRESHOLDS, essFails, essNeeded, rhatFails } from '@shared/diagnostics';
+import { familyOf } from '@/lib/plot/mixing';
+import { formatEss, formatEstimate, formatRhat } from '@/lib/estimates';
+
+export interface QuantityRowsProps {
+  quantities: QuantitySummary[];
+  chains: number;
+  /** Kept draws per chain. */
+  draws: number;
+}
+
+/** Why a quantity's own mixing figures fail, in words (empty when they pass). */
+export function mixingProblems(q: QuantitySummary, chains: number): string[] {
+  const out: string[] = [];
+  if (rhatFails(q.rhat)) out.push(`chains disagree (R̂ ${formatRhat(q.rhat)} > ${DIAGNOSTIC_THRESHOLDS.rhatRunLonger})`);
+  if (essFails(q.essBulk, chains)) out.push(`too few independent draws in the middle (${formatEss(q.essBulk)} < ${essNeeded(chains)})`);
+  if (essFails(q.essTail, chains)) out.push(`too few independent draws in the tails (${formatEss(q.essTail)} < ${essNeeded(chains)})`);
+  return out;
+}
+
+/** The axis each row is drawn on: shared by a family (mu[1], mu[2], …), padded a little. */
+function familyAxes(quantities: QuantitySummary[]): Map<string, [number, number]> {
+  const m = new Map<string, [number, number]>();
+  for (const q of quantities) {
+    const f = `${q.kind}:${familyOf(q.name)}`;
+    const cur = m.get(f) ?? [Infinity, -Infinity];
+    m.set(f, [Math.min(cur[0], q.q5), Math.max(cur[1], q.q95)]);
+  }
+  for (const [f, [lo, hi]] of m) {
+    const span = hi - lo || Math.max(Math.abs(lo), 1) * 0.1;
+    m.set(f, [lo - 0.08 * span, hi + 0.08 * span]);
+  }
+  return m;
+}
+
+const W = 320;
+const H = 22;
+
+/** The 90 % interval as a bar, the median as a tick, the mean as a small ring; zero marked when in view. */
+function IntervalMark({ q, axis }: { q: QuantitySummary; axis: [number, number] }) {
+  const [lo, hi] = axis;
+  const x = (v: number) => 4 + ((v - lo) / (hi - lo || 1)) * (W - 8);
+  const zero = lo < 0 && hi > 0 ? x(0) : null;
+  return (
+    <svg viewBox={`0 0 ${W} ${H}`} className="sl-interval" role="img" aria-label={`90 % interval ${formatEstimate(q.q5)} to ${formatEstimate(q.q95)}, median ${formatEstimate(q.q50)}`}>
+      <line x1={4} x2={W - 4} y1={H / 2} y2={H / 2} stroke="var(--sl-rule)" />
+      {zero !== null && <line x1={zero} x2={zero} y1={3} y2={H - 3} stroke="var(--sl-rule-strong)" strokeDasharray="2 2" />}
+      <line x1={x(q.q5)} x2={x(q.q95)} y1={H / 2} y2={H / 2} stroke="var(--sl-ink-soft)" strokeWidth="5" strokeLinecap="round" opacity="0.55" />
+      <line x1={x(q.q50)} x2={x(q.q50)} y1={3} y2={H - 3} stroke="var(--sl-ink)" strokeWidth="2.2" />
+      <circle cx={x(q.mean)} cy={H / 2} r="2.6" fill="var(--sl-sheet)" stroke="var(--sl-ink)" strokeWidth="1" />
+    </svg>
+  );
+}
+
+/**
+ * The results, one quantity a row: name, its 90 % interval drawn inline with the median marked,
+ * the numbers, and a trust mark from that quantity's own R̂ and ESS (the shared thresholds). The
+ * mixing figures themselves sit behind a fold.
+ */
+export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
+  const axes = familyAxes(quantities);
+  const total = chains * draws;
+  const cap = total * Math.log10(Math.max(10, total));
+  const anyAbove = quantities.some((q) => q.essBulk > total || q.essTail > total);
+  const anyCapped = quantities.some((q) => q.essBulk >= cap * (1 - 1e-9) || q.essTail >= cap * (1 - 1e-9));
+  const groups: [string, QuantitySummary[]][] = [
+    ['unknowns', quantities.filter((q) => q.kind === 'unknown')],
+    ['derived', quantities.filter((q) => q.kind === 'derived')],
+  ];
+  const essNote = (e: number) => (e >= cap * (1 - 1e-9) ? '‡' : e > total ? '†' : '');
+  return (
+    <div className="flex flex-col gap-2" data-testid="summary-table">
+      <div className="sl-qrow sl-qrow-head" aria-hidden>
+        <span />
+        <span>quantity</span>
+        <span className="sl-q-fig">90 % of the posterior · median │ · mean ○</span>
+        <span className="sl-q-nums">median · 90 % interval</span>
+      </div>
+      {groups.map(([label, list]) =>
+        list.length === 0 ? null : (
+          <Fragment key={label}>
+            {label === 'derived' && <div className="sl-type" style={{ paddingTop: '0.3rem' }}>derived</div>}
+            {list.map((q) => {
+              const problems = mixingProblems(q, chains);
+              const ok = problems.length === 0;
+              return (
+                <div key={q.name} className="sl-qrow" data-testid="quantity-row" data-failing={ok ? undefined : true}>
+                  <span
+                    className={ok ? 'sl-trust' : 'sl-trust sl-trust-fail'}
+                    role="img"
+                    aria-label={ok ? 'mixed well: the chains agree and there are enough independent draws' : `not settled: ${problems.join('; ')}`}
+                    title={ok ? 'Chains agree and there are enough independent draws for this quantity.' : `Not settled: ${problems.join('; ')}.`}
+                  >
+                    {ok ? '✓' : '!'}
+                  </span>
+                  <span className="sl-mono sl-q-name" title={q.name}>{q.name}</span>
+                  <span className="sl-q-fig">
+                    <IntervalMark q={q} axis={axes.get(`${q.kind}:${familyOf(q.name)}`)!} />
+                  </span>
+                  <span className="sl-q-nums sl-mono">
+                    <strong>{formatEstimate(q.q50)}</strong>
+                    <span className="sl-q-range">
+                      {formatEstimate(q.q5)} to {formatEstimate(q.q95)}
+                    </span>
+                  </span>
+                </div>
+              );
+            })}
+          </Fragment>
+        ),
+      )}
+      <details className="sl-fold" data-testid="mixing-figures">
+        <summary>How well the chains mixed, quantity by quantity</summary>
+        <div className="overflow-x-auto">
+          <table className="sl-table" style={{ marginTop: '0.4rem' }}>
+            <thead>
+              <tr>
+                <th scope="col">quantity</th>
+                <th scope="col" title={`rank-normalised split-R̂; at most ${DIAGNOSTIC_THRESHOLDS.rhatRunLonger} passes`}>chains agree (R̂)</th>
+                <th scope="col" title={`bulk effective sample size; at least ${essNeeded(chains)} passes`}>independent draws, middle</th>
+                <th scope="col" title={`tail effective sample size (5 % and 95 % quantiles); at least ${essNeeded(chains)} passes`}>independent draws, tails</th>
+                <th scope="col" title="Monte Carlo standard error of the mean">MC error of the mean</th>
+                <th scope="col">mean</th>
+                <th scope="col">sd</th>
+              </tr>
+            </thead>
+            <tbody>
+              {quantities.map((q) => {
+                const rf = rhatFails(q.rhat);
+                const bf = essFails(q.essBulk, chains);
+                const tf = essFails(q.essTail, chains);
+                return (
+                  <tr key={q.name}>
+                    <th scope="row" className="sl-mono" style={{ textAlign: 'left', fontWeight: 500 }}>{q.name}</th>
+                    <td className={`sl-num${rf ? ' sl-fail' : ''}`}>{formatRhat(q.rhat)}</td>
+                    <td className={`sl-num${bf ? ' sl-fail' : ''}`}>{formatEss(q.essBulk)}{essNote(q.essBulk)}</td>
+                    <td className={`sl-num${tf ? ' sl-fail' : ''}`}>{formatEss(q.essTail)}{essNote(q.essTail)}</td>
+                    <td className="sl-num">{formatEstimate(q.mcseMean, 2)}</td>
+                    <td className="sl-num">{formatEstimate(q.mean)}</td>
+                    <td className="sl-num">{formatEstimate(q.sd)}</td>
+                  </tr>
+                );
+              })}
+            </tbody>
+          </table>
+        </div>
+        <p className="sl-hint" data-testid="mixing-words">
+          A quantity passes when its chains agree (R̂ at most {DIAGNOSTIC_THRESHOLDS.rhatRunLonger}) and its draws are worth at least{' '}
+          {DIAGNOSTIC_THRESHOLDS.essPerChain} independent ones per chain ({essNeeded(chains)} here) both in the middle and in the tails.
+        </p>
+        {anyAbove && (
+          <p className="sl-hint" data-testid="ess-note-above">
+            † More independent draws than draws ({total.toLocaleString('en')}): successive draws swing to opposite sides of the mean, so averages settle faster than
+            with independent draws. This is real, not an error.
+          </p>
+        )}
+        {anyCapped && (
+          <p className="sl-hint" data-testid="ess-note-capped">
+            ‡ At the ceiling of {formatEss(cap)} (draws × log₁₀ draws): the estimate is held there so that a few strongly alternating draws cannot claim
+            unlimited precision; the true figure may be higher.
+          </p>
+        )}
+      </details>
+    </div>
+  );
+}
