@@ -98,8 +98,8 @@ describe.each(structured)('midpoint integrator on the %s', (_name, target, kind)
 });
 
 /**
- * Mean and variance of N(0, 1) truncated to [a, b] (Johnson, Kotz & Balakrishnan, Continuous
- * Univariate Distributions vol. 1, 2nd ed., §13.10.1), Φ and φ from @stdlib/stats-base-dists-normal.
+ * Mean and variance of N(0, 1) truncated to [a, b] ("Continuous Univariate Distributions",
+ * vol. 1, 2nd ed., Wiley 1994, §13.10.1), Φ and φ from @stdlib/stats-base-dists-normal.
  */
 function truncatedMoments(a: number, b: number): { mean: number; variance: number } {
   const phi = (x: number) => normal.pdf(x, 0, 1);
@@ -123,8 +123,8 @@ describe('moments on every factorisation path (default midpoint RHMC)', () => {
   }, 60_000);
 
   it('uniform simplex, d = 15 (diagonal + rank one): Beta(1, d) marginals', () => {
-    // Dirichlet(1, …, 1) aggregation (Kotz, Balakrishnan & Johnson, Continuous Multivariate
-    // Distributions vol. 1, ch. 49), as in uniform.test.ts.
+    // Dirichlet(1, …, 1) aggregation ("Continuous Multivariate Distributions", vol. 1, 2nd ed.,
+    // Wiley 2000, ch. 49), as in uniform.test.ts.
     const d = 15;
     const run = runChains(uniformSimplexTarget(d), 'rhmc', { warmup: 300, draws: 1000, seed: 62 });
     expect(run.outs[0].metricStructure).toBe('diagonal+low-rank');
@@ -137,7 +137,7 @@ describe('moments on every factorisation path (default midpoint RHMC)', () => {
   }, 60_000);
 
   it('order simplex, n = 20 (banded): x_k ~ Beta(k, n + 1 − k)', () => {
-    // Order statistics of n uniforms (David & Nagaraja, Order Statistics, 3rd ed., §2.1).
+    // Order statistics of n uniforms ("Order Statistics", 3rd ed., Wiley 2003, §2.1).
     const n = 20;
     const run = runChains(orderSimplexTarget(n), 'rhmc', { warmup: 300, draws: 1000, seed: 63 });
     expect(run.outs[0].metricStructure).toBe('banded');
