@@ -1,16 +1,29 @@
 /** Reading runs: rows to API objects, draws for plots and CSV, the region of a run's model. */
 import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import { fitSummarySchema, type FitProgress, type FitSummary } from '../../shared/fit';
-import type { Run, RunDraws } from '../../shared/api/notebook';
+import { RUN_HEARTBEAT, type Run, type RunDraws } from '../../shared/api/notebook';
 import { runChains, runs, runSummaries, users, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
 import { notFound } from '../http/errors';
 import { decodeDraws, decodeFlags } from '../jobs/draws-codec';
-import type { ChainStats, RunRow, RunSpec } from '../jobs/queue';
+import { queuePositions, type ChainStats, type RunRow, type RunSpec } from '../jobs/queue';
 import { toDataTables } from './datasets';
 import { checkModel, regionSystem } from './model';
 
-export function toRun(r: RunRow, summary: FitSummary | null, requestedByName: string | null): Run {
+/** Is the worker holding this running run silent (lease expired or heartbeat stale)? */
+export function workerLost(r: Pick<RunRow, 'status' | 'leaseExpiresAt' | 'heartbeatAt'>, now: Date): boolean {
+  if (r.status !== 'running') return false;
+  if (!r.leaseExpiresAt || r.leaseExpiresAt.getTime() < now.getTime()) return true;
+  return r.heartbeatAt !== null && now.getTime() - r.heartbeatAt.getTime() > RUN_HEARTBEAT.staleMs;
+}
+
+/** Live facts of a run the row alone does not give: the time now and the queue's order. */
+export interface RunView {
+  now: Date;
+  positions?: Map<string, number>;
+}
+
+export function toRun(r: RunRow, summary: FitSummary | null, requestedByName: string | null, view: RunView = { now: new Date() }): Run {
   return {
     id: r.id,
     cellId: r.cellId ?? null,
@@ -25,17 +38,23 @@ export function toRun(r: RunRow, summary: FitSummary | null, requestedByName: st
     error: r.error ?? null,
     progress: Array.isArray(r.progress) ? (r.progress as FitProgress[]) : [],
     summary,
+    worker: r.status === 'running' ? (workerLost(r, view.now) ? 'lost' : 'active') : null,
+    lastHeartbeatAt: r.status === 'running' ? (r.heartbeatAt?.toISOString() ?? null) : null,
+    queuePosition: r.status === 'queued' ? (view.positions?.get(r.id) ?? null) : null,
+    partial: r.partial,
   };
 }
 
-async function withSummaries(exec: Exec, rows: { r: RunRow; name: string | null }[]): Promise<Run[]> {
+async function withSummaries(exec: Exec, rows: { r: RunRow; name: string | null }[], now: Date): Promise<Run[]> {
   const ids = rows.filter((x) => x.r.status === 'done').map((x) => x.r.id);
   const sums = ids.length ? await exec.select().from(runSummaries).where(inArray(runSummaries.runId, ids)) : [];
   const byId = new Map(sums.map((s) => [s.runId, s.summary as FitSummary]));
-  return rows.map((x) => toRun(x.r, byId.get(x.r.id) ?? null, x.name));
+  // The queue's order is read only when a queued run is shown.
+  const positions = rows.some((x) => x.r.status === 'queued') ? await queuePositions(exec, now) : undefined;
+  return rows.map((x) => toRun(x.r, byId.get(x.r.id) ?? null, x.name, { now, positions }));
 }
 
-export async function findRun(exec: Exec, workspaceId: string, runId: string): Promise<Run & { row: RunRow }> {
+export async function findRun(exec: Exec, workspaceId: string, runId: string, now = new Date()): Promise<Run & { row: RunRow }> {
   const [x] = await exec
     .select({ r: runs, name: users.name })
     .from(runs)
@@ -43,11 +62,11 @@ export async function findRun(exec: Exec, workspaceId: string, runId: string): P
     .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId)))
     .limit(1);
   if (!x) throw notFound('Run not found');
-  const [run] = await withSummaries(exec, [x]);
+  const [run] = await withSummaries(exec, [x], now);
   return { ...run, row: x.r };
 }
 
-export async function cellRuns(exec: Exec, workspaceId: string, notebookId: string, cellId: string, limit = 50): Promise<Run[]> {
+export async function cellRuns(exec: Exec, workspaceId: string, notebookId: string, cellId: string, now = new Date(), limit = 50): Promise<Run[]> {
   const rows = await exec
     .select({ r: runs, name: users.name })
     .from(runs)
@@ -55,7 +74,7 @@ export async function cellRuns(exec: Exec, workspaceId: string, notebookId: stri
     .where(and(eq(runs.workspaceId, workspaceId), eq(runs.notebookId, notebookId), eq(runs.cellId, cellId)))
     .orderBy(desc(runs.createdAt), desc(runs.id))
     .limit(limit);
-  return withSummaries(exec, rows);
+  return withSummaries(exec, rows, now);
 }
 
 export interface LoadedChains {

@@ -84,7 +84,7 @@ export function runsRouter(ctx: AppContext): Router {
         modelHash, spec, progress: [], attempts: 0, requestedBy: req.user!.id, createdAt: now,
       });
     });
-    const run = await findRun(db, ws.id, id);
+    const run = await findRun(db, ws.id, id, clock.now());
     const { row: _row, ...out } = run;
     return { run: out };
   });
@@ -92,33 +92,33 @@ export function runsRouter(ctx: AppContext): Router {
   mount(r, ctx, routes.listCellRuns, async ({ params }, req) => {
     const ws = req.workspace!;
     await findCell(db, ws.id, params.notebookId, params.cellId);
-    return { runs: await cellRuns(db, ws.id, params.notebookId, params.cellId) };
+    return { runs: await cellRuns(db, ws.id, params.notebookId, params.cellId, clock.now()) };
   });
 
   mount(r, ctx, routes.getRun, async ({ params }, req) => {
-    const { row: _row, ...run } = await findRun(db, req.workspace!.id, params.runId);
+    const { row: _row, ...run } = await findRun(db, req.workspace!.id, params.runId, clock.now());
     return { run };
   });
 
   mount(r, ctx, routes.cancelRun, async ({ params }, req) => {
     const ws = req.workspace!;
-    const before = await findRun(db, ws.id, params.runId);
+    const before = await findRun(db, ws.id, params.runId, clock.now());
     if (!(await cancelRun(db, ws.id, params.runId, clock.now()))) {
       throw conflict(`This fit has already ${before.status === 'done' ? 'finished' : before.status}; there is nothing to cancel.`);
     }
-    const { row: _row, ...run } = await findRun(db, ws.id, params.runId);
+    const { row: _row, ...run } = await findRun(db, ws.id, params.runId, clock.now());
     return { run };
   });
 
   mount(r, ctx, routes.getRunDraws, async ({ params, query }, req) => {
-    const run = await findRun(db, req.workspace!.id, params.runId);
+    const run = await findRun(db, req.workspace!.id, params.runId, clock.now());
     if (run.status !== 'done') throw notFound('This run has no draws yet');
     return runDraws(db, run.row, query.max ?? DEFAULT_PLOT_DRAWS);
   });
 
   mount(r, ctx, routes.exportRunDraws, async ({ params }, req, res) => {
     const ws = req.workspace!;
-    const run = await findRun(db, ws.id, params.runId);
+    const run = await findRun(db, ws.id, params.runId, clock.now());
     if (run.status !== 'done') throw notFound('This run has no draws yet');
     const loaded = await loadChains(db, ws.id, run.id);
     sendCsv(res, `draws-${run.id}.csv`);
@@ -130,7 +130,7 @@ export function runsRouter(ctx: AppContext): Router {
   });
 
   mount(r, ctx, routes.exportRunSummary, async ({ params }, req, res) => {
-    const run = await findRun(db, req.workspace!.id, params.runId);
+    const run = await findRun(db, req.workspace!.id, params.runId, clock.now());
     if (!run.summary) throw notFound('This run has no summary yet');
     sendCsv(res, `summary-${run.id}.csv`);
     res.status(200).send(summaryCsv((run.summary as FitSummary).quantities));
@@ -140,12 +140,12 @@ export function runsRouter(ctx: AppContext): Router {
   mount(r, ctx, routes.sharedCellRuns, async ({ params }, req) => {
     const share = req.share!;
     await findCell(db, share.workspaceId, share.notebookId, params.cellId);
-    return { runs: (await cellRuns(db, share.workspaceId, share.notebookId, params.cellId)).filter((x) => x.status === 'done') };
+    return { runs: (await cellRuns(db, share.workspaceId, share.notebookId, params.cellId, clock.now())).filter((x) => x.status === 'done') };
   });
 
   mount(r, ctx, routes.sharedRunDraws, async ({ params, query }, req) => {
     const share = req.share!;
-    const run = await findRun(db, share.workspaceId, params.runId);
+    const run = await findRun(db, share.workspaceId, params.runId, clock.now());
     if (run.notebookId !== share.notebookId || run.status !== 'done') throw notFound('Run not found');
     return runDraws(db, run.row, query.max ?? DEFAULT_PLOT_DRAWS);
   });
