@@ -24,7 +24,7 @@ import type { ChainResult, TargetSpec } from '../engine/types';
 import type { Clock } from '../lib/clock';
 import { systemClock } from '../lib/clock';
 import { newId } from '../lib/ids';
-import { toDataTables } from '../notebook/datasets';
+import { loadDataTables } from '../notebook/datasets';
 import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type RunRow, type RunSpec } from './queue';
 import { describe, isTransientDbError, retryDb } from './retry';
 
@@ -229,7 +229,7 @@ export class RunWorker {
       const byId = new Map(rows.map((d) => [d.id, d]));
       const missing = Object.entries(spec.tables).filter(([, id]) => !byId.has(id)).map(([name]) => name);
       if (missing.length) throw new Error(`The data of table ${missing.map((m) => `"${m}"`).join(', ')} was deleted before the fit ran.`);
-      const tables = toDataTables(Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
+      const tables = await loadDataTables(Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
       target = { kind: 'program', source: spec.source, tables };
       // The column names every stored chain carries (the engine caches the prepared target).
       const prepared = (await preparedFor(target)).target;

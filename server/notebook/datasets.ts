@@ -1,11 +1,16 @@
-/** Datasets: parse an upload with the shared CSV reader, map rows, build previews and data tables. */
+/**
+ * Datasets: parse an upload with the shared CSV reader (on a compute thread), map rows, build
+ * previews and data tables.
+ */
 import { and, eq, inArray } from 'drizzle-orm';
 import { DATASET_PREVIEW_ROWS, type Dataset, type DatasetColumn, type PreviewValue } from '../../shared/api/notebook';
-import { parseCsv, type CsvResult } from '../../shared/data';
+import { parseCsv, type CsvResult, type ParsedTable } from '../../shared/data';
+import { ComputeBusyError, ComputeTimeoutError, computePool } from '../compute/pool';
+import { columnsOf, describeCsvErrors, previewOf } from './tables';
 import type { DataTables } from '../engine/types';
 import { cells, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
-import { badRequest, notFound } from '../http/errors';
+import { badRequest, HttpError, notFound, timeLimit, unavailable } from '../http/errors';
 
 export type DatasetRow = typeof datasets.$inferSelect;
 
@@ -19,54 +24,57 @@ export const toDataset = (d: DatasetRow): Dataset => ({
   createdAt: d.createdAt.toISOString(),
 });
 
-/** One sentence per error, naming the row and the column where the reader knows them. */
-export function describeCsvErrors(result: CsvResult): string {
-  const errors = result.issues.filter((i) => i.severity === 'error');
-  const parts = errors.slice(0, 3).map((i) => {
-    const where = [i.row !== undefined ? `row ${i.row}` : null, i.column !== undefined ? `column "${i.column}"` : null].filter(Boolean).join(', ');
-    return where && !i.message.toLowerCase().startsWith('row') ? `${where}: ${i.message}` : i.message;
-  });
-  const more = errors.length > 3 ? ` (and ${errors.length - 3} more problem${errors.length - 3 > 1 ? 's' : ''})` : '';
-  return `The file was not stored. ${parts.join(' ')}${more}`;
-}
+export { describeCsvErrors } from './tables';
 
-/** Parse an uploaded CSV; throws a 400 naming rows and columns when it cannot be used. */
 /** Parses CSV bytes (an upload or a stored dataset's content) without copying them. */
 function parseBytes(bytes: Buffer): CsvResult {
   return parseCsv(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength));
 }
 
+/**
+ * Parse an uploaded CSV on the calling thread (seeding and scripts only; requests use
+ * parseUpload); throws a 400 naming rows and columns when it cannot be used.
+ */
 export function readUpload(bytes: Buffer): { result: CsvResult; columns: DatasetColumn[]; rows: number } {
   const result = parseBytes(bytes);
   if (!result.table) throw badRequest(describeCsvErrors(result), { file: result.issues.find((i) => i.severity === 'error')?.message ?? 'Not a usable CSV file' });
-  const columns: DatasetColumn[] = result.columns.map((c) => ({
-    name: c.name,
-    type: c.type,
-    missing: c.missing,
-    ...(c.levels ? { levels: c.levels } : {}),
-  }));
-  return { result, columns, rows: result.table.rows };
+  return { result, columns: columnsOf(result), rows: result.table.rows };
 }
 
-/** The first rows of a stored dataset for the preview table (numbers, labels, null when missing). */
-export function previewRows(d: DatasetRow, limit = DATASET_PREVIEW_ROWS): PreviewValue[][] {
-  const { table } = parseBytes(d.content);
-  if (!table) return [];
-  const names = (d.columns as DatasetColumn[]).map((c) => c.name);
-  const n = Math.min(limit, table.rows);
-  const out: PreviewValue[][] = [];
-  for (let i = 0; i < n; i++) {
-    out.push(
-      names.map((name) => {
-        const col = table.columns[name];
-        if (!col) return null;
-        const v = col.values[i];
-        if (Number.isNaN(v)) return null;
-        return col.type === 'category' ? (col.levels?.[v - 1] ?? null) : v;
-      }),
-    );
-  }
+/** A pool task's failure as an answer: past its time limit (422), pool full (503), else as is. */
+export function computeFailure(e: unknown, what: string): unknown {
+  if (e instanceof ComputeTimeoutError) return timeLimit(`${what} took longer than its limit of ${e.ms < 1000 ? `${e.ms} ms` : `${Math.round(e.ms / 1000)} s`} and was stopped.`);
+  if (e instanceof ComputeBusyError) return unavailable(e.message);
+  return e;
+}
+
+/** Parse CSV bytes on a compute thread; throws a 400 naming rows and columns when unusable. */
+export async function parseUpload(bytes: Buffer): Promise<{ table: ParsedTable; columns: DatasetColumn[]; rows: number }> {
+  const copy = new Uint8Array(bytes);
+  const out = await computePool()
+    .run('parseTable', { bytes: copy }, { transfer: [copy.buffer] })
+    .catch((e: unknown) => {
+      throw computeFailure(e, 'Reading the file');
+    });
+  if (!out.ok) throw badRequest(out.message, { file: out.field });
   return out;
+}
+
+/** A stored dataset, parsed (on a compute thread). */
+export async function parsedTable(d: Pick<DatasetRow, 'id' | 'name' | 'createdAt' | 'content'>): Promise<ParsedTable> {
+  let out: Awaited<ReturnType<typeof parseUpload>>;
+  try {
+    out = await parseUpload(d.content);
+  } catch (e) {
+    if (e instanceof HttpError && e.status === 400) throw badRequest(`The stored table "${d.name}" can no longer be read`);
+    throw e;
+  }
+  return out.table;
+}
+
+/** The first rows of a stored dataset for the preview table. */
+export async function datasetPreview(d: DatasetRow, limit = DATASET_PREVIEW_ROWS): Promise<PreviewValue[][]> {
+  return previewOf(await parsedTable(d), d.columns as DatasetColumn[], limit);
 }
 
 export async function findDataset(exec: Exec, workspaceId: string, datasetId: string): Promise<DatasetRow> {
@@ -96,15 +104,11 @@ export async function notebookTables(exec: Exec, workspaceId: string, notebookId
   return out;
 }
 
-/** Parse stored datasets into the engine's data tables. */
-export function toDataTables(rows: Iterable<DatasetRow>): DataTables {
-  const out: DataTables = {};
-  for (const d of rows) {
-    const { table } = parseBytes(d.content);
-    if (!table) throw badRequest(`The stored table "${d.name}" can no longer be read`);
-    out[d.name] = table;
-  }
-  return out;
+/** Parse stored datasets into the engine's data tables (on compute threads). */
+export async function loadDataTables(rows: Iterable<DatasetRow>): Promise<DataTables> {
+  const list = [...rows];
+  const tables = await Promise.all(list.map((d) => parsedTable(d)));
+  return Object.fromEntries(list.map((d, i) => [d.name, tables[i]]));
 }
 
 /** Is this dataset shown by a data cell of this notebook? (share-link visitors see only those) */

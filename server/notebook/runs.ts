@@ -5,10 +5,11 @@ import { RUN_HEARTBEAT, type Run, type RunDraws } from '../../shared/api/noteboo
 import { runChains, runs, runSummaries, users, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
 import { notFound } from '../http/errors';
-import { decodeDraws, decodeFlags } from '../jobs/draws-codec';
 import { queuePositions, type ChainStats, type RunRow, type RunSpec } from '../jobs/queue';
-import { toDataTables } from './datasets';
-import { checkModel, regionSystem } from './model';
+import { computeFailure, loadDataTables } from './datasets';
+import { checkModelOffThread } from './checks';
+import { computePool } from '../compute/pool';
+import type { StoredChainInput } from '../compute/tasks';
 
 /** Is the worker holding this running run silent (lease expired or heartbeat stale)? */
 export function workerLost(r: Pick<RunRow, 'status' | 'leaseExpiresAt' | 'heartbeatAt'>, now: Date): boolean {
@@ -77,13 +78,8 @@ export async function cellRuns(exec: Exec, workspaceId: string, notebookId: stri
   return withSummaries(exec, rows, now);
 }
 
-export interface LoadedChains {
-  unknownNames: string[];
-  derivedNames: string[];
-  chains: { chain: number; draws: Float64Array; drawCount: number; dimension: number; divergent: Uint8Array; rejected: Uint8Array }[];
-}
-
-export async function loadChains(exec: Exec, workspaceId: string, runId: string): Promise<LoadedChains> {
+/** Stored chains as the compute tasks take them (raw bytes; decoding happens on the thread). */
+async function storedChainInputs(exec: Exec, workspaceId: string, runId: string): Promise<{ names: string[]; unknownNames: string[]; chains: StoredChainInput[] }> {
   const rows = await exec
     .select()
     .from(runChains)
@@ -92,35 +88,40 @@ export async function loadChains(exec: Exec, workspaceId: string, runId: string)
   if (rows.length === 0) throw notFound('This run has no stored draws');
   const stats = rows[0].stats as ChainStats;
   return {
+    names: [...stats.unknownNames, ...stats.derivedNames],
     unknownNames: stats.unknownNames,
-    derivedNames: stats.derivedNames,
     chains: rows.map((r) => ({
       chain: r.chainIndex + 1,
-      draws: decodeDraws(r.draws, r.drawCount, r.dimension),
+      draws: new Uint8Array(r.draws.buffer, r.draws.byteOffset, r.draws.byteLength),
       drawCount: r.drawCount,
       dimension: r.dimension,
-      divergent: decodeFlags((r.stats as ChainStats).divergent, r.drawCount),
-      // Rows stored before rejected steps were recorded have no list: read as none.
-      rejected: decodeFlags((r.stats as ChainStats).rejected ?? [], r.drawCount),
+      divergent: (r.stats as ChainStats).divergent,
     })),
   };
 }
 
 /** Draws per chain and quantity, thinned to at most `max` per chain, with the model's region. */
 export async function runDraws(exec: Exec, run: RunRow, max: number): Promise<RunDraws> {
-  const loaded = await loadChains(exec, run.workspaceId, run.id);
-  const names = [...loaded.unknownNames, ...loaded.derivedNames];
-  const n = loaded.chains[0]?.drawCount ?? 0;
-  // A regular stride, so "every thin-th draw" is exact and iterations can be labelled.
-  const thin = Math.max(1, Math.ceil(n / Math.max(1, max)));
-  const idx: number[] = [];
-  for (let t = 0; t < n; t += thin) idx.push(t);
-  const chains = loaded.chains.map((c) => ({
-    chain: c.chain,
-    values: names.map((_, q) => idx.map((t) => c.draws[t * c.dimension + q])),
-    divergent: idx.map((t) => c.divergent[t]),
-  }));
-  return { names, unknownCount: loaded.unknownNames.length, thin, chains, region: await runRegion(exec, run, loaded.unknownNames) };
+  const loaded = await storedChainInputs(exec, run.workspaceId, run.id);
+  const [thinned, region] = await Promise.all([
+    computePool()
+      .run('thinDraws', { chains: loaded.chains, quantities: loaded.names.length, max })
+      .catch((e: unknown) => {
+        throw computeFailure(e, 'Reading the draws');
+      }),
+    runRegion(exec, run, loaded.unknownNames),
+  ]);
+  return { names: loaded.names, unknownCount: loaded.unknownNames.length, thin: thinned.thin, chains: thinned.chains, region };
+}
+
+/** The draws export (header and every draw of every chain) as UTF-8 CSV, built on a compute thread. */
+export async function runDrawsCsv(exec: Exec, workspaceId: string, runId: string): Promise<Uint8Array> {
+  const loaded = await storedChainInputs(exec, workspaceId, runId);
+  return computePool()
+    .run('drawsCsv', { names: loaded.names, chains: loaded.chains })
+    .catch((e: unknown) => {
+      throw computeFailure(e, 'Writing the draws file');
+    });
 }
 
 /** The constraint rows of the model a run fitted (data filled in), or null when unavailable. */
@@ -132,10 +133,8 @@ export async function runRegion(exec: Exec, run: RunRow, names: string[]) {
     const rows = ids.length ? await exec.select().from(datasets).where(and(eq(datasets.workspaceId, run.workspaceId), inArray(datasets.id, ids))) : [];
     const byId = new Map(rows.map((d) => [d.id, d]));
     if (ids.some((id) => !byId.has(id))) return null;
-    const tables = toDataTables(Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
-    const m = checkModel(spec.source, tables, false);
-    if (!m.rows || m.rows.inequalities.cols !== names.length) return null;
-    return regionSystem(names, m.rows);
+    const tables = await loadDataTables(Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
+    return (await checkModelOffThread(spec.source, tables, false, names)).regionSystem;
   } catch {
     return null;
   }

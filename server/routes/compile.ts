@@ -1,12 +1,16 @@
-/** The model check for the editor's side panel: POST /api/workspaces/:id/compile (editors). */
+/**
+ * The model check for the editor's side panel: POST /api/workspaces/:id/compile (editors). The
+ * tables are parsed and the model checked on compute threads (server/compute).
+ */
 import { Router } from 'express';
 import { and, desc, eq } from 'drizzle-orm';
 import { routes } from '../../shared/api/routes';
 import type { AppContext } from '../context';
 import { datasets } from '../db/schema';
 import { mount } from '../http/route';
-import { notebookTables, toDataTables, type DatasetRow } from '../notebook/datasets';
-import { checkModel, tablesNamed } from '../notebook/model';
+import { loadDataTables, notebookTables, type DatasetRow } from '../notebook/datasets';
+import { checkModelOffThread } from '../notebook/checks';
+import { tablesNamed } from '../notebook/model';
 import { findNotebook } from './notebooks';
 
 export function compileRouter(ctx: AppContext): Router {
@@ -29,8 +33,8 @@ export function compileRouter(ctx: AppContext): Router {
       }
     }
     const wanted = tablesNamed(body.source);
-    const tables = toDataTables([...bound.values()].filter((d) => wanted.includes(d.name)));
-    return checkModel(body.source, tables, body.region ?? true).response;
+    const tables = await loadDataTables([...bound.values()].filter((d) => wanted.includes(d.name)));
+    return (await checkModelOffThread(body.source, tables, body.region ?? true)).response;
   });
 
   return r;

@@ -8,10 +8,10 @@ import type { AppContext } from '../context';
 import { cells, datasets, notebooks } from '../db/schema';
 import { mount } from '../http/route';
 import { mountUpload } from '../http/upload';
-import { badRequest } from '../http/errors';
+import { badRequest, HttpError } from '../http/errors';
 import { newId } from '../lib/ids';
 import { orderedCells } from '../notebook/cells';
-import { readUpload } from '../notebook/datasets';
+import { parseUpload } from '../notebook/datasets';
 import { findNotebook } from './notebooks';
 
 export function notebookFileRouter(ctx: AppContext): Router {
@@ -54,13 +54,16 @@ export function notebookFileRouter(ctx: AppContext): Router {
     if (!parsed.success) throw badRequest(describeNotebookFileError(parsed.error), { file: describeNotebookFileError(parsed.error) });
     const nf = parsed.data;
     // Parse every dataset before writing anything: a bad table refuses the whole file.
-    const tables = nf.datasets.map((d) => {
-      try {
-        return { d, ...readUpload(Buffer.from(d.csv, 'utf8')) };
-      } catch (e) {
-        throw badRequest(`Dataset "${d.name}" in the file: ${(e as Error).message}`);
-      }
-    });
+    const tables = await Promise.all(
+      nf.datasets.map(async (d) => {
+        try {
+          return { d, ...(await parseUpload(Buffer.from(d.csv, 'utf8'))) };
+        } catch (e) {
+          if (e instanceof HttpError && e.status !== 400) throw e;
+          throw badRequest(`Dataset "${d.name}" in the file: ${(e as Error).message}`);
+        }
+      }),
+    );
     const now = clock.now();
     const notebookId = newId();
     const cellIds = new Map(nf.cells.map((c) => [c.key, newId()]));

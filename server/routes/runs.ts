@@ -9,16 +9,17 @@ import { and, eq } from 'drizzle-orm';
 import { routes } from '../../shared/api/routes';
 import { fitContentSchema, RUN_LIMITS, WORKSPACE_CONCURRENT_RUNS } from '../../shared/api/notebook';
 import { FIT_LIMITS, type FitSummary } from '../../shared/fit';
-import { drawsCsvHeader, drawsCsvRows, summaryCsv } from '../../shared/export-csv';
+import { summaryCsv } from '../../shared/export-csv';
 import type { AppContext } from '../context';
 import { cells, runs, workspaces } from '../db/schema';
 import { mount } from '../http/route';
 import { badRequest, conflict, notFound } from '../http/errors';
 import { newId } from '../lib/ids';
 import { findCell } from '../notebook/cells';
-import { notebookTables, toDataTables } from '../notebook/datasets';
-import { checkModel, firstProblem, tablesNamed } from '../notebook/model';
-import { cellRuns, findRun, loadChains, runDraws } from '../notebook/runs';
+import { loadDataTables, notebookTables } from '../notebook/datasets';
+import { checkModelOffThread } from '../notebook/checks';
+import { firstProblem, tablesNamed } from '../notebook/model';
+import { cellRuns, findRun, runDraws, runDrawsCsv } from '../notebook/runs';
 import { activeRunCount, cancelRun, type RunSpec } from '../jobs/queue';
 
 const DEFAULT_PLOT_DRAWS = 1000;
@@ -54,13 +55,13 @@ export function runsRouter(ctx: AppContext): Router {
       throw badRequest(`The model binds ${missing.map((t) => `table "${t}"`).join(' and ')}, but no data cell in this notebook holds a table by that name.`);
     }
     const used = named.map((t) => bound.get(t)!);
-    const m = checkModel(model.source, toDataTables(used), false);
+    const m = await checkModelOffThread(model.source, await loadDataTables(used), false);
     const problem = firstProblem(m.response);
     if (problem) throw badRequest(`The model has a problem at ${problem}`);
-    const dim = m.check.dim;
+    const dim = m.dim;
     if (dim === 0) throw badRequest('The model has no unknowns to fit');
     if (dim > FIT_LIMITS.dimension) throw badRequest(`The model has ${dim} unknown coordinates; a fit allows at most ${FIT_LIMITS.dimension}.`);
-    const stored = settings.chains * settings.draws * (dim + m.check.derivedNames.length);
+    const stored = settings.chains * settings.draws * (dim + m.derivedNames.length);
     if (stored > RUN_LIMITS.storedNumbers) {
       throw badRequest(
         `This fit would keep ${stored.toLocaleString('en')} numbers (chains × draws × quantities); the limit is ${RUN_LIMITS.storedNumbers.toLocaleString('en')}. Use fewer draws or chains.`,
@@ -120,13 +121,9 @@ export function runsRouter(ctx: AppContext): Router {
     const ws = req.workspace!;
     const run = await findRun(db, ws.id, params.runId, clock.now());
     if (run.status !== 'done') throw notFound('This run has no draws yet');
-    const loaded = await loadChains(db, ws.id, run.id);
+    const csv = await runDrawsCsv(db, ws.id, run.id);
     sendCsv(res, `draws-${run.id}.csv`);
-    res.status(200);
-    res.write(drawsCsvHeader([...loaded.unknownNames, ...loaded.derivedNames]) + '\n');
-    // Stored draws hold unknowns and derived quantities side by side in one row.
-    for (const c of loaded.chains) res.write([...drawsCsvRows(c.chain, c.draws, c.dimension, new Float64Array(0), 0)].join('\n') + '\n');
-    res.end();
+    res.status(200).end(Buffer.from(csv.buffer, csv.byteOffset, csv.byteLength));
   });
 
   mount(r, ctx, routes.exportRunSummary, async ({ params }, req, res) => {
