@@ -24,7 +24,7 @@ import type { ChainResult, TargetSpec } from '../engine/types';
 import type { Clock } from '../lib/clock';
 import { systemClock } from '../lib/clock';
 import { newId } from '../lib/ids';
-import { loadDataTables } from '../notebook/datasets';
+import { datasetMetaColumns, loadDataTables } from '../notebook/datasets';
 import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type RunRow, type RunSpec } from './queue';
 import { describe, isTransientDbError, retryDb } from './retry';
 
@@ -224,12 +224,12 @@ export class RunWorker {
       settings = fitSettingsSchema.parse(run.settings);
       const ids = Object.values(spec.tables);
       const rows = ids.length
-        ? await this.write(`loading the data of run ${run.id}`, () => this.db.select().from(datasets).where(and(eq(datasets.workspaceId, run.workspaceId), inArray(datasets.id, ids))))
+        ? await this.write(`loading the data of run ${run.id}`, () => this.db.select(datasetMetaColumns).from(datasets).where(and(eq(datasets.workspaceId, run.workspaceId), inArray(datasets.id, ids))))
         : [];
       const byId = new Map(rows.map((d) => [d.id, d]));
       const missing = Object.entries(spec.tables).filter(([, id]) => !byId.has(id)).map(([name]) => name);
       if (missing.length) throw new Error(`The data of table ${missing.map((m) => `"${m}"`).join(', ')} was deleted before the fit ran.`);
-      const tables = await loadDataTables(Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
+      const tables = await loadDataTables(this.db, Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
       target = { kind: 'program', source: spec.source, tables };
       // The column names every stored chain carries (the engine caches the prepared target).
       const prepared = (await preparedFor(target)).target;

@@ -2,11 +2,12 @@
  * Datasets: parse an upload with the shared CSV reader (on a compute thread), map rows, build
  * previews and data tables.
  */
-import { and, eq, inArray } from 'drizzle-orm';
+import { and, eq, getTableColumns, inArray } from 'drizzle-orm';
 import { DATASET_PREVIEW_ROWS, type Dataset, type DatasetColumn, type PreviewValue } from '../../shared/api/notebook';
 import { parseCsv, type CsvResult, type ParsedTable } from '../../shared/data';
 import { ComputeBusyError, ComputeTimeoutError, computePool } from '../compute/pool';
 import { columnsOf, describeCsvErrors, previewOf } from './tables';
+import { TableCache, tableCache } from './table-cache';
 import type { DataTables } from '../engine/types';
 import { cells, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
@@ -14,7 +15,7 @@ import { badRequest, HttpError, notFound, timeLimit, unavailable } from '../http
 
 export type DatasetRow = typeof datasets.$inferSelect;
 
-export const toDataset = (d: DatasetRow): Dataset => ({
+export const toDataset = (d: Omit<DatasetRow, 'content'>): Dataset => ({
   id: d.id,
   workspaceId: d.workspaceId,
   name: d.name,
@@ -60,31 +61,51 @@ export async function parseUpload(bytes: Buffer): Promise<{ table: ParsedTable; 
   return out;
 }
 
-/** A stored dataset, parsed (on a compute thread). */
-export async function parsedTable(d: Pick<DatasetRow, 'id' | 'name' | 'createdAt' | 'content'>): Promise<ParsedTable> {
-  let out: Awaited<ReturnType<typeof parseUpload>>;
-  try {
-    out = await parseUpload(d.content);
-  } catch (e) {
-    if (e instanceof HttpError && e.status === 400) throw badRequest(`The stored table "${d.name}" can no longer be read`);
-    throw e;
-  }
-  return out.table;
+/** A dataset row without its content (the bytes are read only when the table must be parsed). */
+export type DatasetMeta = Omit<DatasetRow, 'content'>;
+const { content: _content, ...metaColumns } = getTableColumns(datasets);
+/** Columns to select for DatasetMeta. */
+export const datasetMetaColumns = metaColumns;
+
+/**
+ * A stored dataset, parsed: from the table cache (by id and version), else parsed once on a
+ * compute thread — reading the content first when the row came without it.
+ */
+export async function parsedTable(exec: Exec, d: DatasetMeta & { content?: Buffer }): Promise<ParsedTable> {
+  return tableCache.getOrLoad(TableCache.key(d), async () => {
+    let content = d.content;
+    if (!content) {
+      const [row] = await exec.select({ content: datasets.content }).from(datasets).where(and(eq(datasets.workspaceId, d.workspaceId), eq(datasets.id, d.id))).limit(1);
+      if (!row) throw notFound(`The table "${d.name}" no longer exists`);
+      content = row.content;
+    }
+    try {
+      return (await parseUpload(content)).table;
+    } catch (e) {
+      if (e instanceof HttpError && e.status === 400) throw badRequest(`The stored table "${d.name}" can no longer be read`);
+      throw e;
+    }
+  });
+}
+
+/** Keep the table parsed at upload, so the first preview or check does not parse it again. */
+export function rememberTable(d: Pick<DatasetRow, 'id' | 'createdAt'>, table: ParsedTable): void {
+  tableCache.set(TableCache.key(d), table);
 }
 
 /** The first rows of a stored dataset for the preview table. */
-export async function datasetPreview(d: DatasetRow, limit = DATASET_PREVIEW_ROWS): Promise<PreviewValue[][]> {
-  return previewOf(await parsedTable(d), d.columns as DatasetColumn[], limit);
+export async function datasetPreview(exec: Exec, d: DatasetMeta, limit = DATASET_PREVIEW_ROWS): Promise<PreviewValue[][]> {
+  return previewOf(await parsedTable(exec, d), d.columns as DatasetColumn[], limit);
 }
 
-export async function findDataset(exec: Exec, workspaceId: string, datasetId: string): Promise<DatasetRow> {
-  const [row] = await exec.select().from(datasets).where(and(eq(datasets.workspaceId, workspaceId), eq(datasets.id, datasetId))).limit(1);
+export async function findDataset(exec: Exec, workspaceId: string, datasetId: string): Promise<DatasetMeta> {
+  const [row] = await exec.select(metaColumns).from(datasets).where(and(eq(datasets.workspaceId, workspaceId), eq(datasets.id, datasetId))).limit(1);
   if (!row) throw notFound('Dataset not found');
   return row;
 }
 
 /** Datasets shown by the data cells of a notebook, by table name (a later cell wins a name clash). */
-export async function notebookTables(exec: Exec, workspaceId: string, notebookId: string): Promise<Map<string, DatasetRow>> {
+export async function notebookTables(exec: Exec, workspaceId: string, notebookId: string): Promise<Map<string, DatasetMeta>> {
   const dataCells = await exec
     .select({ content: cells.content, position: cells.position })
     .from(cells)
@@ -94,9 +115,9 @@ export async function notebookTables(exec: Exec, workspaceId: string, notebookId
     .map((c) => (c.content as { datasetId?: string | null } | null)?.datasetId)
     .filter((x): x is string => typeof x === 'string');
   if (ids.length === 0) return new Map();
-  const rows = await exec.select().from(datasets).where(and(eq(datasets.workspaceId, workspaceId), inArray(datasets.id, ids)));
+  const rows = await exec.select(metaColumns).from(datasets).where(and(eq(datasets.workspaceId, workspaceId), inArray(datasets.id, ids)));
   const byId = new Map(rows.map((r) => [r.id, r]));
-  const out = new Map<string, DatasetRow>();
+  const out = new Map<string, DatasetMeta>();
   for (const id of ids) {
     const r = byId.get(id);
     if (r) out.set(r.name, r);
@@ -104,10 +125,10 @@ export async function notebookTables(exec: Exec, workspaceId: string, notebookId
   return out;
 }
 
-/** Parse stored datasets into the engine's data tables (on compute threads). */
-export async function loadDataTables(rows: Iterable<DatasetRow>): Promise<DataTables> {
+/** Stored datasets as the engine's data tables, each under the name given (cached, see parsedTable). */
+export async function loadDataTables(exec: Exec, rows: Iterable<DatasetMeta & { content?: Buffer }>): Promise<DataTables> {
   const list = [...rows];
-  const tables = await Promise.all(list.map((d) => parsedTable(d)));
+  const tables = await Promise.all(list.map((d) => parsedTable(exec, d)));
   return Object.fromEntries(list.map((d, i) => [d.name, tables[i]]));
 }
 

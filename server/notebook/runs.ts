@@ -6,7 +6,7 @@ import { runChains, runs, runSummaries, users, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
 import { notFound } from '../http/errors';
 import { queuePositions, type ChainStats, type RunRow, type RunSpec } from '../jobs/queue';
-import { computeFailure, loadDataTables } from './datasets';
+import { computeFailure, datasetMetaColumns, loadDataTables } from './datasets';
 import { checkModelOffThread } from './checks';
 import { computePool } from '../compute/pool';
 import type { StoredChainInput } from '../compute/tasks';
@@ -130,10 +130,10 @@ export async function runRegion(exec: Exec, run: RunRow, names: string[]) {
   if (!spec) return null;
   try {
     const ids = Object.values(spec.tables);
-    const rows = ids.length ? await exec.select().from(datasets).where(and(eq(datasets.workspaceId, run.workspaceId), inArray(datasets.id, ids))) : [];
+    const rows = ids.length ? await exec.select(datasetMetaColumns).from(datasets).where(and(eq(datasets.workspaceId, run.workspaceId), inArray(datasets.id, ids))) : [];
     const byId = new Map(rows.map((d) => [d.id, d]));
     if (ids.some((id) => !byId.has(id))) return null;
-    const tables = await loadDataTables(Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
+    const tables = await loadDataTables(exec, Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
     return (await checkModelOffThread(spec.source, tables, false, names)).regionSystem;
   } catch {
     return null;

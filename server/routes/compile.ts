@@ -8,7 +8,7 @@ import { routes } from '../../shared/api/routes';
 import type { AppContext } from '../context';
 import { datasets } from '../db/schema';
 import { mount } from '../http/route';
-import { loadDataTables, notebookTables, type DatasetRow } from '../notebook/datasets';
+import { datasetMetaColumns, loadDataTables, notebookTables, type DatasetMeta } from '../notebook/datasets';
 import { checkModelOffThread } from '../notebook/checks';
 import { tablesNamed } from '../notebook/model';
 import { findNotebook } from './notebooks';
@@ -19,7 +19,7 @@ export function compileRouter(ctx: AppContext): Router {
 
   mount(r, ctx, routes.compileModel, async ({ body }, req) => {
     const ws = req.workspace!;
-    let bound: Map<string, DatasetRow>;
+    let bound: Map<string, DatasetMeta>;
     if (body.notebookId) {
       await findNotebook(db, ws.id, body.notebookId);
       bound = await notebookTables(db, ws.id, body.notebookId);
@@ -28,12 +28,12 @@ export function compileRouter(ctx: AppContext): Router {
       const names = tablesNamed(body.source);
       bound = new Map();
       for (const name of names) {
-        const [row] = await db.select().from(datasets).where(and(eq(datasets.workspaceId, ws.id), eq(datasets.name, name))).orderBy(desc(datasets.createdAt)).limit(1);
+        const [row] = await db.select(datasetMetaColumns).from(datasets).where(and(eq(datasets.workspaceId, ws.id), eq(datasets.name, name))).orderBy(desc(datasets.createdAt)).limit(1);
         if (row) bound.set(name, row);
       }
     }
     const wanted = tablesNamed(body.source);
-    const tables = await loadDataTables([...bound.values()].filter((d) => wanted.includes(d.name)));
+    const tables = await loadDataTables(db, [...bound.values()].filter((d) => wanted.includes(d.name)));
     return (await checkModelOffThread(body.source, tables, body.region ?? true)).response;
   });
 

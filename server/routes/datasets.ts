@@ -8,7 +8,7 @@ import { mount } from '../http/route';
 import { mountUpload } from '../http/upload';
 import { notFound } from '../http/errors';
 import { newId } from '../lib/ids';
-import { datasetInNotebook, datasetPreview, findDataset, parseUpload, toDataset } from '../notebook/datasets';
+import { datasetInNotebook, datasetPreview, findDataset, parseUpload, rememberTable, toDataset } from '../notebook/datasets';
 import { previewOf } from '../notebook/tables';
 
 export function datasetsRouter(ctx: AppContext): Router {
@@ -32,19 +32,20 @@ export function datasetsRouter(ctx: AppContext): Router {
       createdAt: clock.now(),
     };
     await db.insert(datasets).values(row);
+    rememberTable(row, table);
     return { dataset: toDataset(row), rows: previewOf(table, columns) };
   });
 
   mount(r, ctx, routes.getDataset, async ({ params }, req) => {
     const d = await findDataset(db, req.workspace!.id, params.datasetId);
-    return { dataset: toDataset(d), rows: await datasetPreview(d) };
+    return { dataset: toDataset(d), rows: await datasetPreview(db, d) };
   });
 
   mount(r, ctx, routes.sharedDataset, async ({ params }, req) => {
     const share = req.share!;
     if (!(await datasetInNotebook(db, share.workspaceId, share.notebookId, params.datasetId))) throw notFound('Dataset not found');
     const d = await findDataset(db, share.workspaceId, params.datasetId);
-    return { dataset: toDataset(d), rows: await datasetPreview(d) };
+    return { dataset: toDataset(d), rows: await datasetPreview(db, d) };
   });
 
   return r;

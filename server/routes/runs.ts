@@ -55,7 +55,7 @@ export function runsRouter(ctx: AppContext): Router {
       throw badRequest(`The model binds ${missing.map((t) => `table "${t}"`).join(' and ')}, but no data cell in this notebook holds a table by that name.`);
     }
     const used = named.map((t) => bound.get(t)!);
-    const m = await checkModelOffThread(model.source, await loadDataTables(used), false);
+    const m = await checkModelOffThread(model.source, await loadDataTables(db, used), false);
     const problem = firstProblem(m.response);
     if (problem) throw badRequest(`The model has a problem at ${problem}`);
     const dim = m.dim;
