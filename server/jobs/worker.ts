@@ -247,7 +247,9 @@ export class RunWorker {
       const result = await runFit(target, settings, {
         signal: ac.signal,
         parallel: this.parallel,
-        maxWorkers: this.threadsPerRun(),
+        // No cap per run: the engine's thread pool is shared by every slot of this process and
+        // hands a freed thread to the chain that waited longest, so chains, not runs, take turns
+        // on the cores.
         resume,
         onProgress: (p) => {
           // The engine numbers chains from 0 in progress; the API shows them from 1.
@@ -281,11 +283,6 @@ export class RunWorker {
       ac.signal.removeEventListener('abort', onAbandon);
       this.current.delete(ac);
     }
-  }
-
-  /** Threads one run may use: the machine's, shared between the slots (the engine caps the total). */
-  private threadsPerRun(): number {
-    return Math.max(1, Math.ceil(os.availableParallelism() / this.slots));
   }
 
   /** Store one finished chain, retrying through outages; a fenced-out write stops the fit. */
