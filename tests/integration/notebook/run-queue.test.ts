@@ -68,6 +68,36 @@ describe('queue order and position', () => {
   });
 });
 
+describe('fit slots', () => {
+  it('a worker with two slots fits two runs at once, taking workspaces in turn', async () => {
+    const db = w.server.db.db;
+    await clearQueue();
+    const t0 = w.server.clock.now().getTime() - 10_000;
+    const a1 = await queue(w.ws, w.nb, new Date(t0));
+    const a2 = await queue(w.ws, w.nb, new Date(t0 + 1));
+    const b1 = await queue(other.ws, other.nb, new Date(t0 + 2));
+    const logs: string[] = [];
+    const worker = new RunWorker({ db, slots: 2, parallel: false, pollMs: 50, progressMs: 0, log: (m) => logs.push(m) });
+    worker.start();
+    const deadline = Date.now() + 120_000;
+    for (;;) {
+      const rows = await db.select({ status: runs.status }).from(runs).where(inArray(runs.id, [a1, a2, b1]));
+      if (rows.every((r) => r.status === 'done')) break;
+      if (Date.now() > deadline) throw new Error(`runs did not finish:\n${logs.join('\n')}`);
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    await worker.stop();
+    const claims = logs.map((m) => /slot (\d): claimed run (\w+)/.exec(m)).filter((m) => m !== null);
+    // The first two claims are one run of each workspace, on different slots; A's second run comes last.
+    expect(new Set(claims.slice(0, 2).map((m) => m[2]))).toEqual(new Set([a1, b1]));
+    expect(new Set(claims.slice(0, 2).map((m) => m[1]))).toEqual(new Set(['1', '2']));
+    expect(claims[2][2]).toBe(a2);
+    // The two first runs overlapped: the second claim came before the first run was done.
+    const firstDone = logs.findIndex((m) => /run \w+ done in/.test(m));
+    expect(logs.indexOf(claims[1].input)).toBeLessThan(firstDone);
+  });
+});
+
 describe('a lost worker', () => {
   it('shows as lost when its heartbeat is stale or its lease expired, and as active again after a beat', async () => {
     const db = w.server.db.db;
