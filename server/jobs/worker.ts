@@ -247,6 +247,9 @@ export class RunWorker {
       const result = await runFit(target, settings, {
         signal: ac.signal,
         parallel: this.parallel,
+        // Summaries of millions of draws take seconds: off this process's event loop, which
+        // keeps every slot's heartbeat and writes going.
+        summaryOnWorker: true,
         // No cap per run: the engine's thread pool is shared by every slot of this process and
         // hands a freed thread to the chain that waited longest, so chains, not runs, take turns
         // on the cores.
@@ -333,7 +336,7 @@ export class RunWorker {
   private async finishPartial(run: RunRow, settings: FitSettings, target: TargetSpec, chains: ChainResult[], started: number): Promise<void> {
     const sorted = chains.sort((a, b) => a.chain - b.chain);
     const reindexed = sorted.map((c, k) => ({ ...c, chain: k }));
-    const sub = await runFit(target, { ...settings, chains: sorted.length }, { parallel: false, resume: reindexed });
+    const sub = await runFit(target, { ...settings, chains: sorted.length }, { parallel: this.parallel, summaryOnWorker: true, resume: reindexed });
     // The summary's settings name the chains it covers; the run keeps the settings it was queued with.
     const result = { ...sub, chains: sorted };
     const ok = await this.write(`finishing run ${run.id} (partial)`, () =>
