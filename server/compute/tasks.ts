@@ -7,7 +7,8 @@ import { parseCsv, type ParsedTable } from '../../shared/data';
 import { drawsCsvHeader, drawsCsvRows } from '../../shared/export-csv';
 import type { CompileResponse, DatasetColumn, RegionSystem } from '../../shared/api/notebook';
 import type { DataTables } from '../engine/types';
-import { decodeDraws, decodeFlags } from '../jobs/draws-codec';
+import { decodeDraws, decodeFlags, encodeChain, type DrawNames, type EncodedChain } from '../jobs/draws-codec';
+import type { ChainResult } from '../engine/types';
 import { checkModel, regionSystem } from '../notebook/model';
 import { columnsOf, describeCsvErrors } from '../notebook/tables';
 
@@ -93,7 +94,14 @@ const drawsCsv: Task<{ names: string[]; chains: StoredChainInput[] }, Uint8Array
   return { output: bytes, transfer: [bytes.buffer as ArrayBuffer] };
 };
 
-export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv };
+/** A finished chain encoded for storage (its draws arrive back as a Uint8Array: see encodedChain). */
+const encode: Task<{ names: DrawNames; chain: ChainResult }, EncodedChain> = ({ names, chain }) => {
+  const enc = encodeChain(names, chain);
+  const own = enc.draws.byteOffset === 0 && enc.draws.byteLength === enc.draws.buffer.byteLength;
+  return { output: enc, transfer: own ? [enc.draws.buffer as ArrayBuffer] : [] };
+};
+
+export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, encodeChain: encode };
 export type TaskName = keyof typeof TASKS;
 export type TaskInput<K extends TaskName> = Parameters<(typeof TASKS)[K]>[0];
 export type TaskOutput<K extends TaskName> = ReturnType<(typeof TASKS)[K]>['output'];

@@ -20,7 +20,7 @@ import type { Db } from '../db/client';
 import { runChains, runs, runSummaries } from '../db/schema';
 import { newId } from '../lib/ids';
 import type { ChainResult } from '../engine/types';
-import { decodeDraws, decodeFlags, decodeFloats, encodeDraws, encodeFlags, encodeFloats } from './draws-codec';
+import { decodeDraws, decodeFlags, decodeFloats, encodeChain, type ChainStats, type DrawNames, type EncodedChain } from './draws-codec';
 
 export type RunRow = typeof runs.$inferSelect;
 
@@ -31,26 +31,7 @@ export interface RunSpec {
   tables: Record<string, string>;
 }
 
-/** Stored with every chain: names of the columns of its draws, and per-draw flags. */
-export interface ChainStats {
-  unknownNames: string[];
-  derivedNames: string[];
-  divergent: [number, number][];
-  /** Draws whose transition was rejected (a step could not be completed); absent in older rows = none. */
-  rejected?: [number, number][];
-  stepSize: number | null;
-  meanAcceptStat: number;
-  factorizationsPerStep?: number;
-  /** Per-draw acceptance statistic and energy (encodeFloats), so a resumed fit summarises exactly. */
-  acceptStat?: string;
-  energy?: string;
-}
-
-/** Names of the columns of a run's draws: the unknowns' coordinates, then derived quantities. */
-export interface DrawNames {
-  unknownNames: string[];
-  derivedNames: string[];
-}
+export type { ChainStats, DrawNames, EncodedChain } from './draws-codec';
 
 const fenced = (runId: string, workerId: string) => and(eq(runs.id, runId), eq(runs.leaseOwner, workerId), eq(runs.status, 'running'));
 
@@ -139,32 +120,20 @@ export async function writeProgress(db: Db, runId: string, workerId: string, pro
   return res.affectedRows === 1;
 }
 
-function chainRow(run: Pick<RunRow, 'id' | 'workspaceId'>, names: DrawNames, ch: ChainResult, now: Date): typeof runChains.$inferInsert {
-  const enc = encodeDraws(ch.draws, names.unknownNames.length, ch.derivedDraws, names.derivedNames.length);
-  let accept = 0;
-  for (let i = 0; i < ch.acceptStat.length; i++) accept += ch.acceptStat[i];
-  const stats: ChainStats = {
-    unknownNames: names.unknownNames,
-    derivedNames: names.derivedNames,
-    divergent: encodeFlags(ch.divergent),
-    ...(ch.rejected ? { rejected: encodeFlags(ch.rejected) } : {}),
-    stepSize: Number.isFinite(ch.stepSize) ? ch.stepSize : null,
-    meanAcceptStat: ch.acceptStat.length ? accept / ch.acceptStat.length : NaN,
-    ...(ch.factorizationsPerStep !== undefined ? { factorizationsPerStep: ch.factorizationsPerStep } : {}),
-    acceptStat: encodeFloats(ch.acceptStat),
-    ...(ch.energy ? { energy: encodeFloats(ch.energy) } : {}),
-  };
+function chainRow(run: Pick<RunRow, 'id' | 'workspaceId'>, names: DrawNames, ch: ChainResult | EncodedChain, now: Date): typeof runChains.$inferInsert {
+  const enc = 'stats' in ch ? ch : encodeChain(names, ch);
   return {
-    id: newId(), workspaceId: run.workspaceId, runId: run.id, chainIndex: ch.chain, drawCount: enc.drawCount,
-    dimension: enc.dimension, draws: enc.buffer, stats, createdAt: now,
+    id: newId(), workspaceId: run.workspaceId, runId: run.id, chainIndex: enc.chain, drawCount: enc.drawCount,
+    dimension: enc.dimension, draws: enc.draws, stats: enc.stats, createdAt: now,
   };
 }
 
 /**
- * Store one finished chain while the run goes on. Fenced like every write: false (and nothing
- * written) when this worker no longer holds the run.
+ * Store one finished chain while the run goes on (as the engine returned it, or already encoded
+ * off the main thread). Fenced like every write: false (and nothing written) when this worker no
+ * longer holds the run.
  */
-export async function storeChain(db: Db, run: Pick<RunRow, 'id' | 'workspaceId'>, workerId: string, names: DrawNames, chain: ChainResult, now: Date): Promise<boolean> {
+export async function storeChain(db: Db, run: Pick<RunRow, 'id' | 'workspaceId'>, workerId: string, names: DrawNames, chain: ChainResult | EncodedChain, now: Date): Promise<boolean> {
   return db.transaction(async (tx) => {
     const [mine] = await tx.select({ id: runs.id }).from(runs).where(fenced(run.id, workerId)).for('update');
     if (!mine) return false;

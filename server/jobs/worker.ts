@@ -25,7 +25,8 @@ import type { Clock } from '../lib/clock';
 import { systemClock } from '../lib/clock';
 import { newId } from '../lib/ids';
 import { datasetMetaColumns, loadDataTables } from '../notebook/datasets';
-import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type RunRow, type RunSpec } from './queue';
+import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type EncodedChain, type RunRow, type RunSpec } from './queue';
+import { computePool } from '../compute/pool';
 import { describe, isTransientDbError, retryDb } from './retry';
 
 export interface WorkerOptions {
@@ -262,7 +263,7 @@ export class RunWorker {
         onChainDone: (ch) => {
           this.log(`run ${run.id}: chain ${ch.chain + 1} finished`);
           finished.set(ch.chain, ch);
-          chainWrites = chainWrites.then(() => this.storeOne(run, drawNames, ch, storedOk, stopFit));
+          chainWrites = chainWrites.then(async () => this.storeOne(run, drawNames, await this.encoded(drawNames, ch), storedOk, stopFit));
         },
       });
       await chainWrites;
@@ -288,8 +289,20 @@ export class RunWorker {
     }
   }
 
+  /** A chain encoded on the compute pool (as the engine gave it if the pool fails: storeChain encodes it then). */
+  private async encoded(names: DrawNames, ch: ChainResult): Promise<ChainResult | EncodedChain> {
+    try {
+      const enc = await computePool().run('encodeChain', { names, chain: ch }, { timeoutMs: 120_000 });
+      const d = enc.draws as Uint8Array;
+      return { ...enc, draws: Buffer.from(d.buffer, d.byteOffset, d.byteLength) };
+    } catch (e) {
+      this.log(`encoding chain ${ch.chain + 1} on the compute pool failed (${describe(e)}); encoding it here`);
+      return ch;
+    }
+  }
+
   /** Store one finished chain, retrying through outages; a fenced-out write stops the fit. */
-  private async storeOne(run: RunRow, names: DrawNames, ch: ChainResult, storedOk: Set<number>, stopFit: (r: StopReason) => void): Promise<void> {
+  private async storeOne(run: RunRow, names: DrawNames, ch: ChainResult | EncodedChain, storedOk: Set<number>, stopFit: (r: StopReason) => void): Promise<void> {
     try {
       const mine = await this.write(`storing chain ${ch.chain + 1} of run ${run.id}`, () => storeChain(this.db, run, this.id, names, ch, this.clock.now()));
       if (mine) storedOk.add(ch.chain);
