@@ -4,9 +4,9 @@ import { ZodError } from 'zod';
 import type { ApiError } from '../../shared/api/common';
 import type { AppConfig } from '../config';
 import { HttpError } from './errors';
+import { isDbUnreachable } from '../db/errors';
 import { issuesToFields } from './route';
 
-const DB_DOWN = new Set(['ECONNREFUSED', 'PROTOCOL_CONNECTION_LOST', 'ETIMEDOUT', 'ER_CON_COUNT_ERROR', 'ENOTFOUND']);
 
 function toHttpError(err: unknown): HttpError {
   if (err instanceof HttpError) return err;
@@ -22,7 +22,8 @@ function toHttpError(err: unknown): HttpError {
   if (typeof status === 'number' && status >= 400 && status < 500) {
     return new HttpError(status, 'bad_request', e.message ?? 'Bad request');
   }
-  if (e?.code && DB_DOWN.has(e.code)) return new HttpError(503, 'service_unavailable', 'The database is not reachable');
+  // Also through Drizzle's wrapper (the driver's error is its cause).
+  if (isDbUnreachable(err)) return new HttpError(503, 'service_unavailable', 'The database is not reachable');
   return new HttpError(500, 'internal', 'Something went wrong on our side');
 }
 

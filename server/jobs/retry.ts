@@ -5,38 +5,9 @@
  * thrown at once, since repeating it would fail the same way.
  */
 
-const TRANSIENT_CODES = new Set([
-  'ECONNREFUSED',
-  'ECONNRESET',
-  'ETIMEDOUT',
-  'EPIPE',
-  'EHOSTUNREACH',
-  'ENOTFOUND',
-  'EAI_AGAIN',
-  'PROTOCOL_CONNECTION_LOST',
-  'PROTOCOL_SEQUENCE_TIMEOUT',
-  'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR',
-  'ER_SERVER_SHUTDOWN',
-  'ER_CON_COUNT_ERROR',
-  'ER_LOCK_DEADLOCK',
-  'ER_LOCK_WAIT_TIMEOUT',
-  'ER_CONNECTION_KILLED',
-  'ER_QUERY_INTERRUPTED',
-  'ER_NORMAL_SHUTDOWN',
-  'ER_SHUTDOWN_COMPLETE',
-]);
+import { isTransientDbError } from '../db/errors';
 
-/** True for connection-level failures and lock conflicts worth trying again. */
-export function isTransientDbError(err: unknown): boolean {
-  // Drizzle wraps driver errors ("Failed query: …") with the driver's error as `cause`.
-  for (let e: unknown = err, depth = 0; e && depth < 5; e = (e as { cause?: unknown }).cause, depth++) {
-    const code = (e as { code?: unknown }).code;
-    if (typeof code === 'string' && TRANSIENT_CODES.has(code)) return true;
-    const msg = (e as { message?: unknown }).message;
-    if (typeof msg === 'string' && /connection (is in closed state|lost)|can't add new command when connection is in closed state/i.test(msg)) return true;
-  }
-  return false;
-}
+export { isTransientDbError };
 
 export interface RetryOptions {
   /** Named in the log lines, e.g. "storing chain 2 of run x". */

@@ -123,6 +123,10 @@ describe('a database restart under a running fit', () => {
     // While the database is down the server still answers (health says so) and nothing crashed.
     const health = await fetch(`${url}/api/health`);
     expect(health.status).toBe(503);
+    // Any request that needs the database is answered 503, not a crash or a generic 500.
+    const during = await owner.get(`/api/workspaces/${ws}/runs/${runId}`);
+    expect(during.status).toBe(503);
+    expect(during.body.error.code).toBe('service_unavailable');
     await sleep(4_000);
     expect(child.exitCode).toBeNull();
     dbStart();
