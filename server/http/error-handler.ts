@@ -1,15 +1,24 @@
 /** Map every error to the one JSON error shape `{ error: { code, message, fields? } }`. */
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
-import type { ApiError } from '../../shared/api/common';
+import type { ApiError, ErrorCode } from '../../shared/api/common';
+import { DomainError, type DomainErrorKind } from '../lib/errors';
 import type { AppConfig } from '../config';
 import { HttpError } from './errors';
 import { isDbUnreachable } from '../db/errors';
 import { issuesToFields } from './route';
 
 
+const DOMAIN: Record<DomainErrorKind, [number, ErrorCode]> = {
+  invalid: [400, 'bad_request'],
+  not_found: [404, 'not_found'],
+  time_limit: [422, 'time_limit'],
+  busy: [503, 'service_unavailable'],
+};
+
 function toHttpError(err: unknown): HttpError {
   if (err instanceof HttpError) return err;
+  if (err instanceof DomainError) return new HttpError(DOMAIN[err.kind][0], DOMAIN[err.kind][1], err.message, err.fields);
   if (err instanceof ZodError) return new HttpError(400, 'bad_request', 'Invalid request', issuesToFields(err.issues));
   const e = err as { type?: string; status?: number; statusCode?: number; code?: string; message?: string };
   // Errors of express.json() (body-parser).

@@ -19,5 +19,3 @@ export const forbidden = (message = 'Your role does not allow this') => new Http
 export const notFound = (message = 'Not found') => new HttpError(404, 'not_found', message);
 export const conflict = (message: string, fields?: Record<string, string>) =>
   new HttpError(409, 'conflict', message, fields);
-export const timeLimit = (message: string) => new HttpError(422, 'time_limit', message);
-export const unavailable = (message: string) => new HttpError(503, 'service_unavailable', message);

@@ -11,7 +11,8 @@ import { TableCache, tableCache } from './table-cache';
 import type { DataTables } from '../engine/types';
 import { cells, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
-import { badRequest, HttpError, notFound, timeLimit, unavailable } from '../http/errors';
+import { badRequest, notFound } from '../http/errors';
+import { DomainError } from '../lib/errors';
 
 export type DatasetRow = typeof datasets.$inferSelect;
 
@@ -42,10 +43,10 @@ export function readUpload(bytes: Buffer): { result: CsvResult; columns: Dataset
   return { result, columns: columnsOf(result), rows: result.table.rows };
 }
 
-/** A pool task's failure as an answer: past its time limit (422), pool full (503), else as is. */
+/** A pool task's failure in words: past its time limit, or the pool full; other errors as they are. */
 export function computeFailure(e: unknown, what: string): unknown {
-  if (e instanceof ComputeTimeoutError) return timeLimit(`${what} took longer than its limit of ${e.ms < 1000 ? `${e.ms} ms` : `${Math.round(e.ms / 1000)} s`} and was stopped.`);
-  if (e instanceof ComputeBusyError) return unavailable(e.message);
+  if (e instanceof ComputeTimeoutError) return new DomainError('time_limit', `${what} took longer than its limit of ${e.ms < 1000 ? `${e.ms} ms` : `${Math.round(e.ms / 1000)} s`} and was stopped.`);
+  if (e instanceof ComputeBusyError) return new DomainError('busy', e.message);
   return e;
 }
 
@@ -57,7 +58,7 @@ export async function parseUpload(bytes: Buffer): Promise<{ table: ParsedTable; 
     .catch((e: unknown) => {
       throw computeFailure(e, 'Reading the file');
     });
-  if (!out.ok) throw badRequest(out.message, { file: out.field });
+  if (!out.ok) throw new DomainError('invalid', out.message, { file: out.field });
   return out;
 }
 
@@ -76,13 +77,13 @@ export async function parsedTable(exec: Exec, d: DatasetMeta & { content?: Buffe
     let content = d.content;
     if (!content) {
       const [row] = await exec.select({ content: datasets.content }).from(datasets).where(and(eq(datasets.workspaceId, d.workspaceId), eq(datasets.id, d.id))).limit(1);
-      if (!row) throw notFound(`The table "${d.name}" no longer exists`);
+      if (!row) throw new DomainError('not_found', `The table "${d.name}" no longer exists`);
       content = row.content;
     }
     try {
       return (await parseUpload(content)).table;
     } catch (e) {
-      if (e instanceof HttpError && e.status === 400) throw badRequest(`The stored table "${d.name}" can no longer be read`);
+      if (e instanceof DomainError && e.kind === 'invalid') throw new DomainError('invalid', `The stored table "${d.name}" can no longer be read`);
       throw e;
     }
   });

@@ -8,7 +8,8 @@ import type { AppContext } from '../context';
 import { cells, datasets, notebooks } from '../db/schema';
 import { mount } from '../http/route';
 import { mountUpload } from '../http/upload';
-import { badRequest, HttpError } from '../http/errors';
+import { badRequest } from '../http/errors';
+import { DomainError } from '../lib/errors';
 import { newId } from '../lib/ids';
 import { orderedCells } from '../notebook/cells';
 import { parseUpload } from '../notebook/datasets';
@@ -59,7 +60,7 @@ export function notebookFileRouter(ctx: AppContext): Router {
         try {
           return { d, ...(await parseUpload(Buffer.from(d.csv, 'utf8'))) };
         } catch (e) {
-          if (e instanceof HttpError && e.status !== 400) throw e;
+          if (!(e instanceof DomainError && e.kind === 'invalid')) throw e;
           throw badRequest(`Dataset "${d.name}" in the file: ${(e as Error).message}`);
         }
       }),
