@@ -1,7 +1,7 @@
 /** `tsx scripts/seed.ts` — add the demo account, workspace and notebook to DATABASE_URL (idempotent). */
 import { createDb, DEFAULT_DATABASE_URL } from '../server/db/client';
-import { DEMO_USER, seedDemo } from '../server/db/seed';
-import { seedDemoNotebook } from '../server/db/seed-notebook';
+import { DEMO_USER, seedDemo } from '../server/seed/demo';
+import { seedDemoNotebook } from '../server/seed/notebook';
 
 const handle = createDb(process.env.DATABASE_URL ?? DEFAULT_DATABASE_URL, 1);
 seedDemo(handle.db)

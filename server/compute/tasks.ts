@@ -7,7 +7,7 @@ import { parseCsv, type ParsedTable } from '../../shared/data';
 import { drawsCsvHeader, drawsCsvRows } from '../../shared/export-csv';
 import type { CompileResponse, DatasetColumn, RegionSystem } from '../../shared/api/notebook';
 import type { DataTables } from '../engine/types';
-import { decodeDraws, decodeFlags, encodeChain, type DrawNames, type EncodedChain } from '../jobs/draws-codec';
+import { decodeDraws, decodeFlags, encodeChain, type DrawNames, type EncodedChain } from '../runs/draws-codec';
 import type { ChainResult } from '../engine/types';
 import { checkModel, regionSystem } from '../notebook/model';
 import { columnsOf, describeCsvErrors } from '../notebook/tables';

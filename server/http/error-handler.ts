@@ -12,6 +12,7 @@ import { issuesToFields } from './route';
 const DOMAIN: Record<DomainErrorKind, [number, ErrorCode]> = {
   invalid: [400, 'bad_request'],
   not_found: [404, 'not_found'],
+  conflict: [409, 'conflict'],
   time_limit: [422, 'time_limit'],
   busy: [503, 'service_unavailable'],
 };

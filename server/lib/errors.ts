@@ -3,7 +3,7 @@
  * the run worker meets them as plain errors with a message, and the HTTP error handler maps each
  * kind to a status and code (server/http/error-handler.ts).
  */
-export type DomainErrorKind = 'invalid' | 'not_found' | 'time_limit' | 'busy';
+export type DomainErrorKind = 'invalid' | 'not_found' | 'conflict' | 'time_limit' | 'busy';
 
 export class DomainError extends Error {
   constructor(

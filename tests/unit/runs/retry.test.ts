@@ -1,7 +1,7 @@
 /** Retrying worker writes through a database outage, and the number of fit slots. */
 import { describe, expect, it } from 'vitest';
-import { isTransientDbError, retryDb } from '../../../server/jobs/retry';
-import { fitSlotsFromEnv } from '../../../server/jobs/slots';
+import { isTransientDbError, retryDb } from '../../../server/runs/retry';
+import { fitSlotsFromEnv } from '../../../server/runs/slots';
 
 const refused = () => Object.assign(new Error('connect ECONNREFUSED 127.0.0.1:3307'), { code: 'ECONNREFUSED' });
 

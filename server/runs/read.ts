@@ -4,10 +4,10 @@ import { fitSummarySchema, type FitProgress, type FitSummary } from '../../share
 import { RUN_HEARTBEAT, type Run, type RunDraws } from '../../shared/api/notebook';
 import { runChains, runs, runSummaries, users, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
-import { notFound } from '../http/errors';
-import { queuePositions, type ChainStats, type RunRow, type RunSpec } from '../jobs/queue';
-import { computeFailure, datasetMetaColumns, loadDataTables } from './datasets';
-import { checkModelOffThread } from './checks';
+import { DomainError } from '../lib/errors';
+import { queuePositions, type ChainStats, type RunRow, type RunSpec } from './queue';
+import { computeFailure, datasetMetaColumns, loadDataTables } from '../notebook/datasets';
+import { checkModelOffThread } from '../notebook/checks';
 import { computePool } from '../compute/pool';
 import type { StoredChainInput } from '../compute/tasks';
 
@@ -62,7 +62,7 @@ export async function findRun(exec: Exec, workspaceId: string, runId: string, no
     .leftJoin(users, eq(users.id, runs.requestedBy))
     .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId)))
     .limit(1);
-  if (!x) throw notFound('Run not found');
+  if (!x) throw new DomainError('not_found', 'Run not found');
   const [run] = await withSummaries(exec, [x], now);
   return { ...run, row: x.r };
 }
@@ -85,7 +85,7 @@ async function storedChainInputs(exec: Exec, workspaceId: string, runId: string)
     .from(runChains)
     .where(and(eq(runChains.workspaceId, workspaceId), eq(runChains.runId, runId)))
     .orderBy(asc(runChains.chainIndex));
-  if (rows.length === 0) throw notFound('This run has no stored draws');
+  if (rows.length === 0) throw new DomainError('not_found', 'This run has no stored draws');
   const stats = rows[0].stats as ChainStats;
   return {
     names: [...stats.unknownNames, ...stats.derivedNames],
