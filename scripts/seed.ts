@@ -1,7 +1,7 @@
 /** `tsx scripts/seed.ts` — add the demo account, workspace and notebook to DATABASE_URL (idempotent). */
 import { createDb, DEFAULT_DATABASE_URL } from '../server/db/client';
-import { DEMO_USER, seedDemo, shouldSeedDemo } from '../server/db/seed';
-import { seedDemoNotebook } from '../server/db/seed-notebook';
+import { DEMO_USER, seedDemo, shouldSeedDemo } from '../server/seed/demo';
+import { seedDemoNotebook } from '../server/seed/notebook';
 
 if (!shouldSeedDemo(process.env)) {
   console.log('[slackline] demo data not created (NODE_ENV=production; set SEED_DEMO=true to create the demo account anyway)');

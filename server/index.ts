@@ -10,7 +10,9 @@ import { createDb, DEFAULT_DATABASE_URL, pingDb } from './db/client';
 import { startCaptureServer, type CaptureServer } from './mail/capture-server';
 import { createSmtpMailer } from './mail/mailer';
 import { systemClock } from './lib/clock';
-import { RunWorker } from './jobs/worker';
+import { superviseWorker } from './runs/supervisor';
+import { fitSlotsFromEnv } from './runs/slots';
+import { describe } from './runs/retry';
 import { createLucia } from './auth/lucia';
 import { passwordResets } from './db/schema';
 import { lt } from 'drizzle-orm';
@@ -36,10 +38,11 @@ async function main() {
     console.log(`[slackline] mail capture on ${capture.url}; read it at ${config.publicUrl}/dev/mail?key=${config.devMailKey}`);
   }
   const mailer = createSmtpMailer(smtpUrl, config.mailFrom);
+  const slots = fitSlotsFromEnv(env);
   const app = createApp({ db: handle.db, mailer, clock: systemClock, config, pingDb: () => pingDb(handle) });
-  // One run worker in this process (RUN_WORKER=false turns it off; `npm run worker` adds more).
-  const worker = env.RUN_WORKER === 'false' ? null : new RunWorker({ db: handle.db });
-  worker?.start();
+  // The fits run in a child process with FIT_SLOTS slots (RUN_WORKER=false: none; `npm run worker`
+  // adds more, on this host or others).
+  const worker = env.RUN_WORKER === 'false' ? null : superviseWorker({ env, slots });
   const server = app.listen(port, host, () => {
     console.log(`[slackline] serving on http://${host}:${port}`);
   });
@@ -66,7 +69,7 @@ async function main() {
     console.log(`[slackline] ${signal}: stopping`);
     server.close();
     server.closeAllConnections();
-    Promise.allSettled([worker?.stop(true), capture?.close()])
+    Promise.allSettled([worker?.stop(), capture?.close()])
       .then(() => handle.close())
       .then(() => {
       mailer.close();
@@ -77,6 +80,9 @@ async function main() {
   process.on('SIGINT', () => stop('SIGINT'));
   process.on('SIGTERM', () => stop('SIGTERM'));
 }
+
+// A rejection nothing caught is a bug to log, not a reason to take every user's session down.
+process.on('unhandledRejection', (e) => console.error(`[slackline] unhandled rejection: ${describe(e)}`));
 
 main().catch((err: unknown) => {
   console.error('[slackline] failed to start:', err);

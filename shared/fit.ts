@@ -6,11 +6,17 @@ import { z } from 'zod';
 
 export const SAMPLERS = ['auto', 'rhmc', 'hitrun'] as const;
 
+/**
+ * Most unknown coordinates a model may have, everywhere: the model check (editor, compile route)
+ * refuses more before any region check, and a fit refuses more.
+ */
+export const MAX_UNKNOWNS = 500;
+
 export const FIT_LIMITS = {
   chains: { min: 1, max: 8 },
   warmup: { min: 50, max: 20_000 },
   draws: { min: 50, max: 20_000 },
-  dimension: 500,
+  dimension: MAX_UNKNOWNS,
 } as const;
 
 export const fitSettingsSchema = z

@@ -219,6 +219,10 @@ export const runs = mysqlTable(
     progress: jsonCol<unknown>('progress'),
     leaseOwner: varchar('lease_owner', { length: 120 }),
     leaseExpiresAt: ts('lease_expires_at'),
+    /** Last heartbeat of the worker holding the lease (a stale one shows as "worker lost"). */
+    heartbeatAt: ts('heartbeat_at'),
+    /** Done at the time limit with only some chains: the summary covers the chains that finished. */
+    partial: boolean('partial').notNull().default(false),
     attempts: int('attempts').notNull().default(0),
     requestedBy: id('requested_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: createdAt(),

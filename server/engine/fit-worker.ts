@@ -10,6 +10,8 @@
  *   in:  { type: 'run', job: ChainJob }
  *   out: { type: 'progress', chain, phase, iteration } … then { type: 'done', result } or
  *        { type: 'error', error: { name, message, messages? } }
+ *   in:  { type: 'summarise', spec, chains, settings, sampler, samplerReason }
+ *   out: { type: 'summary', summary } or { type: 'error', … }
  */
 import { parentPort, workerData } from 'node:worker_threads';
 import { pathToFileURL } from 'node:url';
@@ -18,6 +20,8 @@ import { prepareTarget, type PreparedTarget } from './geometry';
 import { sampleChain } from './samplers';
 import { compileProgram } from './compile';
 import { compilePriorOnly } from './compile/predictive';
+import { summarise } from './summarise';
+import type { FitSettings } from '../../shared/fit';
 
 export interface ChainJob {
   spec: TargetSpec;
@@ -107,6 +111,15 @@ export function runChainOnPrepared(
 /* Worker side                                                                                  */
 /* ------------------------------------------------------------------------------------------ */
 
+interface SummariseMessage {
+  type: 'summarise';
+  spec: TargetSpec;
+  chains: ChainResult[];
+  settings: FitSettings;
+  sampler: SamplerName;
+  samplerReason: string;
+}
+
 function serialiseError(e: unknown): { name: string; message: string; messages?: unknown; conflicting?: unknown } {
   if (e instanceof Error) {
     const extra = e as Error & { messages?: unknown; conflicting?: unknown };
@@ -117,7 +130,16 @@ function serialiseError(e: unknown): { name: string; message: string; messages?:
 
 if (parentPort && (workerData as { slacklineFitWorker?: boolean } | undefined)?.slacklineFitWorker) {
   const port = parentPort;
-  port.on('message', async (msg: { type: 'run'; job: ChainJob }) => {
+  port.on('message', async (msg: { type: 'run'; job: ChainJob } | SummariseMessage) => {
+    if (msg.type === 'summarise') {
+      try {
+        const p = await preparedFor(msg.spec);
+        port.postMessage({ type: 'summary', summary: summarise(p, msg.chains, msg.settings, msg.sampler, msg.samplerReason) });
+      } catch (e) {
+        port.postMessage({ type: 'error', error: serialiseError(e) });
+      }
+      return;
+    }
     if (msg.type !== 'run') return;
     const { job } = msg;
     try {

@@ -20,14 +20,13 @@ import {
   type FitProgress,
   type FitSettings,
   type FitSummary,
-  type QuantitySummary,
 } from '../../shared/fit';
 import type { ChainResult, FitResult, SamplerName, TargetSpec } from './types';
 import { Rng } from './rng';
 import { dispersedStarts, type PreparedTarget } from './geometry';
 import { chooseSampler } from './samplers';
 import { findMode } from './mode';
-import { efmi, judgeRun, summarizeQuantity } from './diagnostics';
+import { summarise } from './summarise';
 import { preparedFor, runChainOnPrepared, type ChainJob } from './fit-worker';
 
 export interface RunFitOptions {
@@ -47,6 +46,12 @@ export interface RunFitOptions {
    * equals an uninterrupted fit.
    */
   resume?: ChainResult[];
+  /**
+   * Compute the summary (summaries, diagnostics, verdict — seconds for millions of draws) on one
+   * of the chain worker threads instead of the calling thread (default false; ignored when
+   * `parallel` is false).
+   */
+  summaryOnWorker?: boolean;
 }
 
 /** Seed stream of the dispersed starts; chains use their own streams inside the samplers. */
@@ -119,7 +124,10 @@ export async function runFit(
   // (samplers/index.ts makeDrawCheck); resumed chains were checked when they first ran.
   const chains = [...kept.values(), ...ran].sort((a, b) => a.chain - b.chain);
 
-  const summary = summarise(p, chains, settings, sampler, samplerReason);
+  const summary =
+    opts.summaryOnWorker && opts.parallel !== false
+      ? await summariseOnWorker(spec, chains, settings, sampler, samplerReason)
+      : summarise(p, chains, settings, sampler, samplerReason);
   if (opts.computeMode) {
     // Absent when the Newton iterations did not converge (the draws are still summarised).
     const mode = findMode(p);
@@ -207,6 +215,7 @@ function rebuildError(err: { name: string; message: string; messages?: unknown; 
 const WORKER_BOOT = new URL('./fit-worker-boot.mjs', import.meta.url);
 
 type WorkerMessage =
+  | { type: 'summary'; summary: FitSummary }
   | { type: 'progress'; chain: number; phase: 'warmup' | 'sampling'; iteration: number }
   | { type: 'done'; result: ChainResult }
   | { type: 'error'; error: { name: string; message: string; messages?: unknown; conflicting?: unknown } };
@@ -384,93 +393,38 @@ async function runOnWorkers(
   return results;
 }
 
-/* ------------------------------------------------------------------------------------------ */
-/* Checks and summaries                                                                         */
-/* ------------------------------------------------------------------------------------------ */
 
-/** Column `j` of a row-major draws × width matrix. */
-function column(data: Float64Array, width: number, j: number): Float64Array {
-  const n = data.length / width;
-  const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) out[i] = data[i * width + j];
-  return out;
-}
-
-function summarise(
-  p: PreparedTarget,
-  chains: ChainResult[],
-  settings: FitSettings,
-  sampler: SamplerName,
-  samplerReason: string,
-): FitSummary {
-  const t = p.target;
-  const quantities: QuantitySummary[] = [];
-  for (let j = 0; j < t.dim; j++) {
-    quantities.push(summarizeQuantity(t.names[j], 'unknown', chains.map((c) => column(c.draws, t.dim, j))));
-  }
-  const dn = t.derived?.names ?? [];
-  for (let j = 0; j < dn.length; j++) {
-    quantities.push(summarizeQuantity(dn[j], 'derived', chains.map((c) => column(c.derivedDraws, dn.length, j))));
-  }
-
-  let divergences = 0;
-  let rejectedSteps = 0;
-  let acceptSum = 0;
-  let acceptCount = 0;
-  for (const c of chains) {
-    for (let i = 0; i < c.divergent.length; i++) divergences += c.divergent[i];
-    // A missing `rejected` (hit-and-run, chains stored before it existed) reads as zeros.
-    if (c.rejected) for (let i = 0; i < c.rejected.length; i++) rejectedSteps += c.rejected[i];
-    for (let i = 0; i < c.acceptStat.length; i++) {
-      acceptSum += c.acceptStat[i];
-      acceptCount++;
-    }
-  }
-  const stepSizes = chains.map((c) => c.stepSize).filter(Number.isFinite);
-  const efmis = chains.every((c) => c.energy && c.energy.length > 1) ? chains.map((c) => efmi(c.energy!)) : undefined;
-  const fps = chains.map((c) => c.factorizationsPerStep).filter((v): v is number => Number.isFinite(v));
-
-  let worstRhat = quantities[0];
-  let worstEss = quantities[0];
-  for (const q of quantities) {
-    if (q.rhat > worstRhat.rhat) worstRhat = q;
-    if (Math.min(q.essBulk, q.essTail) < Math.min(worstEss.essBulk, worstEss.essTail)) worstEss = q;
-  }
-  const maxRhat = quantities.length ? Math.max(...quantities.map((q) => q.rhat)) : 1;
-  const minEssBulk = quantities.length ? Math.min(...quantities.map((q) => q.essBulk)) : 0;
-  const minEssTail = quantities.length ? Math.min(...quantities.map((q) => q.essTail)) : 0;
-
-  const verdict = judgeRun({
-    chains: settings.chains,
-    draws: settings.draws,
-    divergences,
-    rejectedSteps,
-    maxRhat,
-    minEssBulk,
-    minEssTail,
-    worstRhatName: worstRhat?.name,
-    worstEssName: worstEss?.name,
-    efmi: efmis?.filter(Number.isFinite),
+/** The summary computed on a pooled worker thread (the chains are copied to it). */
+async function summariseOnWorker(spec: TargetSpec, chains: ChainResult[], settings: FitSettings, sampler: SamplerName, samplerReason: string): Promise<FitSummary> {
+  const w = await pool().acquire();
+  return new Promise<FitSummary>((resolve, reject) => {
+    const cleanup = () => {
+      w.off('message', onMessage);
+      w.off('error', onError);
+      w.off('exit', onExit);
+    };
+    const onMessage = (msg: WorkerMessage) => {
+      if (msg.type === 'summary') {
+        cleanup();
+        pool().release(w);
+        resolve(msg.summary);
+      } else if (msg.type === 'error') {
+        cleanup();
+        pool().release(w);
+        reject(rebuildError(msg.error));
+      }
+    };
+    const onError = (e: Error) => {
+      cleanup();
+      reject(e);
+    };
+    const onExit = (code: number) => {
+      cleanup();
+      reject(new Error(`The summary's worker thread stopped with exit code ${code}.`));
+    };
+    w.on('message', onMessage);
+    w.on('error', onError);
+    w.on('exit', onExit);
+    w.postMessage({ type: 'summarise', spec, chains, settings, sampler, samplerReason });
   });
-
-  return {
-    quantities,
-    diagnostics: {
-      divergences,
-      rejectedSteps,
-      acceptance: acceptCount ? acceptSum / acceptCount : 0,
-      // 0 stands for "not applicable" (samplers without a step size, such as hit-and-run).
-      stepSize: stepSizes.length ? stepSizes.reduce((a, b) => a + b, 0) / stepSizes.length : 0,
-      maxRhat,
-      minEssBulk,
-      minEssTail,
-      ...(efmis ? { efmi: efmis.map((v) => (Number.isFinite(v) ? v : 0)) } : {}),
-      ...(fps.length ? { factorizationsPerStep: fps.reduce((a, b) => a + b, 0) / fps.length } : {}),
-      samplerUsed: sampler,
-      samplerReason,
-    },
-    verdict,
-    settings,
-    seconds: 0,
-  };
 }

@@ -1,15 +1,25 @@
 /** Map every error to the one JSON error shape `{ error: { code, message, fields? } }`. */
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
-import type { ApiError } from '../../shared/api/common';
+import type { ApiError, ErrorCode } from '../../shared/api/common';
+import { DomainError, type DomainErrorKind } from '../lib/errors';
 import type { AppConfig } from '../config';
 import { HttpError } from './errors';
+import { isDbUnreachable } from '../db/errors';
 import { issuesToFields } from './route';
 
-const DB_DOWN = new Set(['ECONNREFUSED', 'PROTOCOL_CONNECTION_LOST', 'ETIMEDOUT', 'ER_CON_COUNT_ERROR', 'ENOTFOUND']);
+
+const DOMAIN: Record<DomainErrorKind, [number, ErrorCode]> = {
+  invalid: [400, 'bad_request'],
+  not_found: [404, 'not_found'],
+  conflict: [409, 'conflict'],
+  time_limit: [422, 'time_limit'],
+  busy: [503, 'service_unavailable'],
+};
 
 function toHttpError(err: unknown): HttpError {
   if (err instanceof HttpError) return err;
+  if (err instanceof DomainError) return new HttpError(DOMAIN[err.kind][0], DOMAIN[err.kind][1], err.message, err.fields);
   if (err instanceof ZodError) return new HttpError(400, 'bad_request', 'Invalid request', issuesToFields(err.issues));
   const e = err as { type?: string; status?: number; statusCode?: number; code?: string; message?: string };
   // Errors of express.json() (body-parser).
@@ -23,7 +33,8 @@ function toHttpError(err: unknown): HttpError {
   if (typeof status === 'number' && status >= 400 && status < 500) {
     return new HttpError(status, 'bad_request', e.message ?? 'Bad request');
   }
-  if (e?.code && DB_DOWN.has(e.code)) return new HttpError(503, 'service_unavailable', 'The database is not reachable');
+  // Also through Drizzle's wrapper (the driver's error is its cause).
+  if (isDbUnreachable(err)) return new HttpError(503, 'service_unavailable', 'The database is not reachable');
   return new HttpError(500, 'internal', 'Something went wrong on our side');
 }
 

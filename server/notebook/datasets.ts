@@ -1,15 +1,22 @@
-/** Datasets: parse an upload with the shared CSV reader, map rows, build previews and data tables. */
-import { and, eq, inArray } from 'drizzle-orm';
+/**
+ * Datasets: parse an upload with the shared CSV reader (on a compute thread), map rows, build
+ * previews and data tables.
+ */
+import { and, eq, getTableColumns, inArray } from 'drizzle-orm';
 import { DATASET_PREVIEW_ROWS, type Dataset, type DatasetColumn, type PreviewValue } from '../../shared/api/notebook';
-import { parseCsv, type CsvResult } from '../../shared/data';
+import { parseCsv, type CsvResult, type ParsedTable } from '../../shared/data';
+import { ComputeBusyError, ComputeTimeoutError, computePool } from '../compute/pool';
+import { columnsOf, describeCsvErrors, previewOf } from './tables';
+import { TableCache, tableCache } from './table-cache';
 import type { DataTables } from '../engine/types';
 import { cells, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
 import { badRequest, notFound } from '../http/errors';
+import { DomainError } from '../lib/errors';
 
 export type DatasetRow = typeof datasets.$inferSelect;
 
-export const toDataset = (d: DatasetRow): Dataset => ({
+export const toDataset = (d: Omit<DatasetRow, 'content'>): Dataset => ({
   id: d.id,
   workspaceId: d.workspaceId,
   name: d.name,
@@ -19,64 +26,87 @@ export const toDataset = (d: DatasetRow): Dataset => ({
   createdAt: d.createdAt.toISOString(),
 });
 
-/** One sentence per error, naming the row and the column where the reader knows them. */
-export function describeCsvErrors(result: CsvResult): string {
-  const errors = result.issues.filter((i) => i.severity === 'error');
-  const parts = errors.slice(0, 3).map((i) => {
-    const where = [i.row !== undefined ? `row ${i.row}` : null, i.column !== undefined ? `column "${i.column}"` : null].filter(Boolean).join(', ');
-    return where && !i.message.toLowerCase().startsWith('row') ? `${where}: ${i.message}` : i.message;
-  });
-  const more = errors.length > 3 ? ` (and ${errors.length - 3} more problem${errors.length - 3 > 1 ? 's' : ''})` : '';
-  return `The file was not stored. ${parts.join(' ')}${more}`;
-}
+export { describeCsvErrors } from './tables';
 
-/** Parse an uploaded CSV; throws a 400 naming rows and columns when it cannot be used. */
 /** Parses CSV bytes (an upload or a stored dataset's content) without copying them. */
 function parseBytes(bytes: Buffer): CsvResult {
   return parseCsv(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength));
 }
 
+/**
+ * Parse an uploaded CSV on the calling thread (seeding and scripts only; requests use
+ * parseUpload); throws a 400 naming rows and columns when it cannot be used.
+ */
 export function readUpload(bytes: Buffer): { result: CsvResult; columns: DatasetColumn[]; rows: number } {
   const result = parseBytes(bytes);
   if (!result.table) throw badRequest(describeCsvErrors(result), { file: result.issues.find((i) => i.severity === 'error')?.message ?? 'Not a usable CSV file' });
-  const columns: DatasetColumn[] = result.columns.map((c) => ({
-    name: c.name,
-    type: c.type,
-    missing: c.missing,
-    ...(c.levels ? { levels: c.levels } : {}),
-  }));
-  return { result, columns, rows: result.table.rows };
+  return { result, columns: columnsOf(result), rows: result.table.rows };
 }
 
-/** The first rows of a stored dataset for the preview table (numbers, labels, null when missing). */
-export function previewRows(d: DatasetRow, limit = DATASET_PREVIEW_ROWS): PreviewValue[][] {
-  const { table } = parseBytes(d.content);
-  if (!table) return [];
-  const names = (d.columns as DatasetColumn[]).map((c) => c.name);
-  const n = Math.min(limit, table.rows);
-  const out: PreviewValue[][] = [];
-  for (let i = 0; i < n; i++) {
-    out.push(
-      names.map((name) => {
-        const col = table.columns[name];
-        if (!col) return null;
-        const v = col.values[i];
-        if (Number.isNaN(v)) return null;
-        return col.type === 'category' ? (col.levels?.[v - 1] ?? null) : v;
-      }),
-    );
-  }
+/** A pool task's failure in words: past its time limit, or the pool full; other errors as they are. */
+export function computeFailure(e: unknown, what: string): unknown {
+  if (e instanceof ComputeTimeoutError) return new DomainError('time_limit', `${what} took longer than its limit of ${e.ms < 1000 ? `${e.ms} ms` : `${Math.round(e.ms / 1000)} s`} and was stopped.`);
+  if (e instanceof ComputeBusyError) return new DomainError('busy', e.message);
+  return e;
+}
+
+/** Parse CSV bytes on a compute thread; throws a 400 naming rows and columns when unusable. */
+export async function parseUpload(bytes: Buffer): Promise<{ table: ParsedTable; columns: DatasetColumn[]; rows: number }> {
+  const copy = new Uint8Array(bytes);
+  const out = await computePool()
+    .run('parseTable', { bytes: copy }, { transfer: [copy.buffer] })
+    .catch((e: unknown) => {
+      throw computeFailure(e, 'Reading the file');
+    });
+  if (!out.ok) throw new DomainError('invalid', out.message, { file: out.field });
   return out;
 }
 
-export async function findDataset(exec: Exec, workspaceId: string, datasetId: string): Promise<DatasetRow> {
-  const [row] = await exec.select().from(datasets).where(and(eq(datasets.workspaceId, workspaceId), eq(datasets.id, datasetId))).limit(1);
+/** A dataset row without its content (the bytes are read only when the table must be parsed). */
+export type DatasetMeta = Omit<DatasetRow, 'content'>;
+const { content: _content, ...metaColumns } = getTableColumns(datasets);
+/** Columns to select for DatasetMeta. */
+export const datasetMetaColumns = metaColumns;
+
+/**
+ * A stored dataset, parsed: from the table cache (by id and version), else parsed once on a
+ * compute thread — reading the content first when the row came without it.
+ */
+export async function parsedTable(exec: Exec, d: DatasetMeta & { content?: Buffer }): Promise<ParsedTable> {
+  return tableCache.getOrLoad(TableCache.key(d), async () => {
+    let content = d.content;
+    if (!content) {
+      const [row] = await exec.select({ content: datasets.content }).from(datasets).where(and(eq(datasets.workspaceId, d.workspaceId), eq(datasets.id, d.id))).limit(1);
+      if (!row) throw new DomainError('not_found', `The table "${d.name}" no longer exists`);
+      content = row.content;
+    }
+    try {
+      return (await parseUpload(content)).table;
+    } catch (e) {
+      if (e instanceof DomainError && e.kind === 'invalid') throw new DomainError('invalid', `The stored table "${d.name}" can no longer be read`);
+      throw e;
+    }
+  });
+}
+
+/** Keep the table parsed at upload, so the first preview or check does not parse it again. */
+export function rememberTable(d: Pick<DatasetRow, 'id' | 'createdAt'>, table: ParsedTable): void {
+  tableCache.set(TableCache.key(d), table);
+}
+
+/** The first rows of a stored dataset for the preview table. */
+export async function datasetPreview(exec: Exec, d: DatasetMeta, limit = DATASET_PREVIEW_ROWS): Promise<PreviewValue[][]> {
+  return previewOf(await parsedTable(exec, d), d.columns as DatasetColumn[], limit);
+}
+
+export async function findDataset(exec: Exec, workspaceId: string, datasetId: string): Promise<DatasetMeta> {
+  const [row] = await exec.select(metaColumns).from(datasets).where(and(eq(datasets.workspaceId, workspaceId), eq(datasets.id, datasetId))).limit(1);
   if (!row) throw notFound('Dataset not found');
   return row;
 }
 
 /** Datasets shown by the data cells of a notebook, by table name (a later cell wins a name clash). */
-export async function notebookTables(exec: Exec, workspaceId: string, notebookId: string): Promise<Map<string, DatasetRow>> {
+export async function notebookTables(exec: Exec, workspaceId: string, notebookId: string): Promise<Map<string, DatasetMeta>> {
   const dataCells = await exec
     .select({ content: cells.content, position: cells.position })
     .from(cells)
@@ -86,9 +116,9 @@ export async function notebookTables(exec: Exec, workspaceId: string, notebookId
     .map((c) => (c.content as { datasetId?: string | null } | null)?.datasetId)
     .filter((x): x is string => typeof x === 'string');
   if (ids.length === 0) return new Map();
-  const rows = await exec.select().from(datasets).where(and(eq(datasets.workspaceId, workspaceId), inArray(datasets.id, ids)));
+  const rows = await exec.select(metaColumns).from(datasets).where(and(eq(datasets.workspaceId, workspaceId), inArray(datasets.id, ids)));
   const byId = new Map(rows.map((r) => [r.id, r]));
-  const out = new Map<string, DatasetRow>();
+  const out = new Map<string, DatasetMeta>();
   for (const id of ids) {
     const r = byId.get(id);
     if (r) out.set(r.name, r);
@@ -96,15 +126,11 @@ export async function notebookTables(exec: Exec, workspaceId: string, notebookId
   return out;
 }
 
-/** Parse stored datasets into the engine's data tables. */
-export function toDataTables(rows: Iterable<DatasetRow>): DataTables {
-  const out: DataTables = {};
-  for (const d of rows) {
-    const { table } = parseBytes(d.content);
-    if (!table) throw badRequest(`The stored table "${d.name}" can no longer be read`);
-    out[d.name] = table;
-  }
-  return out;
+/** Stored datasets as the engine's data tables, each under the name given (cached, see parsedTable). */
+export async function loadDataTables(exec: Exec, rows: Iterable<DatasetMeta & { content?: Buffer }>): Promise<DataTables> {
+  const list = [...rows];
+  const tables = await Promise.all(list.map((d) => parsedTable(exec, d)));
+  return Object.fromEntries(list.map((d, i) => [d.name, tables[i]]));
 }
 
 /** Is this dataset shown by a data cell of this notebook? (share-link visitors see only those) */

@@ -5,6 +5,7 @@
  */
 import { checkProgram, extractConstraints, type CheckResult, type DataSchema, type LinearRows } from '../../shared/lang';
 import type { CompileResponse, RegionSystem } from '../../shared/api/notebook';
+import { MAX_UNKNOWNS } from '../../shared/fit';
 import { checkRegion } from '../engine/geometry';
 import type { DataTables } from '../engine/types';
 
@@ -47,7 +48,21 @@ export function checkModel(source: string, tables: DataTables, region: boolean):
   const messages = check.messages.map((m) => ({ severity: m.severity, message: m.suggestion ? `${m.message} ${m.suggestion}` : m.message, line: m.line, column: m.column }));
   let rows: ModelCheck['rows'] = null;
   let regionStatus: CompileResponse['region'] = { status: 'unchecked', message: check.ok ? 'Not checked.' : 'Fix the problems listed below first.' };
-  if (check.ok) {
+  const tooMany = check.ok && check.dim > MAX_UNKNOWNS;
+  if (tooMany) {
+    // The same limit as a fit's: larger models are refused before their constraints are built.
+    const over = check.unknowns.find((u) => u.offset + u.size > MAX_UNKNOWNS) ?? check.unknowns[check.unknowns.length - 1];
+    const lines = source.split('\n');
+    const at = Math.max(0, lines.findIndex((l) => new RegExp(`^\\s*unknown\\b.*\\b${over?.name ?? ''}\\b`).test(l)));
+    messages.push({
+      severity: 'error',
+      message: `The model has ${check.dim.toLocaleString('en')} unknown coordinates; at most ${MAX_UNKNOWNS} are allowed.`,
+      line: at + 1,
+      column: 1,
+    });
+    regionStatus = { status: 'unchecked', message: `Not checked: more than ${MAX_UNKNOWNS} unknown coordinates.` };
+  }
+  if (check.ok && !tooMany) {
     const missing = check.tables.filter((t) => !(t in tables));
     if (missing.length === 0) {
       const ex = extractConstraints(check, tables);

@@ -23,20 +23,20 @@ function toSystem(A: number[][], b: number[], labels: string[], cols: number): L
  * Returns [] when the region cannot be prepared (the view then says so).
  */
 /**
- * Finished runs never change, so their polygons are kept (by run id) for the next request: the
- * programmes take about 10–25 ms for the sample models, on the server's main thread.
+ * Finished runs never change, so their polygons are kept (by run id) for the next request; the
+ * programmes themselves run on a compute thread (server/compute/tasks.ts, `projections`).
  */
 const CACHE = new Map<string, RegionProjection[]>();
 const CACHE_SIZE = 64;
 
-export function cachedRegionProjections(key: string, region: NonNullable<RunDraws['region']>, ranges: () => [number, number][]): RegionProjection[] {
+export async function cachedRegionProjections(key: string, compute: () => Promise<RegionProjection[]>): Promise<RegionProjection[]> {
   const hit = CACHE.get(key);
   if (hit) {
     CACHE.delete(key);
     CACHE.set(key, hit);
     return hit;
   }
-  const out = regionProjections(region, ranges());
+  const out = await compute();
   CACHE.set(key, out);
   if (CACHE.size > CACHE_SIZE) CACHE.delete(CACHE.keys().next().value!);
   return out;

@@ -1,12 +1,16 @@
-/** The model check for the editor's side panel: POST /api/workspaces/:id/compile (editors). */
+/**
+ * The model check for the editor's side panel: POST /api/workspaces/:id/compile (editors). The
+ * tables are parsed and the model checked on compute threads (server/compute).
+ */
 import { Router } from 'express';
 import { and, desc, eq } from 'drizzle-orm';
 import { routes } from '../../shared/api/routes';
 import type { AppContext } from '../context';
 import { datasets } from '../db/schema';
 import { mount } from '../http/route';
-import { notebookTables, toDataTables, type DatasetRow } from '../notebook/datasets';
-import { checkModel, tablesNamed } from '../notebook/model';
+import { datasetMetaColumns, loadDataTables, notebookTables, type DatasetMeta } from '../notebook/datasets';
+import { checkModelOffThread } from '../notebook/checks';
+import { tablesNamed } from '../notebook/model';
 import { findNotebook } from './notebooks';
 import { findCell } from '../notebook/cells';
 import { notFound } from '../http/errors';
@@ -17,7 +21,7 @@ export function compileRouter(ctx: AppContext): Router {
 
   mount(r, ctx, routes.compileModel, async ({ body }, req) => {
     const ws = req.workspace!;
-    let bound: Map<string, DatasetRow>;
+    let bound: Map<string, DatasetMeta>;
     if (body.notebookId) {
       await findNotebook(db, ws.id, body.notebookId);
       bound = await notebookTables(db, ws.id, body.notebookId);
@@ -26,13 +30,13 @@ export function compileRouter(ctx: AppContext): Router {
       const names = tablesNamed(body.source);
       bound = new Map();
       for (const name of names) {
-        const [row] = await db.select().from(datasets).where(and(eq(datasets.workspaceId, ws.id), eq(datasets.name, name))).orderBy(desc(datasets.createdAt)).limit(1);
+        const [row] = await db.select(datasetMetaColumns).from(datasets).where(and(eq(datasets.workspaceId, ws.id), eq(datasets.name, name))).orderBy(desc(datasets.createdAt)).limit(1);
         if (row) bound.set(name, row);
       }
     }
     const wanted = tablesNamed(body.source);
-    const tables = toDataTables([...bound.values()].filter((d) => wanted.includes(d.name)));
-    return checkModel(body.source, tables, body.region ?? true).response;
+    const tables = await loadDataTables(db, [...bound.values()].filter((d) => wanted.includes(d.name)));
+    return (await checkModelOffThread(body.source, tables, body.region ?? true)).response;
   });
 
   // A share-link reader's side panel: only the notebook's own model cells, as stored.
@@ -42,8 +46,8 @@ export function compileRouter(ctx: AppContext): Router {
     if (cell.kind !== 'model') throw notFound('No model cell here');
     const bound = await notebookTables(db, share.workspaceId, share.notebookId);
     const wanted = tablesNamed(cell.source);
-    const tables = toDataTables([...bound.values()].filter((d) => wanted.includes(d.name)));
-    return checkModel(cell.source, tables, true).response;
+    const tables = await loadDataTables(db, [...bound.values()].filter((d) => wanted.includes(d.name)));
+    return (await checkModelOffThread(cell.source, tables, true)).response;
   });
 
   return r;

@@ -8,7 +8,8 @@ import { mount } from '../http/route';
 import { mountUpload } from '../http/upload';
 import { notFound } from '../http/errors';
 import { newId } from '../lib/ids';
-import { datasetInNotebook, findDataset, previewRows, readUpload, toDataset } from '../notebook/datasets';
+import { datasetInNotebook, datasetPreview, findDataset, parseUpload, rememberTable, toDataset } from '../notebook/datasets';
+import { previewOf } from '../notebook/tables';
 
 export function datasetsRouter(ctx: AppContext): Router {
   const r = Router();
@@ -16,7 +17,7 @@ export function datasetsRouter(ctx: AppContext): Router {
 
   mountUpload(r, ctx, routes.uploadDataset, { field: 'file', maxBytes: DATASET_MAX_BYTES, what: 'CSV file' }, async ({ body, file }, req) => {
     const ws = req.workspace!;
-    const { columns, rows } = readUpload(file.bytes);
+    const { table, columns, rows } = await parseUpload(file.bytes);
     const row = {
       id: newId(),
       workspaceId: ws.id,
@@ -31,12 +32,13 @@ export function datasetsRouter(ctx: AppContext): Router {
       createdAt: clock.now(),
     };
     await db.insert(datasets).values(row);
-    return { dataset: toDataset(row), rows: previewRows(row) };
+    rememberTable(row, table);
+    return { dataset: toDataset(row), rows: previewOf(table, columns) };
   });
 
   mount(r, ctx, routes.getDataset, async ({ params }, req) => {
     const d = await findDataset(db, req.workspace!.id, params.datasetId);
-    return { dataset: toDataset(d), rows: previewRows(d) };
+    return { dataset: toDataset(d), rows: await datasetPreview(db, d) };
   });
 
   mount(r, ctx, routes.sharedDataset, async ({ params }, req) => {
@@ -44,7 +46,7 @@ export function datasetsRouter(ctx: AppContext): Router {
     if (!(await datasetInNotebook(db, share.workspaceId, share.notebookId, params.datasetId))) throw notFound('Dataset not found');
     const d = await findDataset(db, share.workspaceId, params.datasetId);
     const { workspaceId: _internal, ...dataset } = toDataset(d);
-    return { dataset, rows: previewRows(d) };
+    return { dataset, rows: await datasetPreview(db, d) };
   });
 
   return r;

@@ -9,9 +9,10 @@ import { cells, datasets, notebooks } from '../db/schema';
 import { mount } from '../http/route';
 import { mountUpload } from '../http/upload';
 import { badRequest } from '../http/errors';
+import { DomainError } from '../lib/errors';
 import { newId } from '../lib/ids';
 import { orderedCells } from '../notebook/cells';
-import { readUpload } from '../notebook/datasets';
+import { parseUpload } from '../notebook/datasets';
 import { findNotebook } from './notebooks';
 
 export function notebookFileRouter(ctx: AppContext): Router {
@@ -55,13 +56,16 @@ export function notebookFileRouter(ctx: AppContext): Router {
     if (!read.ok) throw badRequest(read.message, { file: read.message });
     const nf = read.file;
     // Parse every dataset before writing anything: a bad table refuses the whole file.
-    const tables = nf.datasets.map((d) => {
-      try {
-        return { d, ...readUpload(Buffer.from(d.csv, 'utf8')) };
-      } catch (e) {
-        throw badRequest(`Dataset "${d.name}" in the file: ${(e as Error).message}`);
-      }
-    });
+    const tables = await Promise.all(
+      nf.datasets.map(async (d) => {
+        try {
+          return { d, ...(await parseUpload(Buffer.from(d.csv, 'utf8'))) };
+        } catch (e) {
+          if (!(e instanceof DomainError && e.kind === 'invalid')) throw e;
+          throw badRequest(`Dataset "${d.name}" in the file: ${(e as Error).message}`);
+        }
+      }),
+    );
     const now = clock.now();
     const notebookId = newId();
     const cellIds = new Map(nf.cells.map((c) => [c.key, newId()]));

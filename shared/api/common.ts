@@ -108,7 +108,8 @@ export const ERROR_CODES = [
   'invalid_token', // reset/invitation token unknown, used or expired
   'email_mismatch', // invitation addressed to another e-mail
   'rate_limited', // too many attempts
-  'service_unavailable', // database down
+  'service_unavailable', // database down, or the server too busy to take more checks
+  'time_limit', // a check (model region, table parse) ran past its time limit and was stopped
   'internal', // unexpected server error
 ] as const;
 export const errorCodeSchema = z.enum(ERROR_CODES);

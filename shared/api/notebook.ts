@@ -290,6 +290,12 @@ export const RUN_LIMITS = {
   maxAttempts: 3,
 } as const;
 
+/**
+ * A worker beats this often while it holds a run; a running run whose last beat is older than
+ * `staleMs` (or whose lease has expired) is shown as "worker lost, resuming".
+ */
+export const RUN_HEARTBEAT = { intervalMs: 5_000, staleMs: 15_000, leaseMs: 30_000 } as const;
+
 export const createRunBody = z.strictObject({
   /** Settings to run with; when omitted the fit cell's saved settings are used. */
   settings: fitSettingsSchema.optional(),
@@ -314,6 +320,21 @@ export const runSchema = z.object({
   /** One entry per chain (absent chains have not reported yet). */
   progress: z.array(fitProgressSchema),
   summary: fitSummarySchema.nullable(),
+  /**
+   * Running runs only: 'lost' when the worker holding the run stopped beating (its lease expired
+   * or its heartbeat is stale); another worker will resume it from its stored chains.
+   * Absent in answers of older servers.
+   */
+  worker: z.enum(['active', 'lost']).nullable().optional(),
+  /** Time of the holding worker's last heartbeat (null when not running). */
+  lastHeartbeatAt: isoDate.nullable().optional(),
+  /** Queued runs only: 1 = the next run a free fit slot takes (fair between workspaces). */
+  queuePosition: z.number().int().min(1).nullable().optional(),
+  /**
+   * Done runs: true when the fit reached the time limit and only some chains finished; the summary
+   * and draws cover those chains.
+   */
+  partial: z.boolean().optional(),
 });
 export type Run = z.infer<typeof runSchema>;
 export const runResponse = z.object({ run: runSchema });

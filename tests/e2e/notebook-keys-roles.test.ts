@@ -5,8 +5,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { memberships } from '../../server/db/schema';
-import { DEMO_NOTEBOOK, DEMO_USER, seedDemo } from '../../server/db/seed';
-import { seedDemoNotebook } from '../../server/db/seed-notebook';
+import { DEMO_NOTEBOOK, DEMO_USER, seedDemo } from '../../server/seed/demo';
+import { seedDemoNotebook } from '../../server/seed/notebook';
 import { startTestServer, type TestServer } from '../helpers/server';
 import { TestClient, signIn, signUp, TEST_PASSWORD } from '../helpers/http';
 import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';

@@ -2,7 +2,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startApiServer, type TestServer } from '../helpers/server';
 import { countRows } from '../helpers/db';
-import { DEMO_NOTEBOOK, DEMO_USER, DEMO_WORKSPACE, seedDemo } from '../../server/db/seed';
+import { DEMO_NOTEBOOK, DEMO_USER, DEMO_WORKSPACE, seedDemo } from '../../server/seed/demo';
 
 let server: TestServer;
 beforeAll(async () => {

@@ -9,8 +9,8 @@ import Papa from 'papaparse';
 import { runChains, runs, runSummaries } from '../../../server/db/schema';
 import { ManualClock } from '../../../server/lib/clock';
 import { newId } from '../../../server/lib/ids';
-import { claimRun, heartbeat, failRun, storeChain, storedChains, writeProgress } from '../../../server/jobs/queue';
-import { RunWorker } from '../../../server/jobs/worker';
+import { claimRun, heartbeat, failRun, storeChain, storedChains, writeProgress } from '../../../server/runs/queue';
+import { RunWorker } from '../../../server/runs/worker';
 import { RUN_LIMITS } from '../../../shared/api/notebook';
 import { notebookWorld, postFile, type NotebookWorld } from './setup';
 

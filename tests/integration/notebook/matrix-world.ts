@@ -6,7 +6,7 @@
 import type { Db } from '../../../server/db/client';
 import { cells, comments, datasets, runs } from '../../../server/db/schema';
 import { newId } from '../../../server/lib/ids';
-import { finishRun } from '../../../server/jobs/queue';
+import { finishRun } from '../../../server/runs/queue';
 import { readUpload } from '../../../server/notebook/datasets';
 import type { FitSummary } from '../../../shared/fit';
 

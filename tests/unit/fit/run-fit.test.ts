@@ -37,6 +37,15 @@ describe('runFit', () => {
     expect(Array.from(c.chains[0].draws)).not.toEqual(Array.from(a.chains[0].draws));
   }, 60_000);
 
+  it('computes the same summary on a worker thread as on the calling thread', async () => {
+    const settings = { chains: 2, warmup: 100, draws: 150, seed: 777, sampler: 'rhmc' as const };
+    const inline = await runFit(trunc, settings, { parallel: true });
+    const off = await runFit(trunc, settings, { parallel: true, summaryOnWorker: true, resume: inline.chains });
+    expect(off.summary.quantities).toEqual(inline.summary.quantities);
+    expect(off.summary.diagnostics).toEqual(inline.summary.diagnostics);
+    expect(off.summary.verdict).toEqual(inline.summary.verdict);
+  }, 60_000);
+
   it('summarises unknowns then derived quantities, matching the order-statistic means', async () => {
     const r = await runFit(pair, { chains: 4, warmup: 100, draws: 500, seed: 7 }, { parallel: false });
     expect(fitSummarySchema.parse(r.summary)).toBeTruthy();

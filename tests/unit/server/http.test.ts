@@ -123,7 +123,7 @@ describe('passwordProblem', () => {
 
 describe('shouldSeedDemo', () => {
   it('never seeds the published demo account in production unless asked', async () => {
-    const { shouldSeedDemo } = await import('../../../server/db/seed');
+    const { shouldSeedDemo } = await import('../../../server/seed/demo');
     expect(shouldSeedDemo({ NODE_ENV: 'production' })).toBe(false);
     expect(shouldSeedDemo({ NODE_ENV: 'production', SEED_DEMO: 'true' })).toBe(true);
     expect(shouldSeedDemo({})).toBe(true);

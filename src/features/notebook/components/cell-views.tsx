@@ -14,7 +14,7 @@ import { DataPreview } from './data-preview';
 import { DataUpload } from './data-upload';
 import { ModelSidePanel } from './model-side-panel';
 import { FitSettingsForm } from './fit-settings-form';
-import { ChainProgress } from './chain-progress';
+import { ChainProgress, runStateMessage } from './chain-progress';
 import { FitResults } from './fit-results';
 import { RunsList } from './runs-list';
 import { CompareCell } from './compare-cell';
@@ -203,7 +203,8 @@ export function FitCellView(p: CellViewProps) {
         <ChainProgress
           progress={active.progress}
           chains={active.settings.chains}
-          queuedMessage={active.status === 'queued' ? 'Waiting for a worker to pick up this fit…' : undefined}
+          queuedMessage={runStateMessage(active)?.text}
+          warning={runStateMessage(active)?.warning ?? false}
         />
       )}
       {latest && latest.status === 'failed' && (!shown || latest.createdAt > shown.createdAt) && (
@@ -212,6 +213,12 @@ export function FitCellView(p: CellViewProps) {
         </p>
       )}
       {latest && latest.status === 'cancelled' && (!shown || latest.createdAt > shown.createdAt) && <p className="sl-cell-sub">The last fit was cancelled.</p>}
+      {shown?.partial && (
+        <p className="sl-banner" role="note">
+          <strong>Partial fit.</strong> It reached the time limit with {shown.summary?.settings.chains ?? 'some'} of {shown.settings.chains} chains
+          finished; the summary, diagnostics and draws cover those chains.
+        </p>
+      )}
       {shown && (
         <FitResults
           run={shown}

@@ -8,7 +8,7 @@ import { DataPreview, sortRows } from '../../../../src/features/notebook/compone
 import { FitSettingsForm, parseFitDraft } from '../../../../src/features/notebook/components/fit-settings-form';
 import { VerdictBanner } from '../../../../src/features/notebook/components/verdict-banner';
 import { QuantityRows } from '../../../../src/features/notebook/components/quantity-rows';
-import { ChainProgress } from '../../../../src/features/notebook/components/chain-progress';
+import { ChainProgress, runStateMessage } from '../../../../src/features/notebook/components/chain-progress';
 import { ConflictDialog } from '../../../../src/features/notebook/components/conflict-dialog';
 import { CommentsPanel, threadComments } from '../../../../src/features/notebook/components/comments-panel';
 import type { Comment, Dataset } from '../../../../shared/api/notebook';
@@ -257,6 +257,19 @@ describe('progress', () => {
     expect(bars.map((b) => b.getAttribute('aria-valuenow'))).toEqual(['13', '75', '0']);
     expect(screen.getByText('warm-up · 250/2000 · 812 it/s')).toBeTruthy();
     expect(screen.getByText('waiting')).toBeTruthy();
+  });
+
+  it('a lost worker is said, not hidden behind frozen bars; a queued fit shows its place', () => {
+    const lost = runStateMessage({ status: 'running', worker: 'lost', queuePosition: null })!;
+    render(<ChainProgress chains={1} progress={[{ chain: 1, phase: 'sampling', iteration: 900, total: 2000, itersPerSecond: 400 }]} queuedMessage={lost.text} warning={lost.warning} />);
+    expect(screen.getByRole('status').textContent).toMatch(/^Worker lost, resuming/);
+    expect(screen.getByTestId('chain-progress').getAttribute('data-stale')).toBe('true');
+    expect(runStateMessage({ status: 'running', worker: 'active', queuePosition: null })).toBeUndefined();
+    expect(runStateMessage({ status: 'queued', worker: null, queuePosition: 1 })!.text).toMatch(/next in the queue/);
+    expect(runStateMessage({ status: 'queued', worker: null, queuePosition: 3 })!.text).toMatch(/3rd in the queue/);
+    expect(runStateMessage({ status: 'queued', worker: null, queuePosition: 12 })!.text).toMatch(/12th in the queue/);
+    // Answers of servers that do not send the new fields.
+    expect(runStateMessage({ status: 'queued' })!.text).toMatch(/Waiting for a worker/);
   });
 });
 

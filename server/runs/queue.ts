@@ -20,7 +20,7 @@ import type { Db } from '../db/client';
 import { runChains, runs, runSummaries } from '../db/schema';
 import { newId } from '../lib/ids';
 import type { ChainResult } from '../engine/types';
-import { decodeDraws, decodeFlags, decodeFloats, encodeDraws, encodeFlags, encodeFloats } from './draws-codec';
+import { decodeDraws, decodeFlags, decodeFloats, encodeChain, type ChainStats, type DrawNames, type EncodedChain } from './draws-codec';
 
 export type RunRow = typeof runs.$inferSelect;
 
@@ -31,33 +31,40 @@ export interface RunSpec {
   tables: Record<string, string>;
 }
 
-/** Stored with every chain: names of the columns of its draws, and per-draw flags. */
-export interface ChainStats {
-  unknownNames: string[];
-  derivedNames: string[];
-  divergent: [number, number][];
-  /** Draws whose transition was rejected (a step could not be completed); absent in older rows = none. */
-  rejected?: [number, number][];
-  stepSize: number | null;
-  meanAcceptStat: number;
-  factorizationsPerStep?: number;
-  /** Per-draw acceptance statistic and energy (encodeFloats), so a resumed fit summarises exactly. */
-  acceptStat?: string;
-  energy?: string;
-}
-
-/** Names of the columns of a run's draws: the unknowns' coordinates, then derived quantities. */
-export interface DrawNames {
-  unknownNames: string[];
-  derivedNames: string[];
-}
+export type { ChainStats, DrawNames, EncodedChain } from './draws-codec';
 
 const fenced = (runId: string, workerId: string) => and(eq(runs.id, runId), eq(runs.leaseOwner, workerId), eq(runs.status, 'running'));
 
+/** Queued, or running with a lease that expired before `now`. */
+const claimableSql = (now: Date) => sql`(r.status = 'queued' OR (r.status = 'running' AND r.lease_expires_at < ${now}))`;
+
 /**
- * Claim the oldest claimable run: queued, or running with an expired lease. A run whose lease
- * expired `maxAttempts` times is marked failed instead. Returns null when nothing is claimable
- * (or every candidate is being claimed by another worker at this moment).
+ * Claimable runs in the order fit slots take them, fair between workspaces: a run's turn is its
+ * rank among its workspace's claimable runs (oldest first) plus the runs the workspace already has
+ * running, so each workspace's first waiting run comes before any workspace's second (round-robin
+ * by workspace), and ties go to the older run.
+ */
+export async function claimOrder(db: Pick<Db, 'execute'>, now: Date, limit: number | null): Promise<{ id: string; workspaceId: string }[]> {
+  const [rows] = (await db.execute(sql`
+    SELECT q.id, q.workspace_id AS workspaceId FROM (
+      SELECT r.id, r.workspace_id, r.created_at,
+        ROW_NUMBER() OVER (PARTITION BY r.workspace_id ORDER BY r.created_at, r.id)
+          + (SELECT COUNT(*) FROM runs x WHERE x.workspace_id = r.workspace_id AND x.status = 'running' AND x.lease_expires_at >= ${now}) AS turn
+      FROM runs r WHERE ${claimableSql(now)}
+    ) q ORDER BY q.turn, q.created_at, q.id ${limit === null ? sql`` : sql`LIMIT ${limit}`}`)) as unknown as [{ id: string; workspaceId: string }[]];
+  return rows;
+}
+
+/** 1-based place of each queued run of a workspace in the claim order (see claimOrder). */
+export async function queuePositions(db: Pick<Db, 'execute'>, now: Date): Promise<Map<string, number>> {
+  const order = await claimOrder(db, now, null);
+  return new Map(order.map((r, i) => [r.id, i + 1]));
+}
+
+/**
+ * Claim the claimable run whose turn comes first (claimOrder): queued, or running with an expired
+ * lease. A run whose lease expired `maxAttempts` times is marked failed instead. Returns null when
+ * nothing is claimable (or every candidate is being claimed by another worker at this moment).
  */
 export async function claimRun(db: Db, workerId: string, now: Date, leaseMs: number): Promise<RunRow | null> {
   const claimable = or(eq(runs.status, 'queued'), and(eq(runs.status, 'running'), lt(runs.leaseExpiresAt, now)));
@@ -65,7 +72,7 @@ export async function claimRun(db: Db, workerId: string, now: Date, leaseMs: num
   // reads them all), so one claim would hide every queued row from the others. Each candidate is
   // then locked by primary key with SKIP LOCKED and checked again under the lock.
   for (;;) {
-    const candidates = await db.select({ id: runs.id }).from(runs).where(claimable).orderBy(asc(runs.createdAt), asc(runs.id)).limit(16);
+    const candidates = await claimOrder(db, now, 16);
     if (candidates.length === 0) return null;
     let retry = false;
     for (const { id } of candidates) {
@@ -84,7 +91,10 @@ export async function claimRun(db: Db, workerId: string, now: Date, leaseMs: num
           await tx.delete(runChains).where(eq(runChains.runId, row.id));
           return 'gave-up' as const;
         }
-        const claimed = { status: 'running' as const, leaseOwner: workerId, leaseExpiresAt: new Date(now.getTime() + leaseMs), attempts: row.attempts + 1, startedAt: row.startedAt ?? now };
+        const claimed = {
+          status: 'running' as const, leaseOwner: workerId, leaseExpiresAt: new Date(now.getTime() + leaseMs), heartbeatAt: now,
+          attempts: row.attempts + 1, startedAt: row.startedAt ?? now,
+        };
         await tx.update(runs).set(claimed).where(eq(runs.id, row.id));
         return { ...row, ...claimed };
       });
@@ -101,7 +111,7 @@ export async function claimRun(db: Db, workerId: string, now: Date, leaseMs: num
 
 /** Extend the lease. false: the lease was lost or the run was cancelled — stop working on it. */
 export async function heartbeat(db: Db, runId: string, workerId: string, now: Date, leaseMs: number): Promise<boolean> {
-  const [res] = await db.update(runs).set({ leaseExpiresAt: new Date(now.getTime() + leaseMs) }).where(fenced(runId, workerId));
+  const [res] = await db.update(runs).set({ leaseExpiresAt: new Date(now.getTime() + leaseMs), heartbeatAt: now }).where(fenced(runId, workerId));
   return res.affectedRows === 1;
 }
 
@@ -110,32 +120,20 @@ export async function writeProgress(db: Db, runId: string, workerId: string, pro
   return res.affectedRows === 1;
 }
 
-function chainRow(run: Pick<RunRow, 'id' | 'workspaceId'>, names: DrawNames, ch: ChainResult, now: Date): typeof runChains.$inferInsert {
-  const enc = encodeDraws(ch.draws, names.unknownNames.length, ch.derivedDraws, names.derivedNames.length);
-  let accept = 0;
-  for (let i = 0; i < ch.acceptStat.length; i++) accept += ch.acceptStat[i];
-  const stats: ChainStats = {
-    unknownNames: names.unknownNames,
-    derivedNames: names.derivedNames,
-    divergent: encodeFlags(ch.divergent),
-    ...(ch.rejected ? { rejected: encodeFlags(ch.rejected) } : {}),
-    stepSize: Number.isFinite(ch.stepSize) ? ch.stepSize : null,
-    meanAcceptStat: ch.acceptStat.length ? accept / ch.acceptStat.length : NaN,
-    ...(ch.factorizationsPerStep !== undefined ? { factorizationsPerStep: ch.factorizationsPerStep } : {}),
-    acceptStat: encodeFloats(ch.acceptStat),
-    ...(ch.energy ? { energy: encodeFloats(ch.energy) } : {}),
-  };
+function chainRow(run: Pick<RunRow, 'id' | 'workspaceId'>, names: DrawNames, ch: ChainResult | EncodedChain, now: Date): typeof runChains.$inferInsert {
+  const enc = 'stats' in ch ? ch : encodeChain(names, ch);
   return {
-    id: newId(), workspaceId: run.workspaceId, runId: run.id, chainIndex: ch.chain, drawCount: enc.drawCount,
-    dimension: enc.dimension, draws: enc.buffer, stats, createdAt: now,
+    id: newId(), workspaceId: run.workspaceId, runId: run.id, chainIndex: enc.chain, drawCount: enc.drawCount,
+    dimension: enc.dimension, draws: enc.draws, stats: enc.stats, createdAt: now,
   };
 }
 
 /**
- * Store one finished chain while the run goes on. Fenced like every write: false (and nothing
- * written) when this worker no longer holds the run.
+ * Store one finished chain while the run goes on (as the engine returned it, or already encoded
+ * off the main thread). Fenced like every write: false (and nothing written) when this worker no
+ * longer holds the run.
  */
-export async function storeChain(db: Db, run: Pick<RunRow, 'id' | 'workspaceId'>, workerId: string, names: DrawNames, chain: ChainResult, now: Date): Promise<boolean> {
+export async function storeChain(db: Db, run: Pick<RunRow, 'id' | 'workspaceId'>, workerId: string, names: DrawNames, chain: ChainResult | EncodedChain, now: Date): Promise<boolean> {
   return db.transaction(async (tx) => {
     const [mine] = await tx.select({ id: runs.id }).from(runs).where(fenced(run.id, workerId)).for('update');
     if (!mine) return false;
@@ -196,6 +194,7 @@ export async function finishRun(
   result: DrawNames & { chains: ChainResult[]; summary: FitSummary },
   now: Date,
   timings: Record<string, number>,
+  opts: { partial?: boolean } = {},
 ): Promise<boolean> {
   return db.transaction(async (tx) => {
     const [mine] = await tx.select({ id: runs.id }).from(runs).where(fenced(run.id, workerId)).for('update');
@@ -210,7 +209,7 @@ export async function finishRun(
     await tx.insert(runSummaries).values({ runId: run.id, workspaceId: run.workspaceId, summary: result.summary, createdAt: now });
     const s = result.summary.settings;
     const progress: FitProgress[] = result.chains.map((c) => ({ chain: c.chain + 1, phase: 'done', iteration: s.warmup + s.draws, total: s.warmup + s.draws, itersPerSecond: 0 }));
-    await tx.update(runs).set({ status: 'done', finishedAt: now, leaseOwner: null, leaseExpiresAt: null, progress, timings, error: null }).where(eq(runs.id, run.id));
+    await tx.update(runs).set({ status: 'done', finishedAt: now, leaseOwner: null, leaseExpiresAt: null, heartbeatAt: null, progress, timings, error: null, partial: opts.partial ?? false }).where(eq(runs.id, run.id));
     return true;
   });
 }
@@ -220,7 +219,7 @@ export async function failRun(db: Db, runId: string, workerId: string, message: 
   return db.transaction(async (tx) => {
     const [res] = await tx
       .update(runs)
-      .set({ status: 'failed', error: message.slice(0, 4000), finishedAt: now, leaseOwner: null, leaseExpiresAt: null })
+      .set({ status: 'failed', error: message.slice(0, 4000), finishedAt: now, leaseOwner: null, leaseExpiresAt: null, heartbeatAt: null })
       .where(fenced(runId, workerId));
     if (res.affectedRows !== 1) return false;
     await tx.delete(runChains).where(eq(runChains.runId, runId));

@@ -1,3 +1,5 @@
+import type { ChainResult } from '../engine/types';
+
 /**
  * Compact binary storage of one chain's draws: little-endian Float64, draw-major
  * (drawCount × dimension), the unknowns' coordinates first and then the derived quantities.
@@ -57,4 +59,53 @@ export function decodeFloats(text: string): Float64Array {
   const out = new Float64Array(buf.length / 8);
   for (let i = 0; i < out.length; i++) out[i] = buf.readDoubleLE(i * 8);
   return out;
+}
+
+/** Stored with every chain: names of the columns of its draws, and per-draw flags. */
+export interface ChainStats {
+  unknownNames: string[];
+  derivedNames: string[];
+  divergent: [number, number][];
+  /** Draws whose transition was rejected (a step could not be completed); absent in older rows = none. */
+  rejected?: [number, number][];
+  stepSize: number | null;
+  meanAcceptStat: number;
+  factorizationsPerStep?: number;
+  /** Per-draw acceptance statistic and energy (encodeFloats), so a resumed fit summarises exactly. */
+  acceptStat?: string;
+  energy?: string;
+}
+
+/** Names of the columns of a run's draws: the unknowns' coordinates, then derived quantities. */
+export interface DrawNames {
+  unknownNames: string[];
+  derivedNames: string[];
+}
+
+/** A chain as stored: its draws encoded and its statistics. */
+export interface EncodedChain {
+  chain: number;
+  drawCount: number;
+  dimension: number;
+  draws: Buffer;
+  stats: ChainStats;
+}
+
+/** Encode one finished chain for storage (pure; the run worker calls it on the compute pool). */
+export function encodeChain(names: DrawNames, ch: ChainResult): EncodedChain {
+  const enc = encodeDraws(ch.draws, names.unknownNames.length, ch.derivedDraws, names.derivedNames.length);
+  let accept = 0;
+  for (let i = 0; i < ch.acceptStat.length; i++) accept += ch.acceptStat[i];
+  const stats: ChainStats = {
+    unknownNames: names.unknownNames,
+    derivedNames: names.derivedNames,
+    divergent: encodeFlags(ch.divergent),
+    ...(ch.rejected ? { rejected: encodeFlags(ch.rejected) } : {}),
+    stepSize: Number.isFinite(ch.stepSize) ? ch.stepSize : null,
+    meanAcceptStat: ch.acceptStat.length ? accept / ch.acceptStat.length : NaN,
+    ...(ch.factorizationsPerStep !== undefined ? { factorizationsPerStep: ch.factorizationsPerStep } : {}),
+    acceptStat: encodeFloats(ch.acceptStat),
+    ...(ch.energy ? { energy: encodeFloats(ch.energy) } : {}),
+  };
+  return { chain: ch.chain, drawCount: enc.drawCount, dimension: enc.dimension, draws: enc.buffer, stats };
 }

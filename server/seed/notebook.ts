@@ -7,12 +7,12 @@
  */
 import { createHash } from 'node:crypto';
 import { and, eq } from 'drizzle-orm';
-import type { Db } from './client';
-import { cells, datasets, runs } from './schema';
+import type { Db } from '../db/client';
+import { cells, datasets, runs } from '../db/schema';
 import { newId } from '../lib/ids';
 import { readUpload } from '../notebook/datasets';
 import { runFit } from '../engine/fit';
-import { finishRun, type RunSpec } from '../jobs/queue';
+import { finishRun, type RunSpec } from '../runs/queue';
 import { parseCsv } from '../../shared/data';
 import type { FitSettings } from '../../shared/fit';
 

@@ -3,8 +3,8 @@
  * and a notebook with one notes cell. Running it again changes nothing.
  */
 import { and, eq } from 'drizzle-orm';
-import type { Db } from './client';
-import { cells, memberships, notebooks, users, workspaces } from './schema';
+import type { Db } from '../db/client';
+import { cells, memberships, notebooks, users, workspaces } from '../db/schema';
 import { hashPassword } from '../auth/password';
 import { newId } from '../lib/ids';
 

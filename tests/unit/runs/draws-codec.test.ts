@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { decodeDraws, decodeFlags, decodeFloats, encodeDraws, encodeFlags, encodeFloats } from '../../../server/jobs/draws-codec';
+import { decodeDraws, decodeFlags, decodeFloats, encodeDraws, encodeFlags, encodeFloats } from '../../../server/runs/draws-codec';
 
 describe('draws codec', () => {
   it('round-trips unknowns and derived draws exactly, draw-major', () => {
