@@ -126,7 +126,7 @@ describe('4. share links follow their creator\'s rights', () => {
     const editor = server.client();
     const ed = await signUp(editor, { name: 'Editor' });
     await owner.post(`/api/workspaces/${ws}/invitations`, { email: ed.email, role: 'editor' });
-    const token = new URL(server.mail.linkIn(await server.mail.waitFor(ed.email), '/invite/')).pathname.split('/').pop()!;
+    const token = new URL(server.mail.linkIn(await server.mail.waitFor(ed.email, { subject: /invited/ }), '/invite/')).pathname.split('/').pop()!;
     expect((await editor.post('/api/invitations/accept', { token })).status).toBe(200);
     const created = await editor.post(`/api/workspaces/${ws}/notebooks/${nb.id}/share-links`, {});
     expect(created.status).toBe(201);
