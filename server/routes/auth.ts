@@ -1,7 +1,7 @@
 /** Accounts: sign up (confirmed by e-mail), sign in, sign out, me, password reset by e-mail. */
 import { Router, type RequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import { and, count, eq, gt, isNull } from 'drizzle-orm';
+import { and, count, eq, gt, isNull, lt } from 'drizzle-orm';
 import { routes, clientPaths } from '../../shared/api/routes';
 import { SIGN_UP_ANSWER, type User } from '../../shared/api/auth';
 import type { AppContext } from '../context';
@@ -81,6 +81,8 @@ export function authRouter(ctx: AppContext): Router {
       }
       const passwordHash = await hashPassword(body.password);
       const now = clock.now();
+      // Expired requests (and the password hashes in them) are of no further use.
+      await db.delete(pendingSignUps).where(lt(pendingSignUps.expiresAt, now));
       // Per-address budget, counted from the stored requests: a flood of sign-ups for one address
       // does not become a flood of mail to it.
       const [recent] = await db
@@ -118,15 +120,13 @@ export function authRouter(ctx: AppContext): Router {
         .set({ usedAt: now })
         .where(and(eq(pendingSignUps.id, pending.id), isNull(pendingSignUps.usedAt)));
       if (affectedRows(used) !== 1) return { kind: 'invalid' as const };
-      // Every other outstanding link for this address stops working: one account per address.
-      await tx
-        .update(pendingSignUps)
-        .set({ usedAt: now })
-        .where(and(eq(pendingSignUps.email, pending.email), isNull(pendingSignUps.usedAt)));
       const [existing] = await tx.select({ id: users.id }).from(users).where(eq(users.email, pending.email)).limit(1);
       if (existing) return { kind: 'taken' as const };
       const user = { id: newId(), email: pending.email, name: pending.name, createdAt: now };
       await tx.insert(users).values({ ...user, passwordHash: pending.passwordHash });
+      // Every other outstanding link for this address stops working (one account per address),
+      // and no copy of the password hash stays behind.
+      await tx.delete(pendingSignUps).where(eq(pendingSignUps.email, pending.email));
       return { kind: 'created' as const, user };
     }).catch((err: unknown) => {
       // Two links for the same address used at the same moment: the second finds the account made.
