@@ -90,6 +90,27 @@ export const passwordResets = mysqlTable(
   (t) => [uniqueIndex('password_resets_token_uq').on(t.tokenHash), index('password_resets_user_idx').on(t.userId)],
 );
 
+/**
+ * A sign-up waiting for its address to be confirmed: the account is created only when the link in
+ * the confirmation mail is used, so sign-up itself never reveals whether an address is registered.
+ */
+export const pendingSignUps = mysqlTable(
+  'pending_sign_ups',
+  {
+    id: id().primaryKey(),
+    email: varchar('email', { length: 254 }).notNull(),
+    name: varchar('name', { length: 120 }).notNull(),
+    /** argon2id hash of the password chosen at sign-up. */
+    passwordHash: varchar('password_hash', { length: 255 }).notNull(),
+    /** SHA-256 hex of the token sent by e-mail; the token itself is never stored. */
+    tokenHash: char('token_hash', { length: 64 }).notNull(),
+    expiresAt: ts('expires_at').notNull(),
+    usedAt: ts('used_at'),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex('pending_sign_ups_token_uq').on(t.tokenHash), index('pending_sign_ups_email_idx').on(t.email)],
+);
+
 // ---------------------------------------------------------------- workspaces
 export const workspaces = mysqlTable('workspaces', {
   id: id().primaryKey(),

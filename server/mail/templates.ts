@@ -59,3 +59,20 @@ export function signUpAttemptMail(p: { to: string; name: string; signInLink: str
       `<p>If it was not you, nothing changed: no second account was made and your password stays as it is.</p>`,
   };
 }
+
+/** Sent to a new address: the account exists only once this link is used. */
+export function signUpConfirmationMail(p: { to: string; name: string; link: string; expiresAt: Date }): OutgoingMail {
+  const until = p.expiresAt.toISOString().slice(0, 16).replace('T', ' ') + ' UTC';
+  return {
+    to: p.to,
+    subject: 'Confirm your address to finish creating your Slackline account',
+    text:
+      `Hello ${p.name},\n\nsomeone (hopefully you) asked to create a Slackline account with this e-mail address.\n` +
+      `Open this link to confirm the address and create the account; it works once, until ${until}:\n${p.link}\n\n` +
+      `If you did not ask for this, ignore this message: no account is created without the link.\n`,
+    html:
+      `<p>Hello ${esc(p.name)},</p><p>someone (hopefully you) asked to create a Slackline account with this e-mail address.</p>` +
+      `<p><a href="${esc(p.link)}">Confirm the address and create the account</a>; the link works once, until ${esc(until)}.</p>` +
+      `<p>If you did not ask for this, ignore this message: no account is created without the link.</p>`,
+  };
+}

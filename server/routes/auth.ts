@@ -1,22 +1,24 @@
-/** Accounts: sign up, sign in, sign out, me, password reset by e-mail. */
+/** Accounts: sign up (confirmed by e-mail), sign in, sign out, me, password reset by e-mail. */
 import { Router, type RequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import { and, count, eq, gt, isNull } from 'drizzle-orm';
+import { and, count, eq, gt, isNull, lt } from 'drizzle-orm';
 import { routes, clientPaths } from '../../shared/api/routes';
-import type { User } from '../../shared/api/auth';
+import { SIGN_UP_ANSWER, type User } from '../../shared/api/auth';
 import type { AppContext } from '../context';
-import { passwordResets, users } from '../db/schema';
+import { passwordResets, pendingSignUps, users } from '../db/schema';
 import { mount } from '../http/route';
-import { HttpError, conflict, unauthenticated } from '../http/errors';
+import { HttpError, unauthenticated } from '../http/errors';
 import { hashPassword, verifyDummy, verifyPassword } from '../auth/password';
 import { clearSessionCookie, setSessionCookie } from '../auth/session';
 import { hashToken, newId, newToken } from '../lib/ids';
 import { affectedRows, isDuplicateKey } from '../lib/audit';
-import { passwordResetMail, signUpAttemptMail } from '../mail/templates';
+import { passwordResetMail, signUpAttemptMail, signUpConfirmationMail } from '../mail/templates';
 import { FailureBudget } from '../auth/limits';
 import { afterResponse } from '../http/after-response';
 
 export const RESET_TOKEN_TTL_MS = 60 * 60_000;
+/** How long a sign-up confirmation link works. */
+export const SIGN_UP_TOKEN_TTL_MS = 24 * 60 * 60_000;
 
 export const toUser = (u: { id: string; email: string; name: string; createdAt: Date }): User => ({
   id: u.id,
@@ -54,38 +56,95 @@ export function authRouter(ctx: AppContext): Router {
   // One budget per route and client address.
   r.use(routes.signIn.path, limiter(ctx, { failuresOnly: true }));
   r.use(routes.signUp.path, limiter(ctx, { failuresOnly: false }));
+  r.use(routes.confirmSignUp.path, limiter(ctx, { failuresOnly: true }));
   r.use(routes.requestPasswordReset.path, limiter(ctx, { failuresOnly: false }));
   r.use(routes.confirmPasswordReset.path, limiter(ctx, { failuresOnly: true }));
 
-  mount(r, ctx, routes.signUp, async ({ body }, req, res) => {
-    const alreadyTaken = () => {
-      // Tell the owner of the address, after answering (the answer does not wait for the mail).
-      if (signUpNotices.exhausted(body.email)) return conflict('An account with this e-mail already exists', { email: 'Already registered' });
-      signUpNotices.fail(body.email);
-      afterResponse(res, async () => {
-        const [owner] = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.email, body.email)).limit(1);
-        if (!owner) return;
+  // Every valid sign-up gets the same answer before anything is looked up: whether the address
+  // has an account shows neither in the answer nor in its timing. The work happens afterwards:
+  // a registered address gets a notice to its owner, a new one a confirmation link; the account
+  // is created only when that link is used (confirmSignUp), so nobody holds an address they
+  // cannot read mail at.
+  mount(r, ctx, routes.signUp, async ({ body }, _req, res) => {
+    afterResponse(res, async () => {
+      // Hashed for registered addresses too, so the server's load after a sign-up does not differ.
+      const passwordHash = await hashPassword(body.password);
+      const [owner] = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.email, body.email)).limit(1);
+      if (owner) {
+        // One notice per address and window, so repeated attempts do not flood its owner.
+        if (signUpNotices.exhausted(body.email)) return;
+        signUpNotices.fail(body.email);
         await ctx.mailer.send(signUpAttemptMail({
           to: owner.email, name: owner.name,
           signInLink: ctx.config.publicUrl + '/sign-in',
           resetLink: ctx.config.publicUrl + '/forgot-password',
         }));
-      }, ctx, 'sign-up notice');
-      return conflict('An account with this e-mail already exists', { email: 'Already registered' });
-    };
-    const [existing] = await db.select({ id: users.id }).from(users).where(eq(users.email, body.email)).limit(1);
-    if (existing) throw alreadyTaken();
-    const user = { id: newId(), email: body.email, name: body.name, createdAt: clock.now() };
-    try {
-      await db.insert(users).values({ ...user, passwordHash: await hashPassword(body.password) });
-    } catch (err) {
-      if (isDuplicateKey(err)) throw alreadyTaken();
+        return;
+      }
+      const now = clock.now();
+      // Expired requests (and the password hashes in them) are of no further use.
+      await db.delete(pendingSignUps).where(lt(pendingSignUps.expiresAt, now));
+      // Per-address budget, counted from the stored requests: a flood of sign-ups for one address
+      // does not become a flood of mail to it.
+      const [recent] = await db
+        .select({ n: count() })
+        .from(pendingSignUps)
+        .where(and(eq(pendingSignUps.email, body.email), gt(pendingSignUps.createdAt, new Date(now.getTime() - limits.windowMs))));
+      if ((recent?.n ?? 0) >= limits.resetRequests) return;
+      const token = newToken();
+      const expiresAt = new Date(now.getTime() + SIGN_UP_TOKEN_TTL_MS);
+      await db.insert(pendingSignUps).values({
+        id: newId(), email: body.email, name: body.name, passwordHash,
+        tokenHash: hashToken(token), expiresAt, createdAt: now,
+      });
+      await ctx.mailer.send(signUpConfirmationMail({
+        to: body.email, name: body.name, expiresAt,
+        link: ctx.config.publicUrl + clientPaths.confirmSignUp(token, body.next),
+      }));
+    }, ctx, 'sign-up mail');
+    return { ok: true as const, message: SIGN_UP_ANSWER };
+  });
+
+  mount(r, ctx, routes.confirmSignUp, async ({ body }, req, res) => {
+    const now = clock.now();
+    const tokenHash = hashToken(body.token);
+    const outcome = await db.transaction(async (tx) => {
+      const [pending] = await tx
+        .select()
+        .from(pendingSignUps)
+        .where(and(eq(pendingSignUps.tokenHash, tokenHash), isNull(pendingSignUps.usedAt), gt(pendingSignUps.expiresAt, now)))
+        .limit(1)
+        .for('update');
+      if (!pending) return { kind: 'invalid' as const };
+      const used = await tx
+        .update(pendingSignUps)
+        .set({ usedAt: now })
+        .where(and(eq(pendingSignUps.id, pending.id), isNull(pendingSignUps.usedAt)));
+      if (affectedRows(used) !== 1) return { kind: 'invalid' as const };
+      const [existing] = await tx.select({ id: users.id }).from(users).where(eq(users.email, pending.email)).limit(1);
+      if (existing) return { kind: 'taken' as const };
+      const user = { id: newId(), email: pending.email, name: pending.name, createdAt: now };
+      await tx.insert(users).values({ ...user, passwordHash: pending.passwordHash });
+      // Every other outstanding link for this address stops working (one account per address),
+      // and no copy of the password hash stays behind.
+      await tx.delete(pendingSignUps).where(eq(pendingSignUps.email, pending.email));
+      return { kind: 'created' as const, user };
+    }).catch((err: unknown) => {
+      // Two links for the same address used at the same moment: the second finds the account made.
+      if (isDuplicateKey(err)) return { kind: 'taken' as const };
       throw err;
+    });
+    if (outcome.kind === 'invalid') {
+      throw new HttpError(400, 'invalid_token', 'This confirmation link is unknown, already used or expired; sign up again to get a new one', { token: 'Invalid or expired' });
+    }
+    if (outcome.kind === 'taken') {
+      // Only whoever reads this address's mail gets here, so naming the account reveals nothing.
+      throw new HttpError(409, 'conflict', 'This address already has an account; sign in, or reset the password by e-mail', { token: 'Already used' });
     }
     if (req.sessionId) await lucia.invalidateSession(req.sessionId);
-    const session = await lucia.createSession(user.id, {});
+    const session = await lucia.createSession(outcome.user.id, {});
     setSessionCookie(req, res, session.id, session.expiresAt);
-    return { user: toUser(user) };
+    return { user: toUser(outcome.user) };
   });
 
   mount(r, ctx, routes.signIn, async ({ body }, req, res) => {

@@ -46,9 +46,14 @@ export const routes = {
 
   // ---- auth ----
   signUp: {
-    method: 'POST', path: '/api/auth/sign-up', access: 'public', status: 201,
-    purpose: 'Create an account and sign in (sets the session cookie)',
-    body: auth.signUpBody, response: auth.userResponse,
+    method: 'POST', path: '/api/auth/sign-up', access: 'public', status: 202,
+    purpose: 'Ask for an account: mails a confirmation link (or, for a registered address, a notice to its owner); always the same 202, no session',
+    body: auth.signUpBody, response: auth.signUpResponse,
+  },
+  confirmSignUp: {
+    method: 'POST', path: '/api/auth/confirm-sign-up', access: 'public', status: 200,
+    purpose: 'Create the account with the token from the confirmation e-mail and sign in (sets the session cookie)',
+    body: auth.confirmSignUpBody, response: auth.userResponse,
   },
   signIn: {
     method: 'POST', path: '/api/auth/sign-in', access: 'public', status: 200,
@@ -238,4 +243,6 @@ export const clientPaths = {
   share: (token: string) => `/s/${encodeURIComponent(token)}`,
   acceptInvitation: (token: string) => `/invite/${encodeURIComponent(token)}`,
   resetPassword: (token: string) => `/reset-password?token=${encodeURIComponent(token)}`,
+  confirmSignUp: (token: string, next?: string) =>
+    `/confirm-sign-up?token=${encodeURIComponent(token)}${next ? `&next=${encodeURIComponent(next)}` : ''}`,
 } as const;

@@ -43,6 +43,7 @@ export function createRoutes(qc: QueryClient): RouteObject[] {
       children: [
         { path: '/sign-in', loader: guestOnly(qc), lazy: lazy(() => import('@/routes/sign-in')) },
         { path: '/sign-up', loader: guestOnly(qc), lazy: lazy(() => import('@/routes/sign-up')) },
+        { path: '/confirm-sign-up', lazy: lazy(() => import('@/routes/confirm-sign-up')) },
         { path: '/forgot-password', lazy: lazy(() => import('@/routes/forgot-password')) },
         { path: '/reset-password', lazy: lazy(() => import('@/routes/reset-password')) },
         { path: '/reset-password/:token', lazy: lazy(() => import('@/routes/reset-password')) },

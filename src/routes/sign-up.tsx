@@ -1,12 +1,12 @@
-import { Link, useNavigate, useSearchParams } from 'react-router-dom';
+import { Link, useSearchParams } from 'react-router-dom';
 import { AuthLayout } from '@/components/layout/auth-layout';
 import { SignUpForm } from '@/features/auth/components/sign-up-form';
 import { safeNext, withNext } from '@/lib/safe-next';
 
 export default function SignUpRoute() {
   const [params] = useSearchParams();
-  const navigate = useNavigate();
-  const next = params.get('next');
+  // Only a path on this site travels on into the confirmation link.
+  const next = safeNext(params.get('next'), '') || null;
   return (
     <AuthLayout
       title="Create your account"
@@ -20,7 +20,7 @@ export default function SignUpRoute() {
         </>
       }
     >
-      <SignUpForm onSuccess={() => navigate(safeNext(next), { replace: true })} />
+      <SignUpForm next={next} />
     </AuthLayout>
   );
 }

@@ -1,12 +1,13 @@
 /**
  * The main collaboration flow in a real browser: an owner signs up, creates a workspace and
- * invites a colleague by e-mail; the colleague signs up from the link in the captured mail,
- * accepts, and sees the workspace with the role the owner chose.
+ * invites a colleague by e-mail; the colleague signs up from the link in the captured mail
+ * (confirming the address from a second mail, which brings them back to the invitation), accepts, and sees the workspace with the role the owner chose.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { startTestServer, type TestServer } from '../helpers/server';
 import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';
+import { confirmSignUpInPage } from './sign-up';
 
 let server: TestServer;
 let browser: Browser;
@@ -29,6 +30,8 @@ async function signUp(name: string, email: string, password: string) {
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Create account' }).click();
+  // the account exists once the address is confirmed from the mailed link
+  await confirmSignUpInPage(page, server, email);
 }
 
 describe('invitation flow', () => {
@@ -82,7 +85,7 @@ describe('invitation flow', () => {
     await page.waitForURL(/\/sign-in$/);
 
     // ---- the invitation arrives ----
-    const mail = await server.mail.waitFor('bo@orchard.test');
+    const mail = await server.mail.waitFor('bo@orchard.test', { subject: /invited/ });
     expect(mail.text).toContain('Orchard irrigation trial');
     const link = server.mail.linkIn(mail, '/invite/');
 

@@ -138,7 +138,7 @@ async function flow() {
     expect(rows.slice(1).every((r) => Number(r[2]) >= 4 && Number(r[2]) <= 6)).toBe(true);
 
     // ---- a reviewer comments ----
-    const reviewer = new TestClient(server.url);
+    const reviewer = server.client();
     const rv = await signUp(reviewer, { name: 'Mara Reviewer' });
     await server.db.db.insert(memberships).values({ workspaceId, userId: rv.id, role: 'reviewer', createdAt: server.clock.now() });
     await page.context().clearCookies();

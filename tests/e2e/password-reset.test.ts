@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { startTestServer, type TestServer } from '../helpers/server';
 import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';
+import { confirmSignUpInPage } from './sign-up';
 
 let server: TestServer;
 let browser: Browser;
@@ -36,6 +37,7 @@ describe('password reset', () => {
     await page.getByLabel('E-mail').fill('mina@sediment.test');
     await page.getByLabel('Password').fill('silt and clay fractions');
     await page.getByRole('button', { name: 'Create account' }).click();
+    await confirmSignUpInPage(page, server, 'mina@sediment.test');
     await page.getByRole('heading', { name: 'Good to see you, Mina' }).waitFor();
     await page.screenshot({ path: await screenshotPath('workspaces-empty.png') });
     await page.getByRole('button', { name: 'Sign out' }).click();
@@ -48,7 +50,7 @@ describe('password reset', () => {
     await page.getByRole('button', { name: 'Send reset link' }).click();
     await page.getByText('Check your inbox').waitFor();
 
-    const mail = await server.mail.waitFor('mina@sediment.test');
+    const mail = await server.mail.waitFor('mina@sediment.test', { subject: /reset/i });
     const link = server.mail.linkIn(mail, '/reset-password');
 
     // Signed out and without this start's key the captured mail (and its reset link) stays closed.

@@ -8,6 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { startTestServer, type TestServer } from '../helpers/server';
 import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';
+import { confirmSignUpInPage } from './sign-up';
 
 let server: TestServer;
 let browser: Browser;
@@ -33,6 +34,7 @@ describe('share links', () => {
     await page.getByLabel('E-mail').fill('rui@roastery.test');
     await page.getByLabel('Password').fill('arabica robusta liberica');
     await page.getByRole('button', { name: 'Create account' }).click();
+    await confirmSignUpInPage(page, server, 'rui@roastery.test');
     await page.getByLabel('New workspace name').fill('Coffee blend study');
     await page.getByRole('button', { name: 'Create workspace' }).click();
     await page.getByRole('heading', { name: 'Coffee blend study' }).waitFor();

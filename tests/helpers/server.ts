@@ -22,7 +22,8 @@
  *     mail: Mailbox                     // captured mail, see below
  *     config: AppConfig                 // config.devMailKey opens /dev/mail?key=… as `npm start` prints it
  *     http: Server                      // the listening node:http server
- *     client(): TestClient              // a new cookie-jar HTTP client pointed at url
+ *     client(): TestClient              // a new cookie-jar HTTP client pointed at url, reading this
+ *                                       // server's mail (so signUp can follow the confirmation link)
  *     close(): Promise<void>            // stop server + SMTP, drop the database
  *   }
  *
@@ -140,16 +141,19 @@ export async function startTestServer(options: TestServerOptions = {}): Promise<
   });
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   if (!options.config?.publicUrl) config.publicUrl = url;
+  const mb = mailbox(tdb);
 
   return {
     url,
     app,
     clock,
     db: tdb,
-    mail: mailbox(tdb),
+    mail: mb,
     config,
     http: server,
-    client: () => new TestClient(url),
+    client: () => new TestClient(url, url, {
+      mailTo: async (email) => (await mb.all()).filter((m) => m.to.includes(email.toLowerCase())),
+    }),
     async close() {
       await new Promise<void>((r) => {
         server.close(() => r());

@@ -1,11 +1,27 @@
-/** Accounts: sign up, sign in, sign out, me, cookies, origin check, rate limit, password reset. */
+/** Accounts: sign up (confirmed by mail), sign in, sign out, me, cookies, origin check, rate limit, password reset. */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { startApiServer, type TestServer } from '../helpers/server';
-import { TEST_PASSWORD, TestClient, signUp, uniqueEmail } from '../helpers/http';
+import { CONFIRM_SUBJECT, TEST_PASSWORD, TestClient, confirmationToken, signUp, uniqueEmail } from '../helpers/http';
 import { countRows } from '../helpers/db';
-import { passwordResets, users } from '../../server/db/schema';
-import { RESET_TOKEN_TTL_MS } from '../../server/routes/auth';
+import { passwordResets, pendingSignUps, users } from '../../server/db/schema';
+import { RESET_TOKEN_TTL_MS, SIGN_UP_TOKEN_TTL_MS } from '../../server/routes/auth';
+
+/** Ask for an account and return the token of the confirmation mail it brings. */
+async function requestSignUp(c: TestClient, body: { email: string; password?: string; name?: string; next?: string }): Promise<string> {
+  const to = body.email.trim().toLowerCase();
+  const before = (await server.mail.all()).filter((m) => m.to.includes(to) && CONFIRM_SUBJECT.test(m.subject)).length;
+  const res = await c.post('/api/auth/sign-up', { password: TEST_PASSWORD, name: 'Someone', ...body });
+  expect(res.status).toBe(202);
+  let mails = [] as Awaited<ReturnType<TestServer['mail']['all']>>;
+  await expect
+    .poll(async () => {
+      mails = (await server.mail.all()).filter((m) => m.to.includes(to) && CONFIRM_SUBJECT.test(m.subject));
+      return mails.length;
+    }, { timeout: 10_000 })
+    .toBeGreaterThan(before);
+  return confirmationToken(mails[0].text);
+}
 
 let server: TestServer;
 beforeAll(async () => {
@@ -14,11 +30,19 @@ beforeAll(async () => {
 afterAll(() => server.close());
 
 describe('sign up, sign in, sign out', () => {
-  it('signs up, is signed in, signs out, signs in again', async () => {
+  it('signs up through the mailed link, is signed in, signs out, signs in again', async () => {
     const c = server.client();
     const email = uniqueEmail('Ada');
-    const up = await c.post('/api/auth/sign-up', { email: `  ${email.toUpperCase()} `, password: TEST_PASSWORD, name: 'Ada Ortiz' });
-    expect(up.status).toBe(201);
+    const token = await requestSignUp(c, { email: `  ${email.toUpperCase()} `, name: 'Ada Ortiz' });
+    // Asking for an account signs nobody in and creates no account yet.
+    expect(c.hasSession).toBe(false);
+    expect(await server.db.db.select().from(users).where(eq(users.email, email.toLowerCase()))).toHaveLength(0);
+    // Only a hash of the token is stored, and the password only as an argon2id hash.
+    const [pending] = await server.db.db.select().from(pendingSignUps).where(eq(pendingSignUps.email, email.toLowerCase()));
+    expect(pending.tokenHash).not.toBe(token);
+    expect(pending.passwordHash.startsWith('$argon2id$')).toBe(true);
+    const up = await c.post('/api/auth/confirm-sign-up', { token });
+    expect(up.status).toBe(200);
     // E-mail addresses are trimmed and compared case-insensitively.
     expect(up.body.user).toMatchObject({ email: email.toLowerCase(), name: 'Ada Ortiz' });
     expect(up.body.user).not.toHaveProperty('passwordHash');
@@ -54,12 +78,58 @@ describe('sign up, sign in, sign out', () => {
     expect(row.passwordHash).not.toContain(u.password);
   });
 
-  it('refuses a second account with the same e-mail', async () => {
+  it('makes no second account with the same e-mail', async () => {
     const email = uniqueEmail();
-    await signUp(server.client(), { email });
+    const first = await signUp(server.client(), { email });
     const again = await server.client().post('/api/auth/sign-up', { email, password: TEST_PASSWORD, name: 'Twin' });
-    expect(again.status).toBe(409);
-    expect(again.body.error.fields).toEqual({ email: 'Already registered' });
+    expect(again.status).toBe(202);
+    expect(again.headers.getSetCookie()).toEqual([]);
+    const notice = await server.mail.waitFor(email, { subject: /tried to create/ });
+    expect(() => confirmationToken(notice.text)).toThrow();
+    const rows = await server.db.db.select().from(users).where(eq(users.email, email));
+    expect(rows.map((r) => r.id)).toEqual([first.id]);
+  });
+
+  it('one confirmed link makes every other link for the same address stop working', async () => {
+    const email = uniqueEmail('twice');
+    const t1 = await requestSignUp(server.client(), { email, name: 'First try' });
+    const t2 = await requestSignUp(server.client(), { email, name: 'Second try' });
+    const ok = await server.client().post('/api/auth/confirm-sign-up', { token: t2 });
+    expect(ok.status).toBe(200);
+    expect(ok.body.user.name).toBe('Second try');
+    const late = await server.client().post('/api/auth/confirm-sign-up', { token: t1 });
+    expect(late.status).toBe(400);
+    expect(late.body.error.code).toBe('invalid_token');
+    expect(late.headers.getSetCookie()).toEqual([]);
+  });
+
+  it('refuses a confirmation link after 24 hours (injected clock)', async () => {
+    const email = uniqueEmail('late');
+    const token = await requestSignUp(server.client(), { email });
+    server.clock.advance(SIGN_UP_TOKEN_TTL_MS + 1000);
+    try {
+      const res = await server.client().post('/api/auth/confirm-sign-up', { token });
+      expect(res.status).toBe(400);
+      expect(res.body.error.code).toBe('invalid_token');
+      expect(res.body.error.message).toMatch(/expired/);
+    } finally {
+      server.clock.advance(-(SIGN_UP_TOKEN_TTL_MS + 1000));
+    }
+    expect(await server.db.db.select().from(users).where(eq(users.email, email))).toHaveLength(0);
+  });
+
+  it('carries a path on this site into the link, and refuses any other next', async () => {
+    const email = uniqueEmail('next');
+    await requestSignUp(server.client(), { email, next: '/invite/abc_DEF-123' });
+    const mail = await server.mail.waitFor(email, { subject: CONFIRM_SUBJECT });
+    const link = new URL(server.mail.linkIn(mail, '/confirm-sign-up'));
+    expect(link.origin).toBe(server.url);
+    expect(link.searchParams.get('next')).toBe('/invite/abc_DEF-123');
+    for (const next of ['//evil.example/x', 'https://evil.example', '/\\evil.example', 'invite/x', '/a b']) {
+      const res = await server.client().post('/api/auth/sign-up', { email: uniqueEmail(), password: TEST_PASSWORD, name: 'N', next });
+      expect(res.status, next).toBe(400);
+      expect(Object.keys(res.body.error.fields)).toEqual(['next']);
+    }
   });
 
   it('rejects weak input with field messages', async () => {
@@ -70,7 +140,8 @@ describe('sign up, sign in, sign out', () => {
   });
 
   it('sets an httpOnly, SameSite=Lax session cookie, Secure only over https', async () => {
-    const plain = await server.client().post('/api/auth/sign-up', { email: uniqueEmail(), password: TEST_PASSWORD, name: 'P' });
+    const token = await requestSignUp(server.client(), { email: uniqueEmail(), name: 'P' });
+    const plain = await server.client().post('/api/auth/confirm-sign-up', { token });
     const cookie = plain.headers.getSetCookie().find((s) => s.startsWith('slackline_session='))!;
     expect(cookie).toMatch(/HttpOnly/i);
     expect(cookie).toMatch(/SameSite=Lax/i);
@@ -81,12 +152,14 @@ describe('sign up, sign in, sign out', () => {
     try {
       const c = proxied.client();
       c.origin = 'https://slackline.example';
-      const res = await c.raw('/api/auth/sign-up', {
-        method: 'POST',
-        headers: { 'content-type': 'application/json', 'x-forwarded-proto': 'https', 'x-forwarded-host': 'slackline.example' },
-        body: JSON.stringify({ email: uniqueEmail(), password: TEST_PASSWORD, name: 'Q' }),
-      });
-      expect(res.status).toBe(201);
+      const headers = { 'content-type': 'application/json', 'x-forwarded-proto': 'https', 'x-forwarded-host': 'slackline.example' };
+      const email = uniqueEmail();
+      const asked = await c.raw('/api/auth/sign-up', { method: 'POST', headers, body: JSON.stringify({ email, password: TEST_PASSWORD, name: 'Q' }) });
+      expect(asked.status).toBe(202);
+      const mail = await proxied.mail.waitFor(email, { subject: CONFIRM_SUBJECT });
+      expect(proxied.mail.linkIn(mail, '/confirm-sign-up').startsWith('https://slackline.example/confirm-sign-up?token=')).toBe(true);
+      const res = await c.raw('/api/auth/confirm-sign-up', { method: 'POST', headers, body: JSON.stringify({ token: confirmationToken(mail.text) }) });
+      expect(res.status).toBe(200);
       expect(res.headers.getSetCookie().find((s) => s.startsWith('slackline_session='))).toMatch(/;\s*Secure/i);
     } finally {
       await proxied.close();
@@ -102,9 +175,10 @@ describe('sign up, sign in, sign out', () => {
     const r2 = await none.post('/api/auth/sign-up', body);
     expect(r2.status).toBe(403);
     expect(r2.body.error.code).toBe('forbidden');
-    // Nothing was created.
+    // Nothing was created, not even a pending sign-up.
     const [row] = await server.db.db.select().from(users).where(eq(users.email, body.email));
     expect(row).toBeUndefined();
+    expect(await server.db.db.select().from(pendingSignUps).where(eq(pendingSignUps.email, body.email))).toHaveLength(0);
     // Reads need no Origin.
     expect((await none.get('/api/health')).status).toBe(200);
   });

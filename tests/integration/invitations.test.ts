@@ -32,7 +32,7 @@ describe('invitations', () => {
     const pending = await owner.get(`/api/workspaces/${ws}/invitations`);
     expect(pending.body.invitations).toHaveLength(1);
 
-    const mail = await server.mail.waitFor(email);
+    const mail = await server.mail.waitFor(email, { subject: /invited/ });
     // The subject carries no sender-chosen text (the names are in the body).
     expect(mail.subject).toBe('You are invited to a workspace on Slackline');
     expect(mail.text).toContain('"Coffee blend panel"');
@@ -67,7 +67,7 @@ describe('invitations', () => {
     const { owner, ws } = await ownerWithWorkspace();
     const email = uniqueEmail('intended');
     await owner.post(`/api/workspaces/${ws}/invitations`, { email, role: 'editor' });
-    const token = tokenOf(server.mail.linkIn(await server.mail.waitFor(email), '/invite/'));
+    const token = tokenOf(server.mail.linkIn(await server.mail.waitFor(email, { subject: /invited/ }), '/invite/'));
     const other = server.client();
     await signUp(other);
     const preview = await other.post('/api/invitations/preview', { token });
@@ -86,7 +86,7 @@ describe('invitations', () => {
     const { owner, ws } = await ownerWithWorkspace();
     const e1 = uniqueEmail('revoked');
     const inv = await owner.post(`/api/workspaces/${ws}/invitations`, { email: e1, role: 'viewer' });
-    const t1 = tokenOf(server.mail.linkIn(await server.mail.waitFor(e1), '/invite/'));
+    const t1 = tokenOf(server.mail.linkIn(await server.mail.waitFor(e1, { subject: /invited/ }), '/invite/'));
     expect((await owner.delete(`/api/workspaces/${ws}/invitations/${inv.body.invitation.id}`)).status).toBe(204);
     const c1 = server.client();
     await signUp(c1, { email: e1 });
@@ -96,7 +96,7 @@ describe('invitations', () => {
 
     const e2 = uniqueEmail('late');
     await owner.post(`/api/workspaces/${ws}/invitations`, { email: e2, role: 'viewer' });
-    const t2 = tokenOf(server.mail.linkIn(await server.mail.waitFor(e2), '/invite/'));
+    const t2 = tokenOf(server.mail.linkIn(await server.mail.waitFor(e2, { subject: /invited/ }), '/invite/'));
     const c2 = server.client();
     await signUp(c2, { email: e2 });
     server.clock.advance(INVITATION_TTL_MS + 60_000);
@@ -114,7 +114,7 @@ describe('invitations', () => {
     const { owner, ws } = await ownerWithWorkspace();
     const email = uniqueEmail('twice');
     await owner.post(`/api/workspaces/${ws}/invitations`, { email, role: 'viewer' });
-    const first = tokenOf(server.mail.linkIn(await server.mail.waitFor(email), '/invite/'));
+    const first = tokenOf(server.mail.linkIn(await server.mail.waitFor(email, { subject: /invited/ }), '/invite/'));
     await owner.post(`/api/workspaces/${ws}/invitations`, { email, role: 'editor' });
     const all = (await server.mail.all()).filter((m) => m.to.includes(email));
     expect(all).toHaveLength(2);
@@ -144,7 +144,7 @@ describe('invitations', () => {
     await owner.post(`/api/workspaces/${ws}/invitations`, { email, role: 'editor' });
     const ed = server.client();
     await signUp(ed, { email });
-    await ed.post('/api/invitations/accept', { token: tokenOf(server.mail.linkIn(await server.mail.waitFor(email), '/invite/')) });
+    await ed.post('/api/invitations/accept', { token: tokenOf(server.mail.linkIn(await server.mail.waitFor(email, { subject: /invited/ }), '/invite/')) });
     const before = await countRows(server.db.handle, 'invitations');
     expect((await ed.post(`/api/workspaces/${ws}/invitations`, { email: uniqueEmail(), role: 'viewer' })).status).toBe(403);
     expect(await countRows(server.db.handle, 'invitations')).toBe(before);

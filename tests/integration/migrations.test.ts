@@ -52,7 +52,7 @@ describe('migrations', () => {
     expect(tables.map((r) => r.t).sort()).toEqual(
       [
         '__drizzle_migrations', 'audit_log', 'cells', 'comments', 'datasets', 'invitations', 'mail_outbox', 'memberships',
-        'notebooks', 'password_resets', 'run_chains', 'run_summaries', 'runs', 'sessions', 'share_links', 'users', 'workspaces',
+        'notebooks', 'password_resets', 'pending_sign_ups', 'run_chains', 'run_summaries', 'runs', 'sessions', 'share_links', 'users', 'workspaces',
       ].sort(),
     );
     for (const r of tables) expect(r.c, r.t).toMatch(/^utf8mb4_/);

@@ -9,13 +9,14 @@
  *
  * Every cell runs against a fresh set of rows (workspace with all roles + a second owner + a
  * removable member, a notebook with a cell, a share link, an invitation addressed to the caller,
- * a reset token) and a fresh session, so destructive routes do not disturb other cells.
+ * a reset token, a pending sign-up) and a fresh session, so destructive routes do not disturb other cells.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { routes, routePath, type RouteName } from '../../shared/api/routes';
 import { apiErrorSchema, type Role } from '../../shared/api/common';
 import { createLucia } from '../../server/auth/lucia';
-import { cells, invitations, memberships, notebooks, passwordResets, shareLinks, workspaces } from '../../server/db/schema';
+import { cells, invitations, memberships, notebooks, passwordResets, pendingSignUps, shareLinks, workspaces } from '../../server/db/schema';
+import { hashPassword } from '../../server/auth/password';
 import { hashToken, newId, newToken } from '../../server/lib/ids';
 import { startApiServer, type TestServer } from '../helpers/server';
 import { TEST_PASSWORD, TestClient, signUp, uniqueEmail } from '../helpers/http';
@@ -36,7 +37,8 @@ const REVIEWER_UP = (ok: number) => row(ok, ok, ok, 403, 404, 401, 401);
 
 const EXPECTED: Record<RouteName, Row> = {
   health: ALL_200,
-  signUp: row(201, 201, 201, 201, 201, 201, 201),
+  signUp: row(202, 202, 202, 202, 202, 202, 202),
+  confirmSignUp: ALL_200,
   signIn: ALL_200,
   signOut: row(204, 204, 204, 204, 204, 204, 204),
   me: SIGNED_IN(200),
@@ -109,6 +111,7 @@ interface World {
   invitationId: string;
   invitationToken: string;
   resetToken: string;
+  signUpToken: string;
   targetId: string;
   nbw: NotebookMatrixWorld;
 }
@@ -117,6 +120,7 @@ type Req = { params?: Record<string, string>; body?: unknown; form?: () => FormD
 const REQUESTS: Record<RouteName, (w: World) => Req> = {
   health: () => ({}),
   signUp: () => ({ body: { email: uniqueEmail('matrix'), password: TEST_PASSWORD, name: 'Matrix' } }),
+  confirmSignUp: (w) => ({ body: { token: w.signUpToken } }),
   signIn: () => ({ body: { email: people.signinUser.email, password: TEST_PASSWORD } }),
   signOut: () => ({ body: {} }),
   me: () => ({}),
@@ -182,10 +186,12 @@ type Person = { id: string; email: string };
 const people = {} as Record<'owner' | 'owner2' | 'editor' | 'reviewer' | 'viewer' | 'nonMember' | 'target' | 'signinUser' | 'resetUser', Person>;
 let server: TestServer;
 let lucia: ReturnType<typeof createLucia>;
+let pendingPasswordHash: string;
 
 beforeAll(async () => {
   server = await startApiServer({ config: { logErrors: true } });
   lucia = createLucia(server.db.db);
+  pendingPasswordHash = await hashPassword(TEST_PASSWORD);
   for (const key of Object.keys({ owner: 1, owner2: 1, editor: 1, reviewer: 1, viewer: 1, nonMember: 1, target: 1, signinUser: 1, resetUser: 1 })) {
     const u = await signUp(server.client(), { email: uniqueEmail(key) });
     people[key as keyof typeof people] = { id: u.id, email: u.email };
@@ -219,8 +225,13 @@ async function makeWorld(caller: Caller): Promise<World> {
   await db.insert(passwordResets).values({
     id: newId(), userId: people.resetUser.id, tokenHash: hashToken(resetToken), createdAt: now, expiresAt: new Date(now.getTime() + 600_000),
   });
+  const signUpToken = newToken();
+  await db.insert(pendingSignUps).values({
+    id: newId(), email: uniqueEmail('pending'), name: 'Pending', passwordHash: pendingPasswordHash,
+    tokenHash: hashToken(signUpToken), createdAt: now, expiresAt: new Date(now.getTime() + 600_000),
+  });
   const nbw = await notebookMatrixWorld(db, ws, nb, people.owner.id, people.reviewer.id, now);
-  return { ws, nb, linkId, shareToken, invitationId, invitationToken, resetToken, targetId: people.target.id, nbw };
+  return { ws, nb, linkId, shareToken, invitationId, invitationToken, resetToken, signUpToken, targetId: people.target.id, nbw };
 }
 
 async function clientFor(caller: Caller, w: World): Promise<TestClient> {

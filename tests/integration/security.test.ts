@@ -3,7 +3,8 @@
  *  1. account takeover through the captured mail (reset link read at /api/dev/mail);
  *  2. a forged Host (DNS rebinding) and `Origin: null`;
  *  4. share links that outlive their creator's rights;
- *  5. account enumeration (reset mail sent before answering; sign-up saying "already exists");
+ *  5. account enumeration (reset mail sent before answering; sign-up telling a registered address
+ *     from a new one, or signing in before the address is confirmed);
  *  6. limits per account and per workspace;
  *  7. control characters in names, weak passwords, NUL bytes and reserved column names in CSVs,
  *     the workspace id in share-link dataset answers;
@@ -15,11 +16,11 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
-import { auditLog, shareLinks } from '../../server/db/schema';
+import { auditLog, pendingSignUps, shareLinks, users } from '../../server/db/schema';
 import type { Mailer, OutgoingMail } from '../../server/mail/mailer';
 import { afterResponseSettled } from '../../server/http/after-response';
 import { REPO_ROOT, startApiServer, startTestServer, type TestServer } from '../helpers/server';
-import { TEST_PASSWORD, TestClient, createWorkspace, signUp, uniqueEmail } from '../helpers/http';
+import { CONFIRM_SUBJECT, TEST_PASSWORD, TestClient, confirmationToken, createWorkspace, signUp, uniqueEmail } from '../helpers/http';
 import { rawRequest } from '../helpers/net';
 import { csvForm } from './notebook/matrix-world';
 
@@ -65,7 +66,11 @@ describe('1. captured mail needs the per-start key', () => {
     expect(first.headers.getSetCookie().join('\n')).toMatch(/slackline_devmail=[^;]+;.*HttpOnly/i);
     const again = await dev.get(`/api/dev/mail?to=${encodeURIComponent(victim.email)}`);
     expect(again.status).toBe(200);
-    expect(again.body.messages).toHaveLength(1);
+    // The reset mail and, before it, the confirmation of the victim's own sign-up.
+    expect(again.body.messages.map((m: { subject: string }) => m.subject)).toEqual([
+      'Reset your Slackline password',
+      expect.stringMatching(CONFIRM_SUBJECT),
+    ]);
   });
 
   it('the page link trades the key for the cookie and drops it from the address', async () => {
@@ -108,7 +113,7 @@ describe('2. Host and Origin', () => {
       headers: { 'content-type': 'application/json', referer: `${server.url}/sign-up` },
       body: JSON.stringify(body),
     });
-    expect(ok.status).toBe(201);
+    expect(ok.status).toBe(202);
   });
 });
 
@@ -121,7 +126,7 @@ describe('4. share links follow their creator\'s rights', () => {
     const editor = server.client();
     const ed = await signUp(editor, { name: 'Editor' });
     await owner.post(`/api/workspaces/${ws}/invitations`, { email: ed.email, role: 'editor' });
-    const token = new URL(server.mail.linkIn(await server.mail.waitFor(ed.email), '/invite/')).pathname.split('/').pop()!;
+    const token = new URL(server.mail.linkIn(await server.mail.waitFor(ed.email, { subject: /invited/ }), '/invite/')).pathname.split('/').pop()!;
     expect((await editor.post('/api/invitations/accept', { token })).status).toBe(200);
     const created = await editor.post(`/api/workspaces/${ws}/notebooks/${nb.id}/share-links`, {});
     expect(created.status).toBe(201);
@@ -199,6 +204,7 @@ describe('5. no account enumeration', () => {
         res.once('finish', () => finished.add(id));
       });
       const known = await signUp(s.client());
+      record.length = 0; // the confirmation of that sign-up
       for (const email of [known.email, uniqueEmail('nobody')]) {
         const c = s.client();
         c.extraHeaders = { 'x-test-request': email };
@@ -213,17 +219,99 @@ describe('5. no account enumeration', () => {
     }
   });
 
-  it('mails the owner of an address someone tries to sign up with', async () => {
+  it('sign-up answers a registered and a new address byte for byte alike, signs neither in, and mails each its own', async () => {
     const owner = await signUp(server.client(), { name: 'First' });
-    const again = await server.client().post('/api/auth/sign-up', { email: owner.email, password: 'a different passphrase', name: 'Second' });
-    expect(again.status).toBe(409);
-    const mail = await server.mail.waitFor(owner.email, { subject: /tried to create/i });
-    expect(mail.text).toContain('already has one');
-    expect(mail.text).toContain(`${server.url}/forgot-password`);
-    // Repeated attempts do not become a stream of mail: one notice per address and window.
-    await server.client().post('/api/auth/sign-up', { email: owner.email, password: 'a different passphrase', name: 'Third' });
+    const freshEmail = uniqueEmail('fresh');
+    const onTaken = server.client();
+    const onFresh = server.client();
+    const taken = await onTaken.post('/api/auth/sign-up', { email: owner.email, password: 'a different passphrase', name: 'Second' });
+    const fresh = await onFresh.post('/api/auth/sign-up', { email: freshEmail, password: 'a different passphrase', name: 'Second' });
+    // The same status and the same bytes; no session for either.
+    expect(taken.status).toBe(202);
+    expect(fresh.status).toBe(taken.status);
+    expect(fresh.text).toBe(taken.text);
+    expect(taken.body).toEqual({ ok: true, message: 'Check your mail to finish creating your account' });
+    expect(taken.headers.get('content-type')).toBe(fresh.headers.get('content-type'));
+    expect(taken.headers.getSetCookie()).toEqual([]);
+    expect(fresh.headers.getSetCookie()).toEqual([]);
+    expect(onTaken.hasSession || onFresh.hasSession).toBe(false);
+    expect((await onFresh.get('/api/auth/me')).status).toBe(401);
+
+    // The registered address: its owner gets the notice, with no link that creates anything.
+    const notice = await server.mail.waitFor(owner.email, { subject: /tried to create/i });
+    expect(notice.text).toContain('already has one');
+    expect(notice.text).toContain(`${server.url}/forgot-password`);
+    expect(() => confirmationToken(notice.text)).toThrow();
+    // The new address: a confirmation link; no account until it is used.
+    const confirmation = await server.mail.waitFor(freshEmail, { subject: CONFIRM_SUBJECT });
+    expect(await server.db.db.select().from(users).where(eq(users.email, freshEmail))).toHaveLength(0);
+    await afterResponseSettled();
+    // The attempt stored no pending sign-up (the owner's own one went when it was confirmed), and
+    // the only confirmation mail that address ever got is the one for the owner's own sign-up.
+    expect(await server.db.db.select().from(pendingSignUps).where(eq(pendingSignUps.email, owner.email))).toHaveLength(0);
+    expect((await server.mail.all()).filter((m) => m.to.includes(owner.email) && CONFIRM_SUBJECT.test(m.subject))).toHaveLength(1);
+
+    // The link creates the account and signs in; the password works.
+    const token = confirmationToken(confirmation.text);
+    const confirmer = server.client();
+    const created = await confirmer.post('/api/auth/confirm-sign-up', { token });
+    expect(created.status).toBe(200);
+    expect(created.body.user).toMatchObject({ email: freshEmail, name: 'Second' });
+    expect((await confirmer.get('/api/auth/me')).body.user.email).toBe(freshEmail);
+    expect((await server.client().post('/api/auth/sign-in', { email: freshEmail, password: 'a different passphrase' })).status).toBe(200);
+    // The owner's password is untouched by the attempt on their address.
+    expect((await server.client().post('/api/auth/sign-in', { email: owner.email, password: 'a different passphrase' })).status).toBe(401);
+    expect((await server.client().post('/api/auth/sign-in', { email: owner.email, password: owner.password })).status).toBe(200);
+
+    // A used link is refused, clearly, and signs nobody in.
+    const reuser = server.client();
+    const reused = await reuser.post('/api/auth/confirm-sign-up', { token });
+    expect(reused.status).toBe(400);
+    expect(reused.body.error.code).toBe('invalid_token');
+    expect(reused.body.error.message).toMatch(/already used/);
+    expect(reuser.hasSession).toBe(false);
+
+    // Repeated attempts do not become a stream of mail: one notice per address and window, and
+    // the answer stays the same.
+    const third = await server.client().post('/api/auth/sign-up', { email: owner.email, password: 'a different passphrase', name: 'Third' });
+    expect(third.status).toBe(202);
+    expect(third.text).toBe(taken.text);
     await afterResponseSettled();
     expect((await server.mail.all()).filter((m) => m.to.includes(owner.email) && /tried to create/i.test(m.subject))).toHaveLength(1);
+  });
+
+  it('sends sign-up mail only after answering (registered and new addresses alike)', async () => {
+    // The same mailer spy as for resets: no timing is measured, only the order of events.
+    const finished = new Set<string>();
+    const record: { to: string; subject: string; answered: boolean }[] = [];
+    const spy = (inner: Mailer): Mailer => ({
+      async send(mail) {
+        record.push({ to: mail.to, subject: mail.subject, answered: finished.has(mail.to) });
+        await inner.send(mail);
+      },
+      close: () => inner.close(),
+    });
+    const s = await startApiServer({ wrapMailer: spy });
+    try {
+      s.http.on('request', (req, res) => {
+        const id = String(req.headers['x-test-request'] ?? '');
+        res.once('finish', () => finished.add(id));
+      });
+      const known = await signUp(s.client());
+      record.length = 0;
+      const fresh = uniqueEmail('fresh');
+      for (const email of [known.email, fresh]) {
+        const c = s.client();
+        c.extraHeaders = { 'x-test-request': email };
+        expect((await c.post('/api/auth/sign-up', { email, password: TEST_PASSWORD, name: 'Someone' })).status).toBe(202);
+      }
+      await s.mail.waitFor(known.email, { subject: /tried to create/i });
+      await s.mail.waitFor(fresh, { subject: CONFIRM_SUBJECT });
+      await afterResponseSettled();
+      expect(record.map((r) => [r.to, r.answered]).sort()).toEqual([[known.email, true], [fresh, true]].sort());
+    } finally {
+      await s.close();
+    }
   });
 });
 

@@ -5,7 +5,7 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createTestDatabase, type TestDatabase } from '../helpers/db';
-import { TestClient, signUp, createWorkspace, uniqueEmail } from '../helpers/http';
+import { TestClient, devMailReader, signUp, createWorkspace, uniqueEmail } from '../helpers/http';
 import { REPO_ROOT } from '../helpers/server';
 import { freePort, rawRequest } from '../helpers/net';
 
@@ -45,16 +45,17 @@ afterAll(async () => {
 
 describe('the server process', () => {
   it('serves the API and captures mail without SMTP_URL', async () => {
-    const owner = new TestClient(url);
-    await signUp(owner);
-    const ws = await createWorkspace(owner, 'Process check');
-    const email = uniqueEmail('captured');
-    expect((await owner.post(`/api/workspaces/${ws}/invitations`, { email, role: 'viewer' })).status).toBe(201);
     expect(output).toMatch(/mail capture on smtp:\/\/127\.0\.0\.1:\d+/);
     // The start prints the capture page's link with this start's key.
     const printed = /read it at (\S+\/dev\/mail\?key=([A-Za-z0-9_-]+))/.exec(output);
     expect(printed).not.toBeNull();
     const key = printed![2];
+    // Signing up goes through the confirmation mail, read from the capture with the key.
+    const owner = new TestClient(url, url, devMailReader(url, key));
+    await signUp(owner);
+    const ws = await createWorkspace(owner, 'Process check');
+    const email = uniqueEmail('captured');
+    expect((await owner.post(`/api/workspaces/${ws}/invitations`, { email, role: 'viewer' })).status).toBe(201);
 
     // Without the key the owner sees only mail to their own address, not the invitation.
     const own = await owner.get(`/api/dev/mail?to=${encodeURIComponent(email)}`);

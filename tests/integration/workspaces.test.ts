@@ -16,7 +16,7 @@ async function join(owner: TestClient, workspaceId: string, role: 'editor' | 're
   const u = await signUp(c);
   const inv = await owner.post(`/api/workspaces/${workspaceId}/invitations`, { email: u.email, role });
   expect(inv.status).toBe(201);
-  const mail = await server.mail.waitFor(u.email);
+  const mail = await server.mail.waitFor(u.email, { subject: /invited/ });
   const token = server.mail.linkIn(mail, '/invite/').split('/invite/')[1];
   const acc = await c.post('/api/invitations/accept', { token });
   expect(acc.status).toBe(200);

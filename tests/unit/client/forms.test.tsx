@@ -19,7 +19,7 @@ function fill(label: RegExp | string, value: string) {
 describe('sign-up form', () => {
   it('shows the shared schema messages under each field without calling the server', async () => {
     const { fn } = mockFetch({});
-    renderWithProviders(<SignUpForm onSuccess={() => {}} />);
+    renderWithProviders(<SignUpForm />);
     fill('E-mail', 'ana-at-example');
     fill('Password', 'short');
     fireEvent.click(screen.getByRole('button', { name: 'Create account' }));
@@ -34,7 +34,7 @@ describe('sign-up form', () => {
 
   it('moves the focus to the first field that needs fixing', async () => {
     mockFetch({});
-    renderWithProviders(<SignUpForm onSuccess={() => {}} />);
+    renderWithProviders(<SignUpForm />);
     fill('Your name', 'Ana');
     fill('E-mail', 'ana-at-example');
     fill('Password', 'long enough password');
@@ -46,38 +46,40 @@ describe('sign-up form', () => {
   it('puts a server field error under its field and clears it when the field is edited', async () => {
     const { seen } = mockFetch({
       'POST /api/auth/sign-up': {
-        status: 409,
-        body: { error: { code: 'conflict', message: 'Already registered', fields: { email: 'This e-mail is already registered' } } },
+        status: 400,
+        body: { error: { code: 'bad_request', message: 'Check the highlighted fields', fields: { password: 'Too common a password' } } },
       },
     });
-    renderWithProviders(<SignUpForm onSuccess={() => {}} />);
+    renderWithProviders(<SignUpForm />);
     fill('Your name', 'Ana Ribeiro');
     fill('E-mail', 'ana@example.test');
     fill('Password', 'long enough password');
     fireEvent.click(screen.getByRole('button', { name: 'Create account' }));
 
-    const msg = await screen.findByText('This e-mail is already registered');
-    const input = screen.getByLabelText('E-mail');
+    const msg = await screen.findByText('Too common a password');
+    const input = screen.getByLabelText('Password');
     expect(input.getAttribute('aria-describedby')).toContain(msg.parentElement!.id);
     expect(seen[0].body).toEqual({ name: 'Ana Ribeiro', email: 'ana@example.test', password: 'long enough password' });
     // the message belongs to a field the form has, so there is no extra banner
     expect(screen.queryByRole('alert')).toBeNull();
 
-    fill('E-mail', 'ana2@example.test');
-    await waitFor(() => expect(screen.queryByText('This e-mail is already registered')).toBeNull());
+    fill('Password', 'another long enough password');
+    await waitFor(() => expect(screen.queryByText('Too common a password')).toBeNull());
   });
 
-  it('calls onSuccess with the created user', async () => {
-    mockFetch({
-      'POST /api/auth/sign-up': { status: 201, body: { user: { id: 'u1', email: 'ana@example.test', name: 'Ana', createdAt: ISO } } },
+  it('ends on "check your mail" and sends the page to open afterwards along', async () => {
+    const { seen } = mockFetch({
+      'POST /api/auth/sign-up': { status: 202, body: { ok: true, message: 'Check your mail to finish creating your account' } },
     });
-    const onSuccess = vi.fn();
-    renderWithProviders(<SignUpForm onSuccess={onSuccess} />);
+    renderWithProviders(<SignUpForm next="/invite/abc" />);
     fill('Your name', 'Ana');
     fill('E-mail', 'ana@example.test');
     fill('Password', 'long enough password');
     fireEvent.click(screen.getByRole('button', { name: 'Create account' }));
-    await waitFor(() => expect(onSuccess).toHaveBeenCalledOnce());
+    expect(await screen.findByText('Check your mail')).toBeTruthy();
+    expect(screen.getByText('ana@example.test')).toBeTruthy();
+    expect(seen[0].body).toEqual({ name: 'Ana', email: 'ana@example.test', password: 'long enough password', next: '/invite/abc' });
+    expect(screen.queryByRole('button', { name: 'Create account' })).toBeNull();
   });
 });
 

@@ -6,9 +6,23 @@ import { useSignUp } from '../api/sign-up';
 
 const FIELDS = ['name', 'email', 'password'] as const;
 
-export function SignUpForm({ onSuccess, defaultEmail }: { onSuccess: () => void; defaultEmail?: string }) {
+/**
+ * Asks for an account. The answer is the same whether or not the address has one, so the form
+ * always ends on "check your mail"; the link in that mail creates the account (and carries
+ * `next`, so an invitation is waiting once it is confirmed).
+ */
+export function SignUpForm({ next, defaultEmail }: { next?: string | null; defaultEmail?: string }) {
   const signUp = useSignUp();
   const errors = useFormErrors(signUp.error, FIELDS);
+  if (signUp.isSuccess) {
+    return (
+      <Banner tone="slack" title="Check your mail">
+        To finish creating your account, open the link we sent to{' '}
+        <strong className="text-ink">{signUp.variables.email}</strong>. It works once, for 24 hours. If that address
+        already has an account, the mail tells you how to sign in instead.
+      </Banner>
+    );
+  }
   return (
     <form
       ref={errors.formRef}
@@ -17,7 +31,7 @@ export function SignUpForm({ onSuccess, defaultEmail }: { onSuccess: () => void;
       onSubmit={(e) => {
         e.preventDefault();
         const v = formValues(e.currentTarget);
-        signUp.mutate({ name: v.name ?? '', email: v.email ?? '', password: v.password ?? '' }, { onSuccess });
+        signUp.mutate({ name: v.name ?? '', email: v.email ?? '', password: v.password ?? '', ...(next ? { next } : {}) });
       }}
     >
       {errors.formMessage && <Banner tone="notice">{errors.formMessage}</Banner>}
