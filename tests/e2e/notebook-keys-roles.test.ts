@@ -120,7 +120,7 @@ describe("each role's view of a model cell and its comments", () => {
     const posted = await owner.post(`/api/workspaces/${workspaceId}/notebooks/${notebookId}/cells/${model.id}/comments`, { body: 'Are the three source signatures from the same lab?' });
     expect(posted.status).toBe(201);
     for (const [role, name] of [['reviewer', 'Rhea Reviewer'], ['viewer', 'Vic Viewer']] as const) {
-      const c = new TestClient(server.url);
+      const c = server.client();
       const person = await signUp(c, { name });
       await server.db.db.insert(memberships).values({ workspaceId, userId: person.id, role, createdAt: server.clock.now() });
       if (role === 'reviewer') reviewer = person;

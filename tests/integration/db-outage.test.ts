@@ -20,7 +20,7 @@ import { decodeDraws } from '../../server/runs/draws-codec';
 import type { ChainStats } from '../../server/runs/queue';
 import { runFit } from '../../server/engine/fit';
 import { parseCsv } from '../../shared/data';
-import { TestClient, signUp, createWorkspace } from '../helpers/http';
+import { TestClient, signUp, createWorkspace, devMailReader } from '../helpers/http';
 import { REPO_ROOT } from '../helpers/server';
 import { freePort } from '../helpers/net';
 import { postFile } from './notebook/setup';
@@ -91,7 +91,10 @@ afterAll(async () => {
 
 describe('a database restart under a running fit', () => {
   it('the server and worker survive, the fit finishes, and every finished chain is kept', async () => {
-    const owner = new TestClient(url);
+    // Signing up goes through the confirmation mail, read from the capture with this start's key.
+    const key = /\/dev\/mail\?key=([A-Za-z0-9_-]+)/.exec(output)?.[1];
+    if (!key) throw new Error(`the start did not print the mail capture's key:\n${output}`);
+    const owner = new TestClient(url, url, devMailReader(url, key));
     await signUp(owner);
     const ws = await createWorkspace(owner, 'Outage drill');
     const nb = (await owner.post(`/api/workspaces/${ws}/notebooks`, { title: 'Orchard' })).body.notebook.id as string;
