@@ -8,7 +8,8 @@
  *   their row and column ("not UTF-8");
  * - the first row must be a header of distinct, non-empty column names; a first row made only of
  *   numbers is reported as a missing header;
- * - rows with more or fewer cells than the header are reported (ragged rows), with the row number;
+ * - rows with more or fewer cells than the header are reported (ragged rows), one message per row
+ *   ("Row 3 has 2 cells; the header has 3.");
  * - cells are trimmed; a cell is missing when it is empty or one of MISSING_TOKENS (any case);
  *   missing cells become NaN and are reported per column with their rows;
  * - column types: `integer` when every present cell is a whole number, `numeric` when every present
@@ -16,7 +17,8 @@
  *   by natural string order (so "dose 2" comes before "dose 10").
  *
  * Row numbers in messages count data rows from 1 (the header is not counted); column names are the
- * header's.
+ * header's. Every message names its own row and column, so it reads whole without a prefix
+ * (`row` and `column` are there for tools that sort or point at cells).
  */
 import Papa from 'papaparse';
 import type { ParsedTable, TableColumn } from './types';
@@ -170,34 +172,27 @@ export function parseCsv(input: string | Uint8Array | ArrayBuffer, opts: CsvOpti
     }
   });
 
-  // Ragged rows.
-  const short: number[] = [];
-  const long: number[] = [];
-  let shortCount = 0;
-  let longCount = 0;
-  body.forEach((r, i) => {
-    if (r.length < header.length) {
-      shortCount++;
-      if (short.length < maxListed) short.push(i + 1);
-    } else if (r.length > header.length) {
-      longCount++;
-      if (long.length < maxListed) long.push(i + 1);
+  // Ragged rows: one message per row (up to maxListed of each kind), naming the row once and
+  // saying what is wrong, then one line for the rest.
+  const ragged = (kind: 'fewer' | 'more') => {
+    const rows: { row: number; cells: number }[] = [];
+    body.forEach((r, i) => {
+      if (kind === 'fewer' ? r.length < header.length : r.length > header.length) rows.push({ row: i + 1, cells: r.length });
+    });
+    const cellWord = (n: number) => `${n} cell${n === 1 ? '' : 's'}`;
+    for (const { row, cells } of rows.slice(0, maxListed)) {
+      issues.push({ severity: 'error', row, message: `Row ${row} has ${cellWord(cells)}; the header has ${header.length}.` });
     }
-  });
-  if (shortCount > 0) {
-    issues.push({
-      severity: 'error',
-      row: short[0],
-      message: `${shortCount} row${shortCount > 1 ? 's have' : ' has'} fewer cells than the header's ${header.length} (row ${listRows(short, shortCount)}).`,
-    });
-  }
-  if (longCount > 0) {
-    issues.push({
-      severity: 'error',
-      row: long[0],
-      message: `${longCount} row${longCount > 1 ? 's have' : ' has'} more cells than the header's ${header.length} (row ${listRows(long, longCount)}).`,
-    });
-  }
+    const rest = rows.length - maxListed;
+    if (rest > 0) {
+      issues.push({
+        severity: 'error',
+        message: `${rest} more row${rest > 1 ? 's have' : ' has'} ${kind} cells than the header's ${header.length}.`,
+      });
+    }
+  };
+  ragged('fewer');
+  ragged('more');
 
   // Columns.
   const nRows = body.length;
@@ -240,7 +235,7 @@ export function parseCsv(input: string | Uint8Array | ArrayBuffer, opts: CsvOpti
         severity: 'warning',
         row: missingRows[0],
         column: name,
-        message: `Column "${name}" has ${missing} missing value${missing > 1 ? 's' : ''} (row ${listRows(missingRows, missing)}).`,
+        message: `Column "${name}" has ${missing} missing value${missing > 1 ? 's' : ''} (row${missing > 1 ? 's' : ''} ${listRows(missingRows, missing)}).`,
       });
     }
     const values = new Float64Array(nRows);

@@ -69,7 +69,7 @@ describe('parseCsv: problems are reported with row and column', () => {
     expect(Number.isNaN(r.table!.columns.yield.values[1])).toBe(true);
     expect(r.columns[1]).toMatchObject({ missing: 2, missingRows: [2, 3] });
     expect(r.issues).toEqual([
-      { severity: 'warning', row: 2, column: 'yield', message: 'Column "yield" has 2 missing values (row 2, 3).' },
+      { severity: 'warning', row: 2, column: 'yield', message: 'Column "yield" has 2 missing values (rows 2, 3).' },
     ]);
   });
 
@@ -77,8 +77,16 @@ describe('parseCsv: problems are reported with row and column', () => {
     const r = parseCsv('a,b,c\n1,2,3\n4,5\n6,7,8,9\n1,2,3\n');
     expect(r.table).toBeNull();
     const msgs = r.issues.filter((i) => i.severity === 'error').map((i) => i.message);
-    expect(msgs).toContain("1 row has fewer cells than the header's 3 (row 2).");
-    expect(msgs).toContain("1 row has more cells than the header's 3 (row 3).");
+    // Each message names its row once and says what is wrong.
+    expect(msgs).toEqual(['Row 2 has 2 cells; the header has 3.', 'Row 3 has 4 cells; the header has 3.']);
+    expect(r.issues.filter((i) => i.severity === 'error').map((i) => i.row)).toEqual([2, 3]);
+  });
+
+  it('ragged rows beyond the listed few are counted in one more message', () => {
+    const r = parseCsv('a,b\n1\n2\n3\n4,5\n', { maxListed: 2 });
+    const msgs = r.issues.filter((i) => i.severity === 'error').map((i) => i.message);
+    expect(msgs).toEqual(['Row 1 has 1 cell; the header has 2.', 'Row 2 has 1 cell; the header has 2.', "1 more row has fewer cells than the header's 2."]);
+    for (const m of msgs) expect(m.match(/\brow \d/gi)?.length ?? 0).toBeLessThanOrEqual(1);
   });
 
   it('a header of numbers is reported as a missing header', () => {
