@@ -29,6 +29,31 @@ const NUMBER_RE = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 /** Names a model can refer to: a letter or underscore, then letters, digits, underscores. */
 const IDENTIFIER_RE = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
+/** Whether a model can refer to this column by name (letters, digits and underscores, starting with a letter or underscore). */
+export function isModelName(name: string): boolean {
+  return IDENTIFIER_RE.test(name);
+}
+
+/**
+ * A name a model could use for a column whose header it cannot: runs of other characters become
+ * one underscore ("temp level" → "temp_level", "yield (t/ha)" → "yield_t_ha"); a name that would
+ * start with a digit gets "c_" in front.
+ */
+export function modelNameFor(name: string): string {
+  let s = name.trim().replace(/[^A-Za-z0-9_]+/g, '_').replace(/^_+|_+$/g, '');
+  if (s === '') s = 'column';
+  if (!/^[A-Za-z_]/.test(s)) s = `c_${s}`;
+  return s.slice(0, 64);
+}
+
+/**
+ * The warning for a column name a model cannot use: the file is still stored, and the message says
+ * what to rename it to (the model language has no quoting for such names).
+ */
+export function columnNameWarning(name: string): string {
+  return `Column name "${name}" cannot be used in a model (only letters, digits and underscores, starting with a letter): rename it in the file, e.g. to ${modelNameFor(name)}, and upload it again; the table is stored and its other columns can be used.`;
+}
+
 export interface CsvIssue {
   severity: 'error' | 'warning';
   /** 1-based data row (header excluded), when the issue is tied to a row. */
@@ -166,7 +191,7 @@ export function parseCsv(input: string | Uint8Array | ArrayBuffer, opts: CsvOpti
         issues.push({
           severity: 'warning',
           column: h,
-          message: `Column name "${h}" cannot be used in a model: use letters, digits and underscores, starting with a letter.`,
+          message: columnNameWarning(h),
         });
       }
     }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { decodeBytes, parseCsv } from '../../../shared/data';
+import { decodeBytes, isModelName, modelNameFor, parseCsv } from '../../../shared/data';
 import type { DataTable } from '../../../server/engine/types';
 
 const enc = (s: string) => new TextEncoder().encode(s);
@@ -102,6 +102,23 @@ describe('parseCsv: problems are reported with row and column', () => {
     expect(m).toContain('error: Column 2 has no name in the header row.');
     expect(m).toContain('error: Column name "a" appears twice (columns 1 and 3).');
     expect(m.some((s) => s.startsWith('warning: Column name "yield (t/ha)" cannot be used'))).toBe(true);
+  });
+
+  it('a column name with a space is stored with a warning naming a usable name', () => {
+    const r = parseCsv('temp level,y\n1,2\n');
+    expect(r.table).not.toBeNull();
+    expect(r.table!.columns['temp level'].values[0]).toBe(1);
+    const w = r.issues.filter((i) => i.severity === 'warning');
+    expect(w).toHaveLength(1);
+    expect(w[0].column).toBe('temp level');
+    expect(w[0].message).toContain('rename it in the file, e.g. to temp_level');
+  });
+
+  it('modelNameFor turns a header into a name the model language accepts', () => {
+    expect(modelNameFor('temp level')).toBe('temp_level');
+    expect(modelNameFor('yield (t/ha)')).toBe('yield_t_ha');
+    expect(modelNameFor('2024 rain')).toBe('c_2024_rain');
+    for (const n of ['temp level', 'yield (t/ha)', '2024 rain', '%%']) expect(isModelName(modelNameFor(n))).toBe(true);
   });
 
   it('an empty file is an error', () => {
