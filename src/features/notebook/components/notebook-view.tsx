@@ -12,6 +12,7 @@ import { CellColumn, NOTEBOOK_KEYS } from './cell-column';
 import { CellFrame } from './cell-frame';
 import { ConflictDialog } from './conflict-dialog';
 import { CommentsPanel } from './comments-panel';
+import { fitModelCell, QuantityLabelsContext, quantityLabels } from '../quantity-labels';
 import { CompareCellView, DataCellView, FitCellView, ModelCellView, NotesCellView, type CellViewProps } from './cell-views';
 import { useCellDraft, type SaveState } from '../use-cell-draft';
 import {
@@ -71,9 +72,12 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
     .filter((x): x is string => !!x);
   const datasets = useQueries({ queries: dataIds.map((id) => datasetQuery(access, id)) });
   const schema: DataSchema = {};
+  // Level names of category columns, for labelling the elements of unknowns they gather.
+  const levels: Record<string, Record<string, readonly string[]>> = {};
   for (const q of datasets) {
     if (!q.data) continue;
     const d = q.data.dataset;
+    levels[d.name] = Object.fromEntries(d.columns.filter((c) => c.levels).map((c) => [c.name, c.levels!]));
     schema[d.name] = {
       rows: d.rows,
       columns: Object.fromEntries(d.columns.map((c) => [c.name, c.type === 'category' ? { type: c.type, levels: c.levels?.length ?? 0 } : { type: c.type }])),
@@ -164,6 +168,7 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
             active={activeId === cell.id}
             onActivate={() => setActiveId(cell.id)}
             schema={schema}
+            levels={levels}
             runSignal={runSignals[cell.id] ?? 0}
             editingNotes={!!editingNotes[cell.id]}
             setEditingNotes={(v) => (v ? setEditingNotes((e) => ({ ...e, [cell.id]: true })) : closeNotes(cell.id))}
@@ -206,6 +211,7 @@ interface CellItemProps {
   active: boolean;
   onActivate: () => void;
   schema: DataSchema;
+  levels: Record<string, Record<string, readonly string[]>>;
   runSignal: number;
   editingNotes: boolean;
   setEditingNotes: (v: boolean) => void;
@@ -218,6 +224,20 @@ interface CellItemProps {
   toggleComments?: () => void;
   openCommentCount?: number;
   comments: React.ReactNode;
+}
+
+/** A fit cell whose results label the elements of unknowns gathered by a category column with level names. */
+function FitCellWithLabels({ viewProps, levels }: { viewProps: CellViewProps; levels: Record<string, Record<string, readonly string[]>> }) {
+  const model = fitModelCell(viewProps.cell, viewProps.cells, viewProps.content);
+  const source = model?.source ?? '';
+  // schema and levels are rebuilt on every render of the notebook: key the check on their contents.
+  const key = JSON.stringify([source, viewProps.schema, levels]);
+  const label = useMemo(() => quantityLabels(source, viewProps.schema, levels), [key]); // eslint-disable-line react-hooks/exhaustive-deps
+  return (
+    <QuantityLabelsContext.Provider value={label}>
+      <FitCellView {...viewProps} />
+    </QuantityLabelsContext.Provider>
+  );
 }
 
 function CellItem(p: CellItemProps) {
@@ -318,7 +338,7 @@ function CellItem(p: CellItemProps) {
         {cell.kind === 'notes' && <NotesCellView {...viewProps} />}
         {cell.kind === 'data' && <DataCellView {...viewProps} />}
         {cell.kind === 'model' && <ModelCellView {...viewProps} />}
-        {cell.kind === 'fit' && <FitCellView {...viewProps} />}
+        {cell.kind === 'fit' && <FitCellWithLabels viewProps={viewProps} levels={p.levels} />}
         {cell.kind === 'compare' && <CompareCellView {...viewProps} />}
         {draft.state === 'error' && draft.error && (
           <p className="sl-field-error" role="alert" style={{ marginTop: '0.5rem' }}>
