@@ -2,9 +2,8 @@
  * The notebook page body: the column of cells with their tools, autosave, conflicts, comments and
  * the keyboard. Members edit according to their role; share-link visitors and viewers read only.
  */
-import { useEffect, useLayoutEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
+import { useEffect, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import { useQueries, useQueryClient } from '@tanstack/react-query';
-import { useNavigate } from 'react-router-dom';
 import { CELL_KIND_LABELS, dataContentSchema, type NbCell, type NbCellKind } from '@shared/api/notebook';
 import type { DataSchema } from '@shared/lang';
 import { errorMessage } from '@/lib/api-client';
@@ -17,7 +16,6 @@ import { CompareCellView, DataCellView, FitCellView, ModelCellView, NotesCellVie
 import { useCellDraft, type SaveState } from '../use-cell-draft';
 import {
   datasetQuery,
-  importNotebookFile,
   saveCell,
   useCellMutations,
   useCommentMutations,
@@ -139,7 +137,7 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
 
   return (
     <div className="sl-notebook flex flex-col gap-3">
-      {member && <NotebookToolbar access={access} canEdit={canEdit} />}
+      {member && <NotebookToolbar access={access} />}
       {!canEdit && member && (
         <div className="sl-banner" role="status" data-testid="read-only-banner">
           <strong>Read-only.</strong> Your role in this workspace lets you read{canComment ? ' and comment on' : ''} this notebook, not change it.
@@ -364,44 +362,13 @@ function CellItem(p: CellItemProps) {
   );
 }
 
-function NotebookToolbar({ access, canEdit }: { access: Extract<NotebookAccess, { mode: 'member' }>; canEdit: boolean }) {
-  const navigate = useNavigate();
-  const fileRef = useRef<HTMLInputElement>(null);
-  const [error, setError] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
-  const onImport = async (e: ChangeEvent<HTMLInputElement>) => {
-    const f = e.target.files?.[0];
-    e.target.value = '';
-    if (!f) return;
-    setBusy(true);
-    setError(null);
-    try {
-      const res = await importNotebookFile(access.workspaceId, f);
-      navigate(`/w/${access.workspaceId}/n/${res.notebook.id}`);
-    } catch (err) {
-      setError(errorMessage(err));
-    } finally {
-      setBusy(false);
-    }
-  };
+function NotebookToolbar({ access }: { access: Extract<NotebookAccess, { mode: 'member' }> }) {
+  // Importing a notebook file creates a new notebook: it lives on the notebook list.
   return (
     <div className="flex flex-wrap items-center gap-2">
       <a className="sl-btn sl-btn-outline" href={`/api/workspaces/${encodeURIComponent(access.workspaceId)}/notebooks/${encodeURIComponent(access.notebookId)}/export`} download>
         Export notebook file
       </a>
-      {canEdit && (
-        <>
-          <button type="button" className="sl-btn sl-btn-outline" disabled={busy} onClick={() => fileRef.current?.click()}>
-            {busy ? 'Importing…' : 'Import a notebook file'}
-          </button>
-          <input ref={fileRef} type="file" accept=".json,application/json" hidden onChange={onImport} aria-label="Notebook file to import" />
-        </>
-      )}
-      {error && (
-        <span className="sl-field-error" role="alert">
-          {error}
-        </span>
-      )}
     </div>
   );
 }
