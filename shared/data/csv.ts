@@ -29,9 +29,13 @@ const NUMBER_RE = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 /** Names a model can refer to: a letter or underscore, then letters, digits, underscores. */
 const IDENTIFIER_RE = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
-/** Whether a model can refer to this column by name (letters, digits and underscores, starting with a letter or underscore). */
+/**
+ * Whether a model can refer to this column by name: the model language's rule for names
+ * (docs/language.md): letters, digits and underscores, starting with a letter or underscore, with
+ * at least one letter, at most 64 characters.
+ */
 export function isModelName(name: string): boolean {
-  return IDENTIFIER_RE.test(name);
+  return IDENTIFIER_RE.test(name) && /[A-Za-z]/.test(name) && name.length <= 64;
 }
 
 /**
@@ -42,8 +46,8 @@ export function isModelName(name: string): boolean {
 export function modelNameFor(name: string): string {
   let s = name.trim().replace(/[^A-Za-z0-9_]+/g, '_').replace(/^_+|_+$/g, '');
   if (s === '') s = 'column';
-  if (!/^[A-Za-z_]/.test(s)) s = `c_${s}`;
-  return s.slice(0, 64);
+  if (!/^[A-Za-z]/.test(s)) s = `c_${s}`;
+  return s.slice(0, 64).replace(/_+$/, '');
 }
 
 /**
@@ -51,7 +55,7 @@ export function modelNameFor(name: string): string {
  * what to rename it to (the model language has no quoting for such names).
  */
 export function columnNameWarning(name: string): string {
-  return `Column name "${name}" cannot be used in a model (only letters, digits and underscores, starting with a letter): rename it in the file, e.g. to ${modelNameFor(name)}, and upload it again; the table is stored and its other columns can be used.`;
+  return `Column name "${name}" cannot be used in a model (a name is letters, digits and underscores, starts with a letter, at most 64 characters): rename it in the file, e.g. to ${modelNameFor(name)}, and upload it again; the table is stored and its other columns can be used.`;
 }
 
 export interface CsvIssue {
@@ -187,7 +191,7 @@ export function parseCsv(input: string | Uint8Array | ArrayBuffer, opts: CsvOpti
       });
     } else {
       seen.set(h, j);
-      if (!IDENTIFIER_RE.test(h)) {
+      if (!isModelName(h)) {
         issues.push({
           severity: 'warning',
           column: h,

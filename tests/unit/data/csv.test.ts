@@ -118,7 +118,12 @@ describe('parseCsv: problems are reported with row and column', () => {
     expect(modelNameFor('temp level')).toBe('temp_level');
     expect(modelNameFor('yield (t/ha)')).toBe('yield_t_ha');
     expect(modelNameFor('2024 rain')).toBe('c_2024_rain');
-    for (const n of ['temp level', 'yield (t/ha)', '2024 rain', '%%']) expect(isModelName(modelNameFor(n))).toBe(true);
+    expect(modelNameFor('x'.repeat(70))).toHaveLength(64);
+    for (const n of ['temp level', 'yield (t/ha)', '2024 rain', '%%', '_1', 'a'.repeat(70)]) expect(isModelName(modelNameFor(n))).toBe(true);
+    // The language's own name rule (docs/language.md, "Names"): a letter is required, 64 characters at most.
+    expect(isModelName('_1')).toBe(false);
+    expect(isModelName('a'.repeat(65))).toBe(false);
+    expect(isModelName('temp_level')).toBe(true);
   });
 
   it('an empty file is an error', () => {
