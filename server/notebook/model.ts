@@ -45,7 +45,7 @@ export interface ModelCheck {
 /** Check a program against tables; with `region`, also test the constraint set for an interior. */
 export function checkModel(source: string, tables: DataTables, region: boolean): ModelCheck {
   const check = checkProgram(source, schemaOf(tables));
-  const messages = check.messages.map((m) => ({ severity: m.severity, message: m.suggestion ? `${m.message} ${m.suggestion}` : m.message, line: m.line, column: m.column }));
+  const messages = check.messages.map((m) => ({ severity: m.severity, message: m.suggestion ? `${m.message}; ${m.suggestion}` : m.message, line: m.line, column: m.column }));
   let rows: ModelCheck['rows'] = null;
   let regionStatus: CompileResponse['region'] = { status: 'unchecked', message: check.ok ? 'Not checked.' : 'Fix the problems listed below first.' };
   const tooMany = check.ok && check.dim > MAX_UNKNOWNS;

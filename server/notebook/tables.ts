@@ -9,10 +9,8 @@ import type { CsvResult, ParsedTable } from '../../shared/data';
 /** One sentence per error, naming the row and the column where the reader knows them. */
 export function describeCsvErrors(result: CsvResult): string {
   const errors = result.issues.filter((i) => i.severity === 'error');
-  const parts = errors.slice(0, 3).map((i) => {
-    const where = [i.row !== undefined ? `row ${i.row}` : null, i.column !== undefined ? `column "${i.column}"` : null].filter(Boolean).join(', ');
-    return where && !i.message.toLowerCase().startsWith('row') ? `${where}: ${i.message}` : i.message;
-  });
+  // Each message of the CSV reader names its own row and column.
+  const parts = errors.slice(0, 3).map((i) => i.message);
   const more = errors.length > 3 ? ` (and ${errors.length - 3} more problem${errors.length - 3 > 1 ? 's' : ''})` : '';
   return `The file was not stored. ${parts.join(' ')}${more}`;
 }

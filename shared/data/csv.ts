@@ -8,7 +8,8 @@
  *   their row and column ("not UTF-8");
  * - the first row must be a header of distinct, non-empty column names; a first row made only of
  *   numbers is reported as a missing header;
- * - rows with more or fewer cells than the header are reported (ragged rows), with the row number;
+ * - rows with more or fewer cells than the header are reported (ragged rows), one message per row
+ *   ("Row 3 has 2 cells; the header has 3.");
  * - cells are trimmed; a cell is missing when it is empty or one of MISSING_TOKENS (any case);
  *   missing cells become NaN and are reported per column with their rows;
  * - column types: `integer` when every present cell is a whole number, `numeric` when every present
@@ -16,7 +17,8 @@
  *   by natural string order (so "dose 2" comes before "dose 10").
  *
  * Row numbers in messages count data rows from 1 (the header is not counted); column names are the
- * header's.
+ * header's. Every message names its own row and column, so it reads whole without a prefix
+ * (`row` and `column` are there for tools that sort or point at cells).
  */
 import Papa from 'papaparse';
 import type { ParsedTable, TableColumn } from './types';
@@ -26,6 +28,35 @@ export const MISSING_TOKENS = ['', 'na', 'n/a', 'nan', 'null'] as const;
 const NUMBER_RE = /^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/;
 /** Names a model can refer to: a letter or underscore, then letters, digits, underscores. */
 const IDENTIFIER_RE = /^[A-Za-z_][A-Za-z0-9_]*$/;
+
+/**
+ * Whether a model can refer to this column by name: the model language's rule for names
+ * (docs/language.md): letters, digits and underscores, starting with a letter or underscore, with
+ * at least one letter, at most 64 characters.
+ */
+export function isModelName(name: string): boolean {
+  return IDENTIFIER_RE.test(name) && /[A-Za-z]/.test(name) && name.length <= 64;
+}
+
+/**
+ * A name a model could use for a column whose header it cannot: runs of other characters become
+ * one underscore ("temp level" → "temp_level", "yield (t/ha)" → "yield_t_ha"); a name that would
+ * start with a digit gets "c_" in front.
+ */
+export function modelNameFor(name: string): string {
+  let s = name.trim().replace(/[^A-Za-z0-9_]+/g, '_').replace(/^_+|_+$/g, '');
+  if (s === '') s = 'column';
+  if (!/^[A-Za-z]/.test(s)) s = `c_${s}`;
+  return s.slice(0, 64).replace(/_+$/, '');
+}
+
+/**
+ * The warning for a column name a model cannot use: the file is still stored, and the message says
+ * what to rename it to (the model language has no quoting for such names).
+ */
+export function columnNameWarning(name: string): string {
+  return `Column name "${name}" cannot be used in a model (a name is letters, digits and underscores, starts with a letter, at most 64 characters): rename it in the file, e.g. to ${modelNameFor(name)}, and upload it again; the table is stored and its other columns can be used.`;
+}
 
 export interface CsvIssue {
   severity: 'error' | 'warning';
@@ -160,44 +191,37 @@ export function parseCsv(input: string | Uint8Array | ArrayBuffer, opts: CsvOpti
       });
     } else {
       seen.set(h, j);
-      if (!IDENTIFIER_RE.test(h)) {
+      if (!isModelName(h)) {
         issues.push({
           severity: 'warning',
           column: h,
-          message: `Column name "${h}" cannot be used in a model: use letters, digits and underscores, starting with a letter.`,
+          message: columnNameWarning(h),
         });
       }
     }
   });
 
-  // Ragged rows.
-  const short: number[] = [];
-  const long: number[] = [];
-  let shortCount = 0;
-  let longCount = 0;
-  body.forEach((r, i) => {
-    if (r.length < header.length) {
-      shortCount++;
-      if (short.length < maxListed) short.push(i + 1);
-    } else if (r.length > header.length) {
-      longCount++;
-      if (long.length < maxListed) long.push(i + 1);
+  // Ragged rows: one message per row (up to maxListed of each kind), naming the row once and
+  // saying what is wrong, then one line for the rest.
+  const ragged = (kind: 'fewer' | 'more') => {
+    const rows: { row: number; cells: number }[] = [];
+    body.forEach((r, i) => {
+      if (kind === 'fewer' ? r.length < header.length : r.length > header.length) rows.push({ row: i + 1, cells: r.length });
+    });
+    const cellWord = (n: number) => `${n} cell${n === 1 ? '' : 's'}`;
+    for (const { row, cells } of rows.slice(0, maxListed)) {
+      issues.push({ severity: 'error', row, message: `Row ${row} has ${cellWord(cells)}; the header has ${header.length}.` });
     }
-  });
-  if (shortCount > 0) {
-    issues.push({
-      severity: 'error',
-      row: short[0],
-      message: `${shortCount} row${shortCount > 1 ? 's have' : ' has'} fewer cells than the header's ${header.length} (row ${listRows(short, shortCount)}).`,
-    });
-  }
-  if (longCount > 0) {
-    issues.push({
-      severity: 'error',
-      row: long[0],
-      message: `${longCount} row${longCount > 1 ? 's have' : ' has'} more cells than the header's ${header.length} (row ${listRows(long, longCount)}).`,
-    });
-  }
+    const rest = rows.length - maxListed;
+    if (rest > 0) {
+      issues.push({
+        severity: 'error',
+        message: `${rest} more row${rest > 1 ? 's have' : ' has'} ${kind} cells than the header's ${header.length}.`,
+      });
+    }
+  };
+  ragged('fewer');
+  ragged('more');
 
   // Columns.
   const nRows = body.length;
@@ -240,7 +264,7 @@ export function parseCsv(input: string | Uint8Array | ArrayBuffer, opts: CsvOpti
         severity: 'warning',
         row: missingRows[0],
         column: name,
-        message: `Column "${name}" has ${missing} missing value${missing > 1 ? 's' : ''} (row ${listRows(missingRows, missing)}).`,
+        message: `Column "${name}" has ${missing} missing value${missing > 1 ? 's' : ''} (row${missing > 1 ? 's' : ''} ${listRows(missingRows, missing)}).`,
       });
     }
     const values = new Float64Array(nRows);

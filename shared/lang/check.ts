@@ -104,6 +104,8 @@ class Checker {
   offset = 0;
   /** Names declared anywhere (for "declared later" messages). */
   laterDecl = new Map<string, number>();
+  /** Names whose declaring line had an error, with that line (their uses say so, not "unknown name"). */
+  failedDecl = new Map<string, number>();
   schemaTables = new Map<string, DataSchema[string]>();
   line = 0;
 
@@ -165,6 +167,9 @@ class Checker {
     if (KEYWORD_NAMES.has(name)) throw new LangError(e.span, `\`${name}\` is a keyword and cannot be used as a value`);
     if (this.boundSet.has(name) || this.schemaTables.has(name))
       throw new LangError(e.span, `\`${name}\` is a table; use one of its columns, as in ${name}.column`);
+    const failed = this.failedDecl.get(name);
+    if (failed !== undefined && failed < this.line)
+      throw new LangError(e.span, `\`${name}\` is not declared: its line ${failed} has an error; fix that line first`);
     const later = this.laterDecl.get(name);
     if (later !== undefined && later >= this.line)
       throw new LangError(e.span, `\`${name}\` is used before it is declared on line ${later}; declare names on earlier lines`);
@@ -356,6 +361,60 @@ class Checker {
     }
   }
 
+  /**
+   * Every name on a line that cannot be resolved (unknown names, columns, tables, functions), each
+   * with its own message. Name resolution does not depend on the rest of the line, so these are
+   * independent problems: after the first error of a line, the others are still reported.
+   */
+  nameProblems(s: Statement): LangError[] {
+    const out: LangError[] = [];
+    const attempt = (f: () => unknown) => {
+      try {
+        f();
+      } catch (err) {
+        if (err instanceof LangError) out.push(err);
+        else throw err;
+      }
+    };
+    const walk = (e: Expr): void => {
+      switch (e.kind) {
+        case 'num':
+          return;
+        case 'name':
+          return attempt(() => this.resolveName(e));
+        case 'member':
+          return attempt(() => this.infer(e));
+        case 'index':
+          walk(e.base);
+          return walk(e.index);
+        case 'unary':
+          return walk(e.arg);
+        case 'binary':
+          walk(e.left);
+          return walk(e.right);
+        case 'compare':
+          return e.operands.forEach(walk);
+        case 'array':
+          return e.items.forEach(walk);
+        case 'call':
+          if (!FUNCTIONS.has(e.fn)) {
+            attempt(() => this.inferCall(e));
+          }
+          return e.args.forEach(walk);
+      }
+    };
+    switch (s.kind) {
+      case 'table':
+        break;
+      case 'unknown':
+        for (const d of s.decls) if (d.lengthName !== undefined) attempt(() => this.constLength(d.lengthName!, d.lengthSpan!));
+        break;
+      default:
+        walk(s.expr);
+    }
+    return out;
+  }
+
   /* ---------------------------------------------------------------- statements */
 
   /**
@@ -494,6 +553,15 @@ class Checker {
   }
 }
 
+/** Names a statement declares. */
+function declaredNames(s: Statement): string[] {
+  return s.kind === 'unknown'
+    ? s.decls.map((d) => d.name)
+    : s.kind === 'const' || s.kind === 'let' || s.kind === 'derive' || s.kind === 'replicate'
+      ? [s.name]
+      : [];
+}
+
 /** Check a program against a data schema (column names, types and row counts). */
 export function checkProgram(source: string, schema: DataSchema): CheckResult {
   const safeSchema: DataSchema = Object.create(null) as DataSchema;
@@ -505,13 +573,7 @@ export function checkProgram(source: string, schema: DataSchema): CheckResult {
   for (const p of parsed) {
     const s = p.statement;
     if (!s) continue;
-    const names: string[] =
-      s.kind === 'unknown'
-        ? s.decls.map((d) => d.name)
-        : s.kind === 'const' || s.kind === 'let' || s.kind === 'derive' || s.kind === 'replicate'
-          ? [s.name]
-          : [];
-    for (const n of names) if (!c.laterDecl.has(n)) c.laterDecl.set(n, s.line);
+    for (const n of declaredNames(s)) if (!c.laterDecl.has(n)) c.laterDecl.set(n, s.line);
   }
   for (const p of parsed) {
     if (p.error) {
@@ -525,6 +587,22 @@ export function checkProgram(source: string, schema: DataSchema): CheckResult {
     } catch (e) {
       if (e instanceof LangError) c.msg(p.line, e.span, e.message, e.suggestion);
       else c.msg(p.line, { start: 0, end: Math.max(1, p.statement.text.length) }, 'could not check this line');
+      // The line's other names that cannot be resolved are independent problems: report them too.
+      const first = e instanceof LangError ? e : undefined;
+      let more: LangError[] = [];
+      try {
+        more = c.nameProblems(p.statement);
+      } catch {
+        more = [];
+      }
+      const seen = new Set(first ? [`${first.span.start}:${first.span.end}:${first.message}`] : []);
+      for (const m of more) {
+        const key = `${m.span.start}:${m.span.end}:${m.message}`;
+        if (seen.has(key)) continue;
+        seen.add(key);
+        c.msg(p.line, m.span, m.message, m.suggestion);
+      }
+      for (const n of declaredNames(p.statement)) if (!c.syms.has(n) && !c.failedDecl.has(n)) c.failedDecl.set(n, p.line);
     }
   }
   const program: Program = { statements };

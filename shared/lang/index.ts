@@ -43,6 +43,7 @@ export {
 export { LangError, parseLine, scan, MAX_NAME_LENGTH, ROLE_MARK } from './parse';
 export { closest, editDistance } from './suggest';
 export { isLikelihoodTerm } from './roles';
+export { categoryIndexes, elementLabels, type CategoryIndex } from './levels';
 
 /**
  * Constraint rows with data values filled in. `ast` is a checked program with its dimension

@@ -4,6 +4,7 @@ import { roleAtLeast, type Workspace } from '@shared/api';
 import { QueryState } from '@/components/query-state';
 import { notebooksQueryOptions, useNotebooks } from '@/features/notebooks/api/get-notebooks';
 import { CreateNotebookForm } from '@/features/notebooks/components/create-notebook-form';
+import { ImportNotebookFile } from '@/features/notebooks/components/import-notebook-file';
 import { NotebookList } from '@/features/notebooks/components/notebook-list';
 
 export const makeLoader = (qc: QueryClient) => async ({ params }: LoaderFunctionArgs) => {
@@ -18,8 +19,9 @@ export default function WorkspaceNotebooksRoute() {
   return (
     <div className="flex flex-col gap-6">
       {canEdit && (
-        <div className="sheet p-5">
+        <div className="sheet flex flex-col gap-4 p-5">
           <CreateNotebookForm workspaceId={workspace.id} />
+          <ImportNotebookFile workspaceId={workspace.id} />
         </div>
       )}
       <QueryState query={notebooks} loadingLabel="Loading notebooks…" errorTitle="Could not load the notebooks">

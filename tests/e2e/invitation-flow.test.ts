@@ -61,6 +61,10 @@ describe('invitation flow', () => {
 
     await page.getByLabel('New notebook title').fill('Yield by drip rate, ordered');
     await page.getByRole('button', { name: 'Create notebook' }).click();
+    // creating a notebook opens it; its header leads back to the workspace's list
+    await page.getByRole('heading', { name: 'Yield by drip rate, ordered' }).first().waitFor();
+    await page.getByRole('link', { name: /notebooks/ }).first().click();
+    await page.waitForURL(`**${workspacePath}`);
     await page.getByRole('link', { name: 'Yield by drip rate, ordered' }).waitFor();
 
     await page.getByRole('link', { name: 'Members' }).click();

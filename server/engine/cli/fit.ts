@@ -63,10 +63,8 @@ function loadTables(args: CliArgs, io: CliIo): DataTables {
     const bytes = readOrFail(io, d.path, 'data file');
     const r = parseCsv(bytes);
     for (const issue of r.issues) {
-      const where = [issue.row !== undefined ? `row ${issue.row}` : '', issue.column ? `column "${issue.column}"` : '']
-        .filter(Boolean)
-        .join(', ');
-      io.stderr(`${d.path}: ${issue.severity}${where ? ` (${where})` : ''}: ${issue.message}\n`);
+      // Each message names its own row and column.
+      io.stderr(`${d.path}: ${issue.severity}: ${issue.message}\n`);
     }
     if (!r.table) throw new InputError(`The data file "${d.path}" has errors (listed above).`);
     tables[d.name] = r.table;

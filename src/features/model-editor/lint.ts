@@ -8,6 +8,7 @@ import { linter, type Diagnostic } from '@codemirror/lint';
 import type { EditorView } from '@codemirror/view';
 import { checkProgram, type CheckResult, type LangMessage } from '@shared/lang';
 import { schemaFacet } from './schema';
+import { messageElement } from '@/components/message-text';
 
 const NAME = /^[A-Za-z_][A-Za-z0-9_]*(?:\.[A-Za-z_][A-Za-z0-9_]*)?$/;
 
@@ -50,11 +51,14 @@ export function messagesToDiagnostics(view: EditorView, messages: readonly LangM
       from = Math.max(line.from, Math.min(from, line.to - 1));
       to = Math.max(from, line.to);
     }
+    const message = m.suggestion ? `${m.message}; ${m.suggestion}` : m.message;
     const d: Diagnostic = {
       from,
       to,
       severity: m.severity,
-      message: m.suggestion ? `${m.message}; ${m.suggestion}` : m.message,
+      message,
+      // Backtick spans shown as inline code in the tooltip.
+      renderMessage: (v) => messageElement(message, v.dom.ownerDocument),
       source: 'model check',
     };
     const fix = suggestedFix(m.suggestion);

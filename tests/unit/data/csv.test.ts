@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { decodeBytes, parseCsv } from '../../../shared/data';
+import { decodeBytes, isModelName, modelNameFor, parseCsv } from '../../../shared/data';
 import type { DataTable } from '../../../server/engine/types';
 
 const enc = (s: string) => new TextEncoder().encode(s);
@@ -69,7 +69,7 @@ describe('parseCsv: problems are reported with row and column', () => {
     expect(Number.isNaN(r.table!.columns.yield.values[1])).toBe(true);
     expect(r.columns[1]).toMatchObject({ missing: 2, missingRows: [2, 3] });
     expect(r.issues).toEqual([
-      { severity: 'warning', row: 2, column: 'yield', message: 'Column "yield" has 2 missing values (row 2, 3).' },
+      { severity: 'warning', row: 2, column: 'yield', message: 'Column "yield" has 2 missing values (rows 2, 3).' },
     ]);
   });
 
@@ -77,8 +77,16 @@ describe('parseCsv: problems are reported with row and column', () => {
     const r = parseCsv('a,b,c\n1,2,3\n4,5\n6,7,8,9\n1,2,3\n');
     expect(r.table).toBeNull();
     const msgs = r.issues.filter((i) => i.severity === 'error').map((i) => i.message);
-    expect(msgs).toContain("1 row has fewer cells than the header's 3 (row 2).");
-    expect(msgs).toContain("1 row has more cells than the header's 3 (row 3).");
+    // Each message names its row once and says what is wrong.
+    expect(msgs).toEqual(['Row 2 has 2 cells; the header has 3.', 'Row 3 has 4 cells; the header has 3.']);
+    expect(r.issues.filter((i) => i.severity === 'error').map((i) => i.row)).toEqual([2, 3]);
+  });
+
+  it('ragged rows beyond the listed few are counted in one more message', () => {
+    const r = parseCsv('a,b\n1\n2\n3\n4,5\n', { maxListed: 2 });
+    const msgs = r.issues.filter((i) => i.severity === 'error').map((i) => i.message);
+    expect(msgs).toEqual(['Row 1 has 1 cell; the header has 2.', 'Row 2 has 1 cell; the header has 2.', "1 more row has fewer cells than the header's 2."]);
+    for (const m of msgs) expect(m.match(/\brow \d/gi)?.length ?? 0).toBeLessThanOrEqual(1);
   });
 
   it('a header of numbers is reported as a missing header', () => {
@@ -94,6 +102,28 @@ describe('parseCsv: problems are reported with row and column', () => {
     expect(m).toContain('error: Column 2 has no name in the header row.');
     expect(m).toContain('error: Column name "a" appears twice (columns 1 and 3).');
     expect(m.some((s) => s.startsWith('warning: Column name "yield (t/ha)" cannot be used'))).toBe(true);
+  });
+
+  it('a column name with a space is stored with a warning naming a usable name', () => {
+    const r = parseCsv('temp level,y\n1,2\n');
+    expect(r.table).not.toBeNull();
+    expect(r.table!.columns['temp level'].values[0]).toBe(1);
+    const w = r.issues.filter((i) => i.severity === 'warning');
+    expect(w).toHaveLength(1);
+    expect(w[0].column).toBe('temp level');
+    expect(w[0].message).toContain('rename it in the file, e.g. to temp_level');
+  });
+
+  it('modelNameFor turns a header into a name the model language accepts', () => {
+    expect(modelNameFor('temp level')).toBe('temp_level');
+    expect(modelNameFor('yield (t/ha)')).toBe('yield_t_ha');
+    expect(modelNameFor('2024 rain')).toBe('c_2024_rain');
+    expect(modelNameFor('x'.repeat(70))).toHaveLength(64);
+    for (const n of ['temp level', 'yield (t/ha)', '2024 rain', '%%', '_1', 'a'.repeat(70)]) expect(isModelName(modelNameFor(n))).toBe(true);
+    // The language's own name rule (docs/language.md, "Names"): a letter is required, 64 characters at most.
+    expect(isModelName('_1')).toBe(false);
+    expect(isModelName('a'.repeat(65))).toBe(false);
+    expect(isModelName('temp_level')).toBe(true);
   });
 
   it('an empty file is an error', () => {

@@ -125,7 +125,7 @@ describe('fit command (module model, in-process chains)', () => {
   it('exits 1 on a bad CSV, naming the row', async () => {
     const io = memoryIo({ 'trial.csv': 'plot,y\n1,4.8\n2\n' });
     expect(await main([...base], io, { parallel: false })).toBe(1);
-    expect(io.err).toMatch(/trial\.csv: error \(row 2\): 1 row has fewer cells than the header's 2 \(row 2\)\./);
+    expect(io.err).toMatch(/trial\.csv: error: Row 2 has 1 cell; the header has 2\.\n/);
   });
 
   it('reports compile errors as file:line:column', async () => {

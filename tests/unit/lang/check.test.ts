@@ -161,3 +161,41 @@ describe('named lengths and the symbol list', () => {
     expect(byName.get('gain')).toMatchObject({ kind: 'derive' });
   });
 });
+
+describe('every independent problem on a line is reported', () => {
+  it('two unknown names on one line both get a message, each at its own place', () => {
+    const src = 'table trial\nunknown mu[6]\nunknown sigma\nterm ld_normal(yeild, mu[levle], sigma)';
+    const es = errors(src);
+    expect(es.map((m) => [m.line, m.message])).toEqual([
+      [4, 'unknown name `yeild`'],
+      [4, 'unknown name `levle`'],
+    ]);
+    expect(es.map((m) => m.suggestion)).toEqual(['did you mean `yield`?', 'did you mean `level`?']);
+    expect(es[0].column).toBe('term ld_normal('.length + 1);
+  });
+
+  it('a name problem after a different first error on the same line is still reported', () => {
+    // ld_normal takes 3 arguments: the count error is thrown before the arguments are typed.
+    const es = errors('unknown mu\nterm ld_normal(mu, 0) + sgma');
+    expect(es.map((m) => m.message)).toEqual([expect.stringMatching(/takes 3 arguments/), 'unknown name `sgma`']);
+  });
+
+  it('an unknown function and an unknown name on one line are both reported', () => {
+    const es = errors('unknown mu\nterm ld_nrmal(mu, 0, sd)');
+    expect(es.map((m) => m.message)).toEqual(['unknown function `ld_nrmal`', 'unknown name `sd`']);
+  });
+
+  it('every line is checked, and a name whose line failed is not called unknown later', () => {
+    const es = errors('unknown mu\nlet y = mu + zz\nterm ld_normal(y, 0, 1)\nterm ld_normal(mu, 0, qq)');
+    expect(es.map((m) => [m.line, m.message])).toEqual([
+      [2, 'unknown name `zz`'],
+      [3, '`y` is not declared: its line 2 has an error; fix that line first'],
+      [4, 'unknown name `qq`'],
+    ]);
+  });
+
+  it('the same problem is not reported twice', () => {
+    const es = errors('unknown mu\nterm ld_normal(mu, 0, zz)');
+    expect(es).toHaveLength(1);
+  });
+});

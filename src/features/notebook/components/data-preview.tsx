@@ -1,6 +1,7 @@
 import { useMemo, useState } from 'react';
 import type { Dataset, PreviewValue } from '@shared/api/notebook';
 import { formatDataValue } from '@/lib/estimates';
+import { columnNameWarning, isModelName } from '@shared/data';
 
 export type SortDir = 'asc' | 'desc';
 
@@ -35,6 +36,8 @@ export function DataPreview({ dataset, rows }: DataPreviewProps) {
   const [sort, setSort] = useState<{ col: number; dir: SortDir } | null>(null);
   const sorted = useMemo(() => (sort ? sortRows(rows, sort.col, sort.dir) : rows), [rows, sort]);
   const missingTotal = dataset.columns.reduce((s, c) => s + c.missing, 0);
+  // Stored anyway; a model cannot name these columns until they are renamed in the file.
+  const unusable = dataset.columns.filter((c) => !isModelName(c.name));
 
   const toggle = (col: number) =>
     setSort((s) => (s && s.col === col ? (s.dir === 'asc' ? { col, dir: 'desc' } : null) : { col, dir: 'asc' }));
@@ -46,6 +49,13 @@ export function DataPreview({ dataset, rows }: DataPreviewProps) {
         {dataset.columns.length} columns ·{' '}
         {missingTotal === 0 ? 'no missing values' : <span data-testid="missing-report">{missingTotal} missing value{missingTotal === 1 ? '' : 's'} ({dataset.columns.filter((c) => c.missing > 0).map((c) => `${c.name}: ${c.missing}`).join(', ')})</span>}
       </p>
+      {unusable.length > 0 && (
+        <ul className="sl-data-notes" role="status" data-testid="column-name-warnings">
+          {unusable.map((c) => (
+            <li key={c.name}>{columnNameWarning(c.name)}</li>
+          ))}
+        </ul>
+      )}
       <div className="overflow-auto" style={{ maxHeight: '22rem' }}>
         <table className="sl-table">
           <thead>

@@ -1,4 +1,5 @@
 import type { CompileResponse } from '@shared/api/notebook';
+import { MessageText } from '@/components/message-text';
 
 const REGION_WORDS: Record<CompileResponse['region']['status'], string> = {
   interior: 'interior found',
@@ -63,7 +64,11 @@ export function ModelSidePanel({ check, checking, readOnly = false }: { check: C
             {REGION_WORDS[region.status]}
           </span>
         </p>
-        {region.message && <p className="sl-hint">{region.message}</p>}
+        {region.message && (
+          <p className="sl-hint" data-testid="region-message">
+            <MessageText text={region.message} />
+          </p>
+        )}
       </div>
       {errors.length > 0 && (
         <div>
@@ -71,10 +76,11 @@ export function ModelSidePanel({ check, checking, readOnly = false }: { check: C
           <ul>
             {errors.slice(0, 8).map((m, i) => (
               <li key={i}>
-                <span className="sl-num" style={{ color: 'var(--sl-ink-soft)' }}>{m.line}:{m.column}</span> {m.message}
+                <span className="sl-num" style={{ color: 'var(--sl-ink-soft)' }}>{m.line}:{m.column}</span> <MessageText text={m.message} />
               </li>
             ))}
           </ul>
+          {errors.length > 8 && <p className="sl-hint">and {errors.length - 8} more (marked in the editor)</p>}
         </div>
       )}
       {checking && <p className="sl-hint">re-checking…</p>}

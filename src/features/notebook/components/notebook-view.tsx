@@ -2,9 +2,8 @@
  * The notebook page body: the column of cells with their tools, autosave, conflicts, comments and
  * the keyboard. Members edit according to their role; share-link visitors and viewers read only.
  */
-import { useEffect, useLayoutEffect, useMemo, useRef, useState, type ChangeEvent } from 'react';
+import { useEffect, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import { useQueries, useQueryClient } from '@tanstack/react-query';
-import { useNavigate } from 'react-router-dom';
 import { CELL_KIND_LABELS, dataContentSchema, type NbCell, type NbCellKind } from '@shared/api/notebook';
 import type { DataSchema } from '@shared/lang';
 import { errorMessage } from '@/lib/api-client';
@@ -12,11 +11,11 @@ import { CellColumn, NOTEBOOK_KEYS } from './cell-column';
 import { CellFrame } from './cell-frame';
 import { ConflictDialog } from './conflict-dialog';
 import { CommentsPanel } from './comments-panel';
+import { fitModelCell, QuantityLabelsContext, quantityLabels } from '../quantity-labels';
 import { CompareCellView, DataCellView, FitCellView, ModelCellView, NotesCellView, type CellViewProps } from './cell-views';
 import { useCellDraft, type SaveState } from '../use-cell-draft';
 import {
   datasetQuery,
-  importNotebookFile,
   saveCell,
   useCellMutations,
   useCommentMutations,
@@ -71,9 +70,12 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
     .filter((x): x is string => !!x);
   const datasets = useQueries({ queries: dataIds.map((id) => datasetQuery(access, id)) });
   const schema: DataSchema = {};
+  // Level names of category columns, for labelling the elements of unknowns they gather.
+  const levels: Record<string, Record<string, readonly string[]>> = {};
   for (const q of datasets) {
     if (!q.data) continue;
     const d = q.data.dataset;
+    levels[d.name] = Object.fromEntries(d.columns.filter((c) => c.levels).map((c) => [c.name, c.levels!]));
     schema[d.name] = {
       rows: d.rows,
       columns: Object.fromEntries(d.columns.map((c) => [c.name, c.type === 'category' ? { type: c.type, levels: c.levels?.length ?? 0 } : { type: c.type }])),
@@ -135,7 +137,7 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
 
   return (
     <div className="sl-notebook flex flex-col gap-3">
-      {member && <NotebookToolbar access={access} canEdit={canEdit} />}
+      {member && <NotebookToolbar access={access} />}
       {!canEdit && member && (
         <div className="sl-banner" role="status" data-testid="read-only-banner">
           <strong>Read-only.</strong> Your role in this workspace lets you read{canComment ? ' and comment on' : ''} this notebook, not change it.
@@ -164,6 +166,7 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
             active={activeId === cell.id}
             onActivate={() => setActiveId(cell.id)}
             schema={schema}
+            levels={levels}
             runSignal={runSignals[cell.id] ?? 0}
             editingNotes={!!editingNotes[cell.id]}
             setEditingNotes={(v) => (v ? setEditingNotes((e) => ({ ...e, [cell.id]: true })) : closeNotes(cell.id))}
@@ -206,6 +209,7 @@ interface CellItemProps {
   active: boolean;
   onActivate: () => void;
   schema: DataSchema;
+  levels: Record<string, Record<string, readonly string[]>>;
   runSignal: number;
   editingNotes: boolean;
   setEditingNotes: (v: boolean) => void;
@@ -218,6 +222,20 @@ interface CellItemProps {
   toggleComments?: () => void;
   openCommentCount?: number;
   comments: React.ReactNode;
+}
+
+/** A fit cell whose results label the elements of unknowns gathered by a category column with level names. */
+function FitCellWithLabels({ viewProps, levels }: { viewProps: CellViewProps; levels: Record<string, Record<string, readonly string[]>> }) {
+  const model = fitModelCell(viewProps.cell, viewProps.cells, viewProps.content);
+  const source = model?.source ?? '';
+  // schema and levels are rebuilt on every render of the notebook: key the check on their contents.
+  const key = JSON.stringify([source, viewProps.schema, levels]);
+  const label = useMemo(() => quantityLabels(source, viewProps.schema, levels), [key]); // eslint-disable-line react-hooks/exhaustive-deps
+  return (
+    <QuantityLabelsContext.Provider value={label}>
+      <FitCellView {...viewProps} />
+    </QuantityLabelsContext.Provider>
+  );
 }
 
 function CellItem(p: CellItemProps) {
@@ -318,7 +336,7 @@ function CellItem(p: CellItemProps) {
         {cell.kind === 'notes' && <NotesCellView {...viewProps} />}
         {cell.kind === 'data' && <DataCellView {...viewProps} />}
         {cell.kind === 'model' && <ModelCellView {...viewProps} />}
-        {cell.kind === 'fit' && <FitCellView {...viewProps} />}
+        {cell.kind === 'fit' && <FitCellWithLabels viewProps={viewProps} levels={p.levels} />}
         {cell.kind === 'compare' && <CompareCellView {...viewProps} />}
         {draft.state === 'error' && draft.error && (
           <p className="sl-field-error" role="alert" style={{ marginTop: '0.5rem' }}>
@@ -344,44 +362,13 @@ function CellItem(p: CellItemProps) {
   );
 }
 
-function NotebookToolbar({ access, canEdit }: { access: Extract<NotebookAccess, { mode: 'member' }>; canEdit: boolean }) {
-  const navigate = useNavigate();
-  const fileRef = useRef<HTMLInputElement>(null);
-  const [error, setError] = useState<string | null>(null);
-  const [busy, setBusy] = useState(false);
-  const onImport = async (e: ChangeEvent<HTMLInputElement>) => {
-    const f = e.target.files?.[0];
-    e.target.value = '';
-    if (!f) return;
-    setBusy(true);
-    setError(null);
-    try {
-      const res = await importNotebookFile(access.workspaceId, f);
-      navigate(`/w/${access.workspaceId}/n/${res.notebook.id}`);
-    } catch (err) {
-      setError(errorMessage(err));
-    } finally {
-      setBusy(false);
-    }
-  };
+function NotebookToolbar({ access }: { access: Extract<NotebookAccess, { mode: 'member' }> }) {
+  // Importing a notebook file creates a new notebook: it lives on the notebook list.
   return (
     <div className="flex flex-wrap items-center gap-2">
       <a className="sl-btn sl-btn-outline" href={`/api/workspaces/${encodeURIComponent(access.workspaceId)}/notebooks/${encodeURIComponent(access.notebookId)}/export`} download>
         Export notebook file
       </a>
-      {canEdit && (
-        <>
-          <button type="button" className="sl-btn sl-btn-outline" disabled={busy} onClick={() => fileRef.current?.click()}>
-            {busy ? 'Importing…' : 'Import a notebook file'}
-          </button>
-          <input ref={fileRef} type="file" accept=".json,application/json" hidden onChange={onImport} aria-label="Notebook file to import" />
-        </>
-      )}
-      {error && (
-        <span className="sl-field-error" role="alert">
-          {error}
-        </span>
-      )}
     </div>
   );
 }

@@ -3,6 +3,7 @@ import type { QuantitySummary } from '@shared/fit';
 import { DIAGNOSTIC_THRESHOLDS, essFails, essNeeded, rhatFails } from '@shared/diagnostics';
 import { familyOf } from '@/lib/plot/mixing';
 import { formatEss, formatEstimate, formatRhat } from '@/lib/estimates';
+import { useQuantityLabel } from '../quantity-labels';
 
 export interface QuantityRowsProps {
   quantities: QuantitySummary[];
@@ -61,6 +62,7 @@ function IntervalMark({ q, axis }: { q: QuantitySummary; axis: [number, number] 
  */
 export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
   const axes = familyAxes(quantities);
+  const nameLabel = useQuantityLabel();
   const total = chains * draws;
   const cap = total * Math.log10(Math.max(10, total));
   const anyAbove = quantities.some((q) => q.essBulk > total || q.essTail > total);
@@ -95,7 +97,7 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
                   >
                     {ok ? '✓' : '!'}
                   </span>
-                  <span className="sl-mono sl-q-name" title={q.name}>{q.name}</span>
+                  <span className="sl-mono sl-q-name" title={nameLabel(q.name)}>{nameLabel(q.name)}</span>
                   <span className="sl-q-fig">
                     <IntervalMark q={q} axis={axes.get(`${q.kind}:${familyOf(q.name)}`)!} />
                   </span>
@@ -133,7 +135,7 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
                 const tf = essFails(q.essTail, chains);
                 return (
                   <tr key={q.name}>
-                    <th scope="row" className="sl-mono" style={{ textAlign: 'left', fontWeight: 500 }}>{q.name}</th>
+                    <th scope="row" className="sl-mono" style={{ textAlign: 'left', fontWeight: 500 }}>{nameLabel(q.name)}</th>
                     <td className={`sl-num${rf ? ' sl-fail' : ''}`}>{formatRhat(q.rhat)}</td>
                     <td className={`sl-num${bf ? ' sl-fail' : ''}`}>{formatEss(q.essBulk)}{essNote(q.essBulk)}</td>
                     <td className={`sl-num${tf ? ' sl-fail' : ''}`}>{formatEss(q.essTail)}{essNote(q.essTail)}</td>

@@ -1,3 +1,4 @@
+import { useNavigate } from 'react-router-dom';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
 import { Input } from '@/components/ui/input';
@@ -6,8 +7,10 @@ import { useCreateNotebook } from '../api/create-notebook';
 
 const FIELDS = ['title'] as const;
 
+/** Create a notebook and open it. */
 export function CreateNotebookForm({ workspaceId }: { workspaceId: string }) {
   const create = useCreateNotebook();
+  const navigate = useNavigate();
   const errors = useFormErrors(create.error, FIELDS);
   return (
     <form
@@ -19,7 +22,7 @@ export function CreateNotebookForm({ workspaceId }: { workspaceId: string }) {
         e.preventDefault();
         create.mutate(
           { workspaceId, title: formValues(e.currentTarget).title ?? '' },
-          { onSuccess: () => errors.formRef.current?.reset() },
+          { onSuccess: (notebook) => navigate(`/w/${workspaceId}/n/${notebook.id}`) },
         );
       }}
     >

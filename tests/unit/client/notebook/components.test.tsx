@@ -141,6 +141,21 @@ describe('data preview', () => {
     expect(yieldCol()).toEqual(['3.5', '·', '1.25', '2']);
   });
 
+  it('warns about a column name a model cannot use, naming one it could, and still shows the table', () => {
+    const spaced: Dataset = { ...DATASET, columns: [{ name: 'temp level', type: 'numeric', missing: 0 }, ...DATASET.columns.slice(1)] };
+    render(<DataPreview dataset={spaced} rows={ROWS} />);
+    const notes = screen.getByTestId('column-name-warnings').querySelectorAll('li');
+    expect(notes).toHaveLength(1);
+    expect(notes[0].textContent).toContain('"temp level" cannot be used in a model');
+    expect(notes[0].textContent).toContain('e.g. to temp_level');
+    expect(screen.getAllByRole('row')).toHaveLength(5);
+  });
+
+  it('has no column-name note when every name is usable', () => {
+    render(<DataPreview dataset={DATASET} rows={ROWS} />);
+    expect(screen.queryByTestId('column-name-warnings')).toBeNull();
+  });
+
   it('sortRows compares numbers as numbers (10 after 2)', () => {
     expect(sortRows(ROWS, 1, 'asc').map((r) => r[1])).toEqual([1, 2, 3, 10]);
     expect(sortRows(ROWS, 0, 'desc').map((r) => r[0])).toEqual(['south', 'south', 'north', 'north']);
