@@ -19,6 +19,7 @@ import { FitResults } from './fit-results';
 import { RunsList } from './runs-list';
 import { CompareCell } from './compare-cell';
 import { NotesCell } from './notes-cell';
+import { MessageText } from '../../../components/message-text';
 import { datasetQuery, runExportLinks, uploadDataset, useCellRuns, useModelCheck, useRunDraws, useRunMutations, useSharedModelCheck, type NotebookAccess } from '../api/notebook-api';
 
 export interface CellViewProps {
@@ -196,7 +197,7 @@ export function FitCellView(p: CellViewProps) {
       />
       {runError && (
         <p className="sl-field-error" role="alert">
-          {runError}
+          <MessageText text={runError} />
         </p>
       )}
       {active && (
@@ -209,7 +210,7 @@ export function FitCellView(p: CellViewProps) {
       )}
       {latest && latest.status === 'failed' && (!shown || latest.createdAt > shown.createdAt) && (
         <p className="sl-banner" role="alert">
-          <strong>The last fit failed.</strong> {latest.error}
+          <strong>The last fit failed.</strong> <MessageText text={latest.error ?? ''} />
         </p>
       )}
       {latest && latest.status === 'cancelled' && (!shown || latest.createdAt > shown.createdAt) && <p className="sl-cell-sub">The last fit was cancelled.</p>}
