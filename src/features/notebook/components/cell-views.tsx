@@ -19,7 +19,7 @@ import { FitResults } from './fit-results';
 import { RunsList } from './runs-list';
 import { CompareCell } from './compare-cell';
 import { NotesCell } from './notes-cell';
-import { MessageText } from '../../../components/message-text';
+import { MessageText } from '@/components/message-text';
 import { datasetQuery, runExportLinks, uploadDataset, useCellRuns, useModelCheck, useRunDraws, useRunMutations, useSharedModelCheck, type NotebookAccess } from '../api/notebook-api';
 
 export interface CellViewProps {
