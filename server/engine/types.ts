@@ -66,7 +66,18 @@ export type TargetSpec =
 /* Samplers (server/engine/samplers) ↔ fit orchestration (server/engine/fit.ts)                */
 /* ------------------------------------------------------------------------------------------ */
 
-export type SamplerName = 'rhmc' | 'hitrun';
+/** Engines a chain can run with (see docs/engine.md §7); 'auto' is resolved before chains start. */
+export type SamplerName =
+  | 'rhmc'
+  | 'rhmc-gl'
+  | 'hitrun'
+  | 'hitrun-plain'
+  | 'coord-hitrun'
+  | 'ball-walk'
+  | 'dikin-walk'
+  | 'rwm'
+  | 'transform-hmc'
+  | 'reflect-hmc';
 
 export interface ChainOptions {
   warmup: number;
@@ -103,6 +114,11 @@ export interface ChainOutput {
   stepSize: number;
   /** Mean metric factorisations per integrator step (RHMC). */
   factorizationsPerStep?: number;
+  /**
+   * Modelled linear-algebra work of the whole chain in flops, density evaluations excluded (the
+   * automatic choice's deterministic cost model; absent for samplers that do not count it).
+   */
+  work?: number;
 }
 
 /** One chain's kept output plus the derived quantities evaluated per draw. */

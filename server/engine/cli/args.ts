@@ -2,7 +2,7 @@
  * Command-line arguments of the headless fit:
  *
  *   npm run fit -- <model file> [--data name=path.csv | --data path.csv]... [--chains N]
- *       [--warmup N] [--draws N] [--seed N] [--sampler auto|rhmc|hitrun] [--json]
+ *       [--warmup N] [--draws N] [--seed N] [--sampler auto|ENGINE] [--json]
  *       [--draws-out file.csv] [--mode] [--export NAME]
  *
  * A model file ending in .ts, .mts, .js or .mjs is an ES module whose export (default `target`, or
@@ -10,7 +10,7 @@
  */
 import { parseArgs } from 'node:util';
 import path from 'node:path';
-import { FIT_LIMITS, SAMPLERS, type FitSettings } from '../../../shared/fit';
+import { ENGINES, FIT_LIMITS, SAMPLERS, type FitSettings } from '../../../shared/fit';
 
 export class UsageError extends Error {
   constructor(message: string) {
@@ -28,7 +28,7 @@ Options:
   --warmup N             warm-up iterations per chain (${FIT_LIMITS.warmup.min}–${FIT_LIMITS.warmup.max}, default 1000)
   --draws N              kept draws per chain (${FIT_LIMITS.draws.min}–${FIT_LIMITS.draws.max}, default 1000)
   --seed N               random seed (0–2147483647, default 20261201)
-  --sampler NAME         auto (default), rhmc or hitrun
+  --sampler NAME         auto (default) or an engine: ${ENGINES.join(', ')}
   --mode                 also report the maximum a posteriori point
   --json                 print the summary as JSON (see docs/engine.md)
   --draws-out FILE       write every draw to FILE as CSV with chain and iteration columns

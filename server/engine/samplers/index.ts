@@ -7,6 +7,12 @@ import { isFlat } from '../geometry';
 import { Rng } from '../rng';
 import { hitRunChain } from './hitrun';
 import { rhmcChain } from './rhmc';
+import { ballWalkChain } from './ball-walk';
+import { coordHitRunChain } from './coord-hitrun';
+import { dikinWalkChain } from './dikin-walk';
+import { rwmChain } from './rwm';
+import { reflectHmcChain } from './reflect-hmc';
+import { transformHmcChain } from './transform-hmc';
 
 /**
  * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
@@ -65,9 +71,30 @@ export function sampleChain(p: PreparedTarget, sampler: SamplerName, start: Floa
   if (isFlat(p) && !p.bounded) {
     throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
   }
-  if (sampler === 'hitrun') return hitRunChain(p, start, opts, rng, check);
-  if (sampler === 'rhmc') return rhmcChain(p, start, opts, rng, check);
-  throw new Error(`unknown sampler "${String(sampler)}"`);
+  switch (sampler) {
+    case 'rhmc':
+      return rhmcChain(p, start, opts, rng, check, {});
+    case 'rhmc-gl':
+      return rhmcChain(p, start, opts, rng, check, { integrator: 'leapfrog' });
+    case 'hitrun':
+      return hitRunChain(p, start, opts, rng, check, true);
+    case 'hitrun-plain':
+      return hitRunChain(p, start, opts, rng, check, false);
+    case 'coord-hitrun':
+      return coordHitRunChain(p, start, opts, rng, check);
+    case 'ball-walk':
+      return ballWalkChain(p, start, opts, rng, check);
+    case 'dikin-walk':
+      return dikinWalkChain(p, start, opts, rng, check);
+    case 'rwm':
+      return rwmChain(p, start, opts, rng, check);
+    case 'transform-hmc':
+      return transformHmcChain(p, start, opts, rng, check);
+    case 'reflect-hmc':
+      return reflectHmcChain(p, start, opts, rng, check);
+    default:
+      throw new Error(`unknown sampler "${String(sampler)}"`);
+  }
 }
 
 /** Picks a sampler by the model's structure and says why in one sentence. */

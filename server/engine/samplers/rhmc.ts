@@ -471,12 +471,18 @@ function abortError(): Error {
 /** Tally of step outcomes across all chains in this thread (for the benchmark and diagnosis). */
 export const stepResultCounts: Record<string, number> = {};
 
+/** Which RHMC engine runs (the integrator; read by the rewritten module, ignored here). */
+export interface RhmcVariant {
+  integrator?: 'midpoint' | 'leapfrog';
+}
+
 export function rhmcChain(
   p: PreparedTarget,
   start: Float64Array,
   opts: ChainOptions,
   rng: Rng,
   check: (z: Float64Array, out: Float64Array) => void,
+  _variant: RhmcVariant = {},
   settings: RhmcSettings = DEFAULT_RHMC,
 ): ChainOutput {
   const n = p.n;

@@ -32,7 +32,7 @@ describe.each(targets)('forced solver failures on the %s', (_name, target) => {
     // Sampling with 30 times the adapted step: past the step-size cliff of the module notes the
     // implicit equations have no solution, so most trajectories stop at a failed solve. The target's
     // log-density is finite everywhere inside the region, so nothing here is a divergence.
-    const out = rhmcChain(p, start, { warmup: 150, draws, seed: 11, chain: 0 }, new Rng(11, 0), makeDrawCheck(p), {
+    const out = rhmcChain(p, start, { warmup: 150, draws, seed: 11, chain: 0 }, new Rng(11, 0), makeDrawCheck(p), {}, {
       ...DEFAULT_RHMC,
       finalStepScale: 30,
     });
