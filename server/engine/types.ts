@@ -119,6 +119,8 @@ export interface ChainOutput {
    * automatic choice's deterministic cost model; absent for samplers that do not count it).
    */
   work?: number;
+  /** Log-density (with gradient) evaluations of the whole chain, warm-up included. */
+  evaluations?: number;
 }
 
 /** One chain's kept output plus the derived quantities evaluated per draw. */

@@ -13,6 +13,7 @@ import { dikinWalkChain } from './dikin-walk';
 import { rwmChain } from './rwm';
 import { reflectHmcChain } from './reflect-hmc';
 import { transformHmcChain } from './transform-hmc';
+import { PILOT_CHAIN_BASE, pickByPilots, scorePilot, shortlistEngines, soleCandidateReason } from './auto';
 
 /**
  * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
@@ -51,8 +52,27 @@ export function makeDrawCheck(p: PreparedTarget): (z: Float64Array, out: Float64
 }
 
 /** Runs warm-up then keeps opts.draws draws; the returned draws are in θ coordinates. */
-export function sampleChain(p: PreparedTarget, sampler: SamplerName, start: Float64Array, opts: ChainOptions): ChainOutput {
-  if (start.length !== p.n) throw new Error(`start has length ${start.length}, expected the reduced dimension ${p.n}`);
+export function sampleChain(p0: PreparedTarget, sampler: SamplerName, start: Float64Array, opts: ChainOptions): ChainOutput {
+  if (start.length !== p0.n) throw new Error(`start has length ${start.length}, expected the reduced dimension ${p0.n}`);
+  // Density evaluations are counted for the run diagnostics, the benchmark and the automatic
+  // choice's cost model (one closure call per evaluation).
+  let evaluations = 0;
+  const inner = p0.target.logDensity;
+  const target = {
+    ...p0.target,
+    logDensity: (t: Float64Array, g: Float64Array) => {
+      evaluations++;
+      return inner.call(p0.target, t, g);
+    },
+  };
+  const p: PreparedTarget = { ...p0, target, logDensity: (z, g) => (p0.N ? (evaluations++, p0.logDensity(z, g)) : target.logDensity(z, g)) };
+  const out = sampleWith(p, sampler, start, opts);
+  if (p.flat !== undefined) p0.flat = p.flat;
+  out.evaluations = evaluations;
+  return out;
+}
+
+function sampleWith(p: PreparedTarget, sampler: SamplerName, start: Float64Array, opts: ChainOptions): ChainOutput {
   const rng = new Rng(opts.seed, opts.chain);
   const check = makeDrawCheck(p);
   // A non-finite log-density at the start is reported before any work.
@@ -97,26 +117,30 @@ export function sampleChain(p: PreparedTarget, sampler: SamplerName, start: Floa
   }
 }
 
-/** Picks a sampler by the model's structure and says why in one sentence. */
-export function chooseSampler(p: PreparedTarget): { sampler: SamplerName; reason: string } {
-  const flat = isFlat(p);
-  if (flat && p.m > 0 && p.bounded) {
-    return {
-      sampler: 'hitrun',
-      reason: 'The log-density is constant and the constraints enclose a bounded region, so hit-and-run with exact uniform chords samples it directly.',
-    };
-  }
-  if (flat) {
-    throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
-  }
-  if (p.m === 0) {
-    return {
-      sampler: 'rhmc',
-      reason: 'There are no inequality constraints, so Hamiltonian Monte Carlo with an adapted diagonal metric is used.',
-    };
-  }
-  return {
-    sampler: 'rhmc',
-    reason: 'The log-density varies over a region bounded by inequalities, so barrier-metric Riemannian HMC is used: it adapts to the likelihood and slows near the faces instead of leaving them.',
-  };
+export { shortlistEngines, pilotIterations, evaluationCostOf, PILOT_CHAIN_BASE } from './auto';
+
+/** A pilot run: one chain of `engine` from `start` with the given warm-up, draws and chain index. */
+export type PilotRunner = (
+  jobs: { engine: SamplerName; start: Float64Array; warmup: number; draws: number; chain: number }[],
+) => Promise<(ChainOutput | Error)[]>;
+
+/**
+ * The automatic choice (samplers/auto.ts): shortlist by structure, then pilots of the candidates
+ * (run by `runPilots`, in worker threads for a fit), scored by ESS per unit of modelled work.
+ * Deterministic in (model, seed, iterations).
+ */
+export async function chooseEngine(
+  p: PreparedTarget,
+  o: { start: Float64Array; iterations: number; evalCost: number },
+  runPilots: PilotRunner,
+): Promise<{ sampler: SamplerName; reason: string }> {
+  const list = shortlistEngines(p);
+  if (list.candidates.length === 1) return soleCandidateReason(list);
+  const warmup = Math.floor(o.iterations / 2);
+  const draws = o.iterations - warmup;
+  const outs = await runPilots(
+    list.candidates.map((engine, k) => ({ engine, start: o.start, warmup, draws, chain: PILOT_CHAIN_BASE + k })),
+  );
+  const scores = list.candidates.map((engine, k) => scorePilot(p, engine, outs[k], warmup, o.evalCost));
+  return pickByPilots(list, scores, o.iterations);
 }

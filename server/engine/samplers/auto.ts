@@ -1,0 +1,133 @@
+/**
+ * The automatic choice of engine ('auto'): a shortlist from the model's structure, then short
+ * pilot chains of the shortlisted engines, compared by effective draws per unit of modelled work.
+ *
+ * - Shortlist (structure): transform-based HMC when the region is a product of bounds, simplices
+ *   and orderings; reflective HMC always (it is plain HMC without inequalities); for a flat density
+ *   on a bounded region the exact-chord walks (rounded and coordinate hit-and-run); for a varying
+ *   density on a general polytope barrier-metric RHMC and rounded hit-and-run.
+ * - Pilots: one chain per candidate, from the fit's first dispersed start, seeded with the fit's
+ *   seed and a pilot stream of its own, `pilotIterations` iterations (half warm-up). Pilot draws
+ *   are warm-up: they are never returned or summarised.
+ * - Score: min over coordinates of the pilot's bulk and tail ESS per kept iteration, divided by the
+ *   modelled work per iteration = density evaluations × the model's evaluation cost (a count from
+ *   its data: 50 + 10·dim + 4·data cells) + the engine's own linear-algebra flops (ChainOutput.work;
+ *   for RHMC about three factorisations and a few solves per evaluation). Work is counted, not
+ *   timed, so the same model and seed always give the same choice and therefore identical draws;
+ *   the benchmark (npm run bench -- samplers) checks the choice against measured ESS per second.
+ * - The engine is decided once per fit, before any chain starts (server/engine/fit.ts), and every
+ *   chain runs it.
+ */
+import type { ChainOutput, DataTables, SamplerName, TargetSpec } from '../types';
+import type { PreparedTarget } from '../geometry';
+import { isFlat } from '../geometry';
+import { essBulk, essTail } from '../diagnostics';
+import { detectTransformShape } from './transform-hmc';
+
+export interface Shortlist {
+  candidates: SamplerName[];
+  /** Why these, one clause. */
+  why: string;
+}
+
+export function shortlistEngines(p: PreparedTarget): Shortlist {
+  const flat = isFlat(p);
+  if (flat && !p.bounded) {
+    throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
+  }
+  const shape = detectTransformShape(p.target);
+  if (p.m === 0 && !shape.ok) return { candidates: ['reflect-hmc'], why: 'there are no inequality constraints, so plain HMC applies' };
+  if (p.m === 0) return { candidates: ['transform-hmc', 'reflect-hmc'], why: 'there are no inequality constraints' };
+  const c: SamplerName[] = [];
+  const parts: string[] = [];
+  if (shape.ok) {
+    c.push('transform-hmc');
+    parts.push(`the region is a product of standard shapes (${shape.plan.description})`);
+  } else parts.push('the region is a general polytope');
+  c.push('reflect-hmc');
+  if (flat) {
+    c.push('hitrun', 'coord-hitrun');
+    parts.push('the density is flat on a bounded region');
+  } else {
+    if (!shape.ok) c.push('rhmc');
+    c.push('hitrun');
+    parts.push('the density varies');
+  }
+  return { candidates: c, why: parts.join(' and ') };
+}
+
+/** Modelled cost of one log-density evaluation, in flops, from the model's size. */
+export function evaluationCost(dim: number, tables?: DataTables): number {
+  let cells = 0;
+  for (const t of Object.values(tables ?? {})) cells += t.rows * Object.keys(t.columns).length;
+  return 50 + 10 * dim + 4 * cells;
+}
+
+export function evaluationCostOf(spec: TargetSpec | null, dim: number): number {
+  return evaluationCost(dim, spec && spec.kind === 'program' ? spec.tables : undefined);
+}
+
+/** Pilot iterations per candidate for a fit: 2.5% of the fit's iterations, between 40 and 300. */
+export function pilotIterations(chains: number, warmup: number, draws: number): number {
+  return Math.max(40, Math.min(300, Math.round(0.025 * chains * (warmup + draws))));
+}
+
+/** Chain index of candidate k's pilot (its own random stream, far from the fit's chains). */
+export const PILOT_CHAIN_BASE = 1000;
+
+export interface PilotScore {
+  engine: SamplerName;
+  /** Min over coordinates of bulk and tail ESS per kept pilot iteration. */
+  essPerIteration: number;
+  /** Modelled flops per iteration. */
+  workPerIteration: number;
+  /** ESS per million modelled flops (0 when the pilot failed). */
+  score: number;
+  error?: string;
+}
+
+function linearAlgebraWork(p: PreparedTarget, engine: SamplerName, out: ChainOutput): number {
+  if (out.work !== undefined) return out.work;
+  // RHMC does not count its own work: about three factorisations of an n × n matrix built from the
+  // rows (Aᵀ W A) and a dozen solves per integrator step, one evaluation per step.
+  const n = p.n;
+  let gram = 0;
+  for (let i = 0; i < p.m; i++) gram += (p.rows.ptr[i + 1] - p.rows.ptr[i]) ** 2;
+  const perStep = engine === 'rhmc' || engine === 'rhmc-gl' ? 3 * ((n * n * n) / 3 + gram) + 12 * (n * n + p.rows.val.length) : 0;
+  return (out.evaluations ?? 0) * perStep;
+}
+
+export function scorePilot(p: PreparedTarget, engine: SamplerName, out: ChainOutput | Error, pilotWarmup: number, evalCost: number): PilotScore {
+  if (out instanceof Error) return { engine, essPerIteration: 0, workPerIteration: Infinity, score: 0, error: out.message };
+  const dim = p.target.dim;
+  const draws = out.draws.length / dim;
+  let ess = Infinity;
+  const col = new Float64Array(draws);
+  for (let j = 0; j < dim; j++) {
+    for (let i = 0; i < draws; i++) col[i] = out.draws[i * dim + j];
+    ess = Math.min(ess, essBulk([col]), essTail([col]));
+  }
+  if (!Number.isFinite(ess)) ess = 0;
+  const iterations = pilotWarmup + draws;
+  const work = (out.evaluations ?? 0) * evalCost + linearAlgebraWork(p, engine, out);
+  const workPerIteration = work / iterations;
+  const essPerIteration = ess / draws;
+  return { engine, essPerIteration, workPerIteration, score: workPerIteration > 0 ? (1e6 * essPerIteration) / workPerIteration : 0 };
+}
+
+/** Picks the best-scoring pilot (ties: the earlier candidate) and writes the reason. */
+export function pickByPilots(list: Shortlist, scores: PilotScore[], iterations: number): { sampler: SamplerName; reason: string } {
+  let best = scores[0];
+  for (const s of scores) if (s.score > best.score) best = s;
+  const fmt = (x: number) => (x >= 100 ? x.toFixed(0) : x >= 1 ? x.toFixed(2) : x.toPrecision(2));
+  const table = scores.map((s) => `${s.engine} ${s.error ? 'failed' : fmt(s.score)}`).join(', ');
+  return {
+    sampler: best.engine,
+    reason: `Automatic: ${list.why}, so the candidates were ${list.candidates.join(', ')}; pilot chains of ${iterations} warm-up iterations each gave effective draws per million modelled operations of ${table}; ${best.engine} was used for every chain.`,
+  };
+}
+
+/** A single candidate needs no pilot. */
+export function soleCandidateReason(list: Shortlist): { sampler: SamplerName; reason: string } {
+  return { sampler: list.candidates[0], reason: `Automatic: ${list.why}, so ${list.candidates[0]} was used without pilots.` };
+}
