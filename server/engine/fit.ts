@@ -25,7 +25,7 @@ import {
 import type { ChainResult, FitResult, SamplerName, TargetSpec } from './types';
 import { Rng } from './rng';
 import { dispersedStarts, type PreparedTarget } from './geometry';
-import { chooseEngine, evaluationCostOf, pilotIterations } from './samplers';
+import { chooseEngine, evaluationCostOf } from './samplers';
 import { findMode } from './mode';
 import { efmi, judgeRun, summarizeQuantity } from './diagnostics';
 import { preparedFor, runChainOnPrepared, type ChainJob } from './fit-worker';
@@ -85,7 +85,7 @@ export async function runFit(
       p,
       {
         start: starts[0],
-        iterations: pilotIterations(settings.chains, settings.warmup, settings.draws),
+        fitIterations: settings.chains * (settings.warmup + settings.draws),
         evalCost: evaluationCostOf(spec, target.dim),
       },
       (pilots) =>

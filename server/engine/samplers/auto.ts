@@ -6,9 +6,12 @@
  *   and orderings; reflective HMC always (it is plain HMC without inequalities); for a flat density
  *   on a bounded region the exact-chord walks (rounded and coordinate hit-and-run); for a varying
  *   density on a general polytope barrier-metric RHMC and rounded hit-and-run.
- * - Pilots: one chain per candidate, from the fit's first dispersed start, seeded with the fit's
- *   seed and a pilot stream of its own, `pilotIterations` iterations (half warm-up). Pilot draws
- *   are warm-up: they are never returned or summarised.
+ * - Pilots: a probe of PROBE_ITERATIONS iterations measures each candidate's modelled work per
+ *   iteration; then one pilot chain per candidate, from the fit's first dispersed start, seeded with
+ *   the fit's seed and a chain index of its own (PILOT_CHAIN_BASE + k), half warm-up. All pilots
+ *   together cost about PILOT_SHARE (8%) of the fit's work at the cheapest candidate's rate, each
+ *   between PILOT_MIN and PILOT_MAX iterations (pilotPlan). Pilot draws are warm-up: they are never
+ *   returned or summarised.
  * - Score: min over coordinates of the pilot's bulk and tail ESS per kept iteration, divided by the
  *   modelled work per iteration = density evaluations × the model's evaluation cost (a count from
  *   its data: 50 + 10·dim + 4·data cells) + the engine's own linear-algebra flops (ChainOutput.work;
@@ -67,9 +70,25 @@ export function evaluationCostOf(spec: TargetSpec | null, dim: number): number {
   return evaluationCost(dim, spec && spec.kind === 'program' ? spec.tables : undefined);
 }
 
-/** Pilot iterations per candidate for a fit: 2.5% of the fit's iterations, between 40 and 300. */
-export function pilotIterations(chains: number, warmup: number, draws: number): number {
-  return Math.max(40, Math.min(300, Math.round(0.025 * chains * (warmup + draws))));
+/** Iterations of the probe that measures each candidate's work per iteration (half warm-up). */
+export const PROBE_ITERATIONS = 6;
+/** Share of the fit's work (at the cheapest candidate's cost per iteration) spent on all pilots. */
+export const PILOT_SHARE = 0.08;
+export const PILOT_MIN = 30;
+export const PILOT_MAX = 300;
+
+/**
+ * Pilot iterations per candidate: together the pilots may cost PILOT_SHARE of what the whole fit
+ * (fitIterations over all chains) would cost with the cheapest candidate; each gets an equal share
+ * of that work, in iterations between PILOT_MIN and PILOT_MAX. Candidates whose probe failed get 0.
+ */
+export function pilotPlan(workPerIteration: number[], fitIterations: number): number[] {
+  const finite = workPerIteration.filter((w) => Number.isFinite(w) && w > 0);
+  const wMin = finite.length ? Math.min(...finite) : 1;
+  const each = (PILOT_SHARE * fitIterations * wMin) / Math.max(1, finite.length);
+  return workPerIteration.map((w) =>
+    Number.isFinite(w) ? Math.max(PILOT_MIN, Math.min(PILOT_MAX, Math.floor(each / Math.max(w, 1e-12)))) : 0,
+  );
 }
 
 /** Chain index of candidate k's pilot (its own random stream, far from the fit's chains). */
@@ -84,6 +103,11 @@ export interface PilotScore {
   /** ESS per million modelled flops (0 when the pilot failed). */
   score: number;
   error?: string;
+}
+
+/** Modelled flops of a chain: evaluations × their cost + the engine's linear algebra. */
+export function modelledWork(p: PreparedTarget, engine: SamplerName, out: ChainOutput, evalCost: number): number {
+  return (out.evaluations ?? 0) * evalCost + linearAlgebraWork(p, engine, out);
 }
 
 function linearAlgebraWork(p: PreparedTarget, engine: SamplerName, out: ChainOutput): number {
@@ -109,21 +133,21 @@ export function scorePilot(p: PreparedTarget, engine: SamplerName, out: ChainOut
   }
   if (!Number.isFinite(ess)) ess = 0;
   const iterations = pilotWarmup + draws;
-  const work = (out.evaluations ?? 0) * evalCost + linearAlgebraWork(p, engine, out);
-  const workPerIteration = work / iterations;
-  const essPerIteration = ess / draws;
+  const workPerIteration = modelledWork(p, engine, out, evalCost) / iterations;
+  // Capped at 1: a short pilot's ESS above its draw count is mostly noise.
+  const essPerIteration = Math.min(1, ess / draws);
   return { engine, essPerIteration, workPerIteration, score: workPerIteration > 0 ? (1e6 * essPerIteration) / workPerIteration : 0 };
 }
 
 /** Picks the best-scoring pilot (ties: the earlier candidate) and writes the reason. */
-export function pickByPilots(list: Shortlist, scores: PilotScore[], iterations: number): { sampler: SamplerName; reason: string } {
+export function pickByPilots(list: Shortlist, scores: PilotScore[], iterations: number[]): { sampler: SamplerName; reason: string } {
   let best = scores[0];
   for (const s of scores) if (s.score > best.score) best = s;
   const fmt = (x: number) => (x >= 100 ? x.toFixed(0) : x >= 1 ? x.toFixed(2) : x.toPrecision(2));
-  const table = scores.map((s) => `${s.engine} ${s.error ? 'failed' : fmt(s.score)}`).join(', ');
+  const table = scores.map((s, k) => `${s.engine} ${s.error ? 'failed' : `${fmt(s.score)} (${iterations[k]} iterations)`}`).join(', ');
   return {
     sampler: best.engine,
-    reason: `Automatic: ${list.why}, so the candidates were ${list.candidates.join(', ')}; pilot chains of ${iterations} warm-up iterations each gave effective draws per million modelled operations of ${table}; ${best.engine} was used for every chain.`,
+    reason: `Automatic: ${list.why}, so the candidates were ${list.candidates.join(', ')}. Pilot chains (warm-up only, never kept) gave effective draws per million modelled operations of ${table}; ${best.engine} was used for every chain.`,
   };
 }
 

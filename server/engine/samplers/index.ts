@@ -13,7 +13,7 @@ import { dikinWalkChain } from './dikin-walk';
 import { rwmChain } from './rwm';
 import { reflectHmcChain } from './reflect-hmc';
 import { transformHmcChain } from './transform-hmc';
-import { PILOT_CHAIN_BASE, pickByPilots, scorePilot, shortlistEngines, soleCandidateReason } from './auto';
+import { modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, PROBE_ITERATIONS, scorePilot, shortlistEngines, soleCandidateReason } from './auto';
 
 /**
  * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
@@ -117,7 +117,7 @@ function sampleWith(p: PreparedTarget, sampler: SamplerName, start: Float64Array
   }
 }
 
-export { shortlistEngines, pilotIterations, evaluationCostOf, PILOT_CHAIN_BASE } from './auto';
+export { shortlistEngines, evaluationCostOf, PILOT_CHAIN_BASE } from './auto';
 
 /** A pilot run: one chain of `engine` from `start` with the given warm-up, draws and chain index. */
 export type PilotRunner = (
@@ -131,16 +131,33 @@ export type PilotRunner = (
  */
 export async function chooseEngine(
   p: PreparedTarget,
-  o: { start: Float64Array; iterations: number; evalCost: number },
+  o: { start: Float64Array; fitIterations: number; evalCost: number },
   runPilots: PilotRunner,
 ): Promise<{ sampler: SamplerName; reason: string }> {
   const list = shortlistEngines(p);
   if (list.candidates.length === 1) return soleCandidateReason(list);
-  const warmup = Math.floor(o.iterations / 2);
-  const draws = o.iterations - warmup;
-  const outs = await runPilots(
-    list.candidates.map((engine, k) => ({ engine, start: o.start, warmup, draws, chain: PILOT_CHAIN_BASE + k })),
+  // Probes: a few iterations of each candidate give its modelled work per iteration.
+  const probes = await runPilots(
+    list.candidates.map((engine, k) => ({ engine, start: o.start, warmup: PROBE_ITERATIONS / 2, draws: PROBE_ITERATIONS / 2, chain: PILOT_CHAIN_BASE + k })),
   );
-  const scores = list.candidates.map((engine, k) => scorePilot(p, engine, outs[k], warmup, o.evalCost));
-  return pickByPilots(list, scores, o.iterations);
+  const perIteration = list.candidates.map((engine, k) => {
+    const out = probes[k];
+    return out instanceof Error ? Infinity : modelledWork(p, engine, out, o.evalCost) / PROBE_ITERATIONS;
+  });
+  const plan = pilotPlan(perIteration, o.fitIterations);
+  const run = list.candidates.map((_, k) => k).filter((k) => plan[k] > 0);
+  const outs = await runPilots(
+    run.map((k) => ({
+      engine: list.candidates[k],
+      start: o.start,
+      warmup: Math.floor(plan[k] / 2),
+      draws: plan[k] - Math.floor(plan[k] / 2),
+      chain: PILOT_CHAIN_BASE + list.candidates.length + k,
+    })),
+  );
+  const scores = list.candidates.map((engine, k) => {
+    const r = run.indexOf(k);
+    return r < 0 ? scorePilot(p, engine, probes[k], 0, o.evalCost) : scorePilot(p, engine, outs[r], Math.floor(plan[k] / 2), o.evalCost);
+  });
+  return pickByPilots(list, scores, plan);
 }
