@@ -7,7 +7,8 @@
  *
  * Per engine and problem: a short calibration chain (not counted) gives the seconds per iteration;
  * the chains then get iterations = budget / (chains × seconds per iteration), half warm-up, at
- * least 20 kept draws each. ESS is the minimum over the unknowns' coordinates of the bulk and tail
+ * least 10 warm-up iterations and 20 kept draws each (5 and 10 with --quick), so an engine whose
+ * iterations are slow overruns the budget (its ESS/s stays honest: seconds are measured). ESS is the minimum over the unknowns' coordinates of the bulk and tail
  * ESS (server/engine/diagnostics); ESS/s divides it by the chains' wall time (warm-up included).
  * `auto` is timed from its pilots to its last draw: the pilots are sized for a fit of as many
  * iterations as the cheapest shortlisted engine does in the budget, and its chains get what is
@@ -31,9 +32,15 @@ import { PROBLEMS } from './problems';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const QUICK = process.argv.includes('--quick') || process.env.BENCH_QUICK === '1';
-const BUDGET = Number(process.env.BENCH_BUDGET ?? (QUICK ? 0.7 : 8));
+const BUDGET = Number(process.env.BENCH_BUDGET ?? (QUICK ? 0.5 : 8));
+/** Smallest run per chain whatever the budget, and the calibration chain's half-length. */
+const MIN_WARMUP = QUICK ? 5 : 10;
+const MIN_DRAWS = QUICK ? 10 : 20;
+const CALIBRATION = QUICK ? 2 : 6;
 const CHAINS = QUICK ? 2 : 4;
 const SEED = 20261203;
+
+const f3 = (x: number | undefined) => (x === undefined || !Number.isFinite(x) ? '–' : x >= 100 ? x.toFixed(0) : x >= 1 ? x.toFixed(1) : x.toPrecision(2));
 
 export interface EngineResult {
   engine: string;
@@ -67,14 +74,14 @@ function runChainsTimed(p: PreparedTarget, engine: SamplerName, starts: Float64A
 /** Seconds per iteration from a short chain (not counted in the budget). */
 function calibrate(p: PreparedTarget, engine: SamplerName, start: Float64Array): number {
   const t0 = performance.now();
-  sampleChain(p, engine, start, { warmup: 6, draws: 6, seed: SEED + 1, chain: 0 });
-  return Math.max(1e-6, (performance.now() - t0) / 1000 / 12);
+  sampleChain(p, engine, start, { warmup: CALIBRATION, draws: CALIBRATION, seed: SEED + 1, chain: 0 });
+  return Math.max(1e-6, (performance.now() - t0) / 1000 / (2 * CALIBRATION));
 }
 
 function sizeFor(secondsPerIteration: number, budget: number): { warmup: number; draws: number } {
   const iters = Math.floor(budget / (CHAINS * secondsPerIteration));
-  const warmup = Math.max(10, Math.floor(iters / 2));
-  return { warmup, draws: Math.max(20, iters - warmup) };
+  const warmup = Math.max(MIN_WARMUP, Math.floor(iters / 2));
+  return { warmup, draws: Math.max(MIN_DRAWS, iters - warmup) };
 }
 
 function summarise(p: PreparedTarget, engine: string, outs: ChainOutput[], draws: number, warmup: number, seconds: number): EngineResult {
@@ -84,9 +91,13 @@ function summarise(p: PreparedTarget, engine: string, outs: ChainOutput[], draws
   let maxR = 0;
   for (let j = 0; j < dim; j++) {
     const ch = outs.map((o) => Float64Array.from({ length: draws }, (_, k) => o.draws[k * dim + j]));
-    minB = Math.min(minB, essBulk(ch));
-    minT = Math.min(minT, essTail(ch));
-    maxR = Math.max(maxR, rhat(ch));
+    // NaN (a tail indicator constant in a split half of a very short run) counts as no information.
+    const b = essBulk(ch);
+    const t = essTail(ch);
+    minB = Math.min(minB, Number.isFinite(b) ? b : 0);
+    minT = Math.min(minT, Number.isFinite(t) ? t : 0);
+    const r = rhat(ch);
+    maxR = Math.max(maxR, Number.isFinite(r) ? r : Infinity);
   }
   const ess = Math.min(minB, minT);
   const evals = outs.reduce((s, o) => s + (o.evaluations ?? 0), 0);
@@ -105,6 +116,7 @@ function summarise(p: PreparedTarget, engine: string, outs: ChainOutput[], draws
 
 async function benchProblem(id: string): Promise<ProblemResult> {
   const pr = PROBLEMS[id]();
+  const tStart = performance.now();
   const target = compileProgram(pr.source, pr.tables);
   const p = prepareTarget(target);
   const starts = dispersedStarts(p, CHAINS, new Rng(SEED, 0x5eed));
@@ -121,8 +133,15 @@ async function benchProblem(id: string): Promise<ProblemResult> {
       const spi = calibrate(p, engine, starts[0]);
       perIteration.set(engine, spi);
       const { warmup, draws } = sizeFor(spi, BUDGET);
+      if (QUICK && spi * CHAINS * (warmup + draws) > 6 * BUDGET) {
+        engines.push({ engine, applicable: true, note: `over the quick budget (${f3(spi)} s per iteration)` });
+        process.stderr.write(`    over the quick budget (${f3(spi)} s per iteration)\n`);
+        continue;
+      }
       const { outs, seconds } = runChainsTimed(p, engine, starts, warmup, draws);
-      engines.push(summarise(p, engine, outs, draws, warmup, seconds));
+      const r = summarise(p, engine, outs, draws, warmup, seconds);
+      engines.push(r);
+      process.stderr.write(`    ESS/s ${f3(r.essPerSecond)}, ESS/draw ${f3(r.essPerDraw)}, ${f3(seconds)} s\n`);
     } catch (e) {
       engines.push({ engine, applicable: true, note: `failed: ${(e as Error).message.slice(0, 160)}` });
     }
@@ -154,15 +173,16 @@ async function benchProblem(id: string): Promise<ProblemResult> {
     r.chosen = choice.sampler;
     r.note = `pilots ${pilotSeconds.toFixed(2)} s; ${choice.reason}`;
     engines.push(r);
+    process.stderr.write(`    chose ${choice.sampler}: ESS/s ${f3(r.essPerSecond)}, pilots ${f3(pilotSeconds)} s, ${f3(r.seconds)} s\n    ${choice.reason}\n`);
   } catch (e) {
     engines.push({ engine: 'auto', applicable: true, note: `failed: ${(e as Error).message.slice(0, 160)}` });
   }
   const best = Math.max(...engines.filter((e) => e.engine !== 'auto' && e.essPerSecond !== undefined).map((e) => e.essPerSecond!));
   const auto = engines.find((e) => e.engine === 'auto')?.essPerSecond;
+  process.stderr.write(`  ${id} done in ${f3((performance.now() - tStart) / 1000)} s; auto/best = ${f3(auto !== undefined && best > 0 ? auto / best : NaN)}\n`);
   return { id, title: pr.title, dimension: p.n, engines, autoRatio: auto !== undefined && best > 0 ? auto / best : undefined };
 }
 
-const f3 = (x: number | undefined) => (x === undefined || !Number.isFinite(x) ? '–' : x >= 100 ? x.toFixed(0) : x >= 1 ? x.toFixed(1) : x.toPrecision(2));
 
 function markdown(problems: ProblemResult[], date: string): string {
   const cpu = os.cpus()[0]?.model.trim() ?? 'unknown';
@@ -180,7 +200,7 @@ function markdown(problems: ProblemResult[], date: string): string {
       const e = p.engines.find((x) => x.engine === name);
       if (!e) return '';
       if (!e.applicable) return 'n/a';
-      if (e.essPerSecond === undefined) return 'failed';
+      if (e.essPerSecond === undefined) return e.note?.startsWith('over') ? 'over budget' : 'failed';
       const best = Math.max(...p.engines.filter((x) => x.engine !== 'auto' && x.essPerSecond !== undefined).map((x) => x.essPerSecond!));
       const v = f3(e.essPerSecond);
       if (name === 'auto') return `${v} (${e.chosen}, ${f3(p.autoRatio)}×)`;

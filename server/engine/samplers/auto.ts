@@ -86,9 +86,12 @@ export function pilotPlan(workPerIteration: number[], fitIterations: number): nu
   const finite = workPerIteration.filter((w) => Number.isFinite(w) && w > 0);
   const wMin = finite.length ? Math.min(...finite) : 1;
   const each = (PILOT_SHARE * fitIterations * wMin) / Math.max(1, finite.length);
-  return workPerIteration.map((w) =>
-    Number.isFinite(w) ? Math.max(PILOT_MIN, Math.min(PILOT_MAX, Math.floor(each / Math.max(w, 1e-12)))) : 0,
-  );
+  // A candidate that cannot run PILOT_MIN iterations within its share is not piloted (0).
+  return workPerIteration.map((w) => {
+    if (!Number.isFinite(w)) return 0;
+    const it = Math.floor(each / Math.max(w, 1e-12));
+    return it < PILOT_MIN ? 0 : Math.min(PILOT_MAX, it);
+  });
 }
 
 /** Chain index of candidate k's pilot (its own random stream, far from the fit's chains). */
@@ -129,7 +132,8 @@ export function scorePilot(p: PreparedTarget, engine: SamplerName, out: ChainOut
   const col = new Float64Array(draws);
   for (let j = 0; j < dim; j++) {
     for (let i = 0; i < draws; i++) col[i] = out.draws[i * dim + j];
-    ess = Math.min(ess, essBulk([col]), essTail([col]));
+    // A short single chain can leave a tail indicator constant in a half (ESS NaN): skipped.
+    for (const v of [essBulk([col]), essTail([col])]) if (Number.isFinite(v)) ess = Math.min(ess, v);
   }
   if (!Number.isFinite(ess)) ess = 0;
   const iterations = pilotWarmup + draws;
@@ -144,10 +148,20 @@ export function pickByPilots(list: Shortlist, scores: PilotScore[], iterations: 
   let best = scores[0];
   for (const s of scores) if (s.score > best.score) best = s;
   const fmt = (x: number) => (x >= 100 ? x.toFixed(0) : x >= 1 ? x.toFixed(2) : x.toPrecision(2));
-  const table = scores.map((s, k) => `${s.engine} ${s.error ? 'failed' : `${fmt(s.score)} (${iterations[k]} iterations)`}`).join(', ');
+  const table = scores
+    .map((s, k) => `${s.engine} ${s.error ? 'failed' : iterations[k] === 0 ? 'too costly to pilot' : `${fmt(s.score)} (${iterations[k]} iterations)`}`)
+    .join(', ');
   return {
     sampler: best.engine,
     reason: `Automatic: ${list.why}, so the candidates were ${list.candidates.join(', ')}. Pilot chains (warm-up only, never kept) gave effective draws per million modelled operations of ${table}; ${best.engine} was used for every chain.`,
+  };
+}
+
+/** No candidate can be piloted within the budget (a short fit): the first of the shortlist. */
+export function unpilotedReason(list: Shortlist): { sampler: SamplerName; reason: string } {
+  return {
+    sampler: list.candidates[0],
+    reason: `Automatic: ${list.why}, so the candidates were ${list.candidates.join(', ')}; the fit is too short for pilots within 8% of its work, so the first by structure, ${list.candidates[0]}, was used.`,
   };
 }
 

@@ -13,7 +13,7 @@ import { dikinWalkChain } from './dikin-walk';
 import { rwmChain } from './rwm';
 import { reflectHmcChain } from './reflect-hmc';
 import { transformHmcChain } from './transform-hmc';
-import { modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, PROBE_ITERATIONS, scorePilot, shortlistEngines, soleCandidateReason } from './auto';
+import { modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, PROBE_ITERATIONS, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
 
 /**
  * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
@@ -146,6 +146,7 @@ export async function chooseEngine(
   });
   const plan = pilotPlan(perIteration, o.fitIterations);
   const run = list.candidates.map((_, k) => k).filter((k) => plan[k] > 0);
+  if (run.length === 0) return unpilotedReason(list);
   const outs = await runPilots(
     run.map((k) => ({
       engine: list.candidates[k],
@@ -157,7 +158,8 @@ export async function chooseEngine(
   );
   const scores = list.candidates.map((engine, k) => {
     const r = run.indexOf(k);
-    return r < 0 ? scorePilot(p, engine, probes[k], 0, o.evalCost) : scorePilot(p, engine, outs[r], Math.floor(plan[k] / 2), o.evalCost);
+    if (r < 0) return probes[k] instanceof Error ? scorePilot(p, engine, probes[k], 0, o.evalCost) : { engine, essPerIteration: 0, workPerIteration: Infinity, score: 0 };
+    return scorePilot(p, engine, outs[r], Math.floor(plan[k] / 2), o.evalCost);
   });
   return pickByPilots(list, scores, plan);
 }
