@@ -5,16 +5,16 @@
  * - Shortlist (structure): transform-based HMC when the region is a product of bounds, simplices
  *   and orderings; reflective HMC always (it is plain HMC without inequalities); for a flat density
  *   on a bounded region the exact-chord walks (rounded and coordinate hit-and-run); for a varying
- *   density on a general polytope barrier-metric RHMC and rounded hit-and-run.
+ *   density barrier-metric RHMC, coordinate and rounded hit-and-run.
  * - Pilots: a probe of PROBE_ITERATIONS iterations measures each candidate's modelled work per
  *   iteration; then one pilot chain per candidate, from the fit's first dispersed start, seeded with
  *   the fit's seed and a chain index of its own (PILOT_CHAIN_BASE + k), half warm-up. All pilots
  *   together cost about PILOT_SHARE (8%) of the fit's work at the cheapest candidate's rate, each
  *   between PILOT_MIN and PILOT_MAX iterations (pilotPlan). Pilot draws are warm-up: they are never
  *   returned or summarised.
- * - Score: min over coordinates of the pilot's bulk and tail ESS per kept iteration, divided by the
- *   modelled work per iteration = density evaluations × the model's evaluation cost (a count from
- *   its data: 50 + 10·dim + 4·data cells) + the engine's own linear-algebra flops (ChainOutput.work;
+ * - Score: ESS per kept iteration from the pilot's mean squared jumps against the variance of all
+ *   pilots pooled (scorePilot), minimum over coordinates, divided by the modelled work per iteration = density evaluations × the model's evaluation cost (a count from
+ *   its data: 50 + 10·dim + 12·data cells) + the engine's own linear-algebra flops (ChainOutput.work;
  *   for RHMC about three factorisations and a few solves per evaluation). Work is counted, not
  *   timed, so the same model and seed always give the same choice and therefore identical draws;
  *   the benchmark (npm run bench -- samplers) checks the choice against measured ESS per second.
@@ -24,7 +24,6 @@
 import type { ChainOutput, DataTables, SamplerName, TargetSpec } from '../types';
 import type { PreparedTarget } from '../geometry';
 import { isFlat } from '../geometry';
-import { essBulk, essTail } from '../diagnostics';
 import { detectTransformShape } from './transform-hmc';
 
 export interface Shortlist {
@@ -52,8 +51,10 @@ export function shortlistEngines(p: PreparedTarget): Shortlist {
     c.push('hitrun', 'coord-hitrun');
     parts.push('the density is flat on a bounded region');
   } else {
-    if (!shape.ok) c.push('rhmc');
-    c.push('hitrun');
+    // Measured (bench/results/samplers.md): barrier RHMC wins the isotonic posterior, where
+    // binding orderings give transformed coordinates a funnel; coordinate moves suit near-
+    // independent coordinates.
+    c.push('rhmc', 'coord-hitrun', 'hitrun');
     parts.push('the density varies');
   }
   return { candidates: c, why: parts.join(' and ') };
@@ -63,7 +64,7 @@ export function shortlistEngines(p: PreparedTarget): Shortlist {
 export function evaluationCost(dim: number, tables?: DataTables): number {
   let cells = 0;
   for (const t of Object.values(tables ?? {})) cells += t.rows * Object.keys(t.columns).length;
-  return 50 + 10 * dim + 4 * cells;
+  return 50 + 10 * dim + 12 * cells;
 }
 
 export function evaluationCostOf(spec: TargetSpec | null, dim: number): number {
@@ -86,11 +87,13 @@ export function pilotPlan(workPerIteration: number[], fitIterations: number): nu
   const finite = workPerIteration.filter((w) => Number.isFinite(w) && w > 0);
   const wMin = finite.length ? Math.min(...finite) : 1;
   const each = (PILOT_SHARE * fitIterations * wMin) / Math.max(1, finite.length);
-  // A candidate that cannot run PILOT_MIN iterations within its share is not piloted (0).
+  // A candidate whose PILOT_MIN iterations would cost more than three shares is not piloted (0):
+  // engines differ a lot in work per iteration (the walks thin by n), so some overrun is allowed.
   return workPerIteration.map((w) => {
     if (!Number.isFinite(w)) return 0;
     const it = Math.floor(each / Math.max(w, 1e-12));
-    return it < PILOT_MIN ? 0 : Math.min(PILOT_MAX, it);
+    if (it >= PILOT_MIN) return Math.min(PILOT_MAX, it);
+    return PILOT_MIN * w <= 3 * each ? PILOT_MIN : 0;
   });
 }
 
@@ -124,22 +127,64 @@ function linearAlgebraWork(p: PreparedTarget, engine: SamplerName, out: ChainOut
   return (out.evaluations ?? 0) * perStep;
 }
 
-export function scorePilot(p: PreparedTarget, engine: SamplerName, out: ChainOutput | Error, pilotWarmup: number, evalCost: number): PilotScore {
+/**
+ * Per-coordinate variance of all pilots' kept draws pooled: a pilot that never explores a long
+ * direction cannot hide it, because the candidates that do explore it widen the pooled variance.
+ */
+export function pooledVariance(dim: number, outs: ChainOutput[]): Float64Array {
+  const mean = new Float64Array(dim);
+  const m2 = new Float64Array(dim);
+  let count = 0;
+  for (const o of outs) {
+    const draws = o.draws.length / dim;
+    for (let i = 0; i < draws; i++) {
+      count++;
+      for (let j = 0; j < dim; j++) {
+        const x = o.draws[i * dim + j];
+        const d = x - mean[j];
+        mean[j] += d / count;
+        m2[j] += d * (x - mean[j]);
+      }
+    }
+  }
+  for (let j = 0; j < dim; j++) m2[j] = count > 1 ? m2[j] / (count - 1) : 0;
+  return m2;
+}
+
+/**
+ * Scores one pilot. Mixing per kept iteration: for each coordinate j, r_j = mean squared jump
+ * between consecutive kept draws / (2 × pooled variance of j); under a first-order autoregressive
+ * approximation (lag-one autocorrelation 1 − r) the ESS per draw is r/(2 − r), capped at 1. The
+ * minimum over coordinates (the benchmark's min-ESS objective) over the modelled work per
+ * iteration is the score. Less noisy than the ESS of a short single chain, which moreover cannot
+ * see a direction the pilot never explored.
+ */
+export function scorePilot(
+  p: PreparedTarget,
+  engine: SamplerName,
+  out: ChainOutput | Error,
+  pilotWarmup: number,
+  evalCost: number,
+  pooledVar?: Float64Array,
+): PilotScore {
   if (out instanceof Error) return { engine, essPerIteration: 0, workPerIteration: Infinity, score: 0, error: out.message };
   const dim = p.target.dim;
   const draws = out.draws.length / dim;
-  let ess = Infinity;
-  const col = new Float64Array(draws);
+  const V = pooledVar ?? pooledVariance(dim, [out]);
+  let essPerIteration = 1;
   for (let j = 0; j < dim; j++) {
-    for (let i = 0; i < draws; i++) col[i] = out.draws[i * dim + j];
-    // A short single chain can leave a tail indicator constant in a half (ESS NaN): skipped.
-    for (const v of [essBulk([col]), essTail([col])]) if (Number.isFinite(v)) ess = Math.min(ess, v);
+    if (!(V[j] > 0)) continue;
+    let jump = 0;
+    for (let i = 1; i < draws; i++) {
+      const d = out.draws[i * dim + j] - out.draws[(i - 1) * dim + j];
+      jump += d * d;
+    }
+    const r = jump / Math.max(1, draws - 1) / (2 * V[j]);
+    essPerIteration = Math.min(essPerIteration, r >= 1 ? 1 : r / (2 - r));
   }
-  if (!Number.isFinite(ess)) ess = 0;
+  if (draws < 2) essPerIteration = 0;
   const iterations = pilotWarmup + draws;
   const workPerIteration = modelledWork(p, engine, out, evalCost) / iterations;
-  // Capped at 1: a short pilot's ESS above its draw count is mostly noise.
-  const essPerIteration = Math.min(1, ess / draws);
   return { engine, essPerIteration, workPerIteration, score: workPerIteration > 0 ? (1e6 * essPerIteration) / workPerIteration : 0 };
 }
 

@@ -13,7 +13,7 @@ import { dikinWalkChain } from './dikin-walk';
 import { rwmChain } from './rwm';
 import { reflectHmcChain } from './reflect-hmc';
 import { transformHmcChain } from './transform-hmc';
-import { modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, PROBE_ITERATIONS, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
+import { modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, pooledVariance, PROBE_ITERATIONS, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
 
 /**
  * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
@@ -156,10 +156,12 @@ export async function chooseEngine(
       chain: PILOT_CHAIN_BASE + list.candidates.length + k,
     })),
   );
+  const ok = outs.filter((x): x is ChainOutput => !(x instanceof Error));
+  const V = pooledVariance(p.target.dim, ok);
   const scores = list.candidates.map((engine, k) => {
     const r = run.indexOf(k);
     if (r < 0) return probes[k] instanceof Error ? scorePilot(p, engine, probes[k], 0, o.evalCost) : { engine, essPerIteration: 0, workPerIteration: Infinity, score: 0 };
-    return scorePilot(p, engine, outs[r], Math.floor(plan[k] / 2), o.evalCost);
+    return scorePilot(p, engine, outs[r], Math.floor(plan[k] / 2), o.evalCost, V);
   });
   return pickByPilots(list, scores, plan);
 }
