@@ -38,8 +38,8 @@ export function shortlistEngines(p: PreparedTarget): Shortlist {
     throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
   }
   const shape = detectTransformShape(p.target);
-  if (p.m === 0 && !shape.ok) return { candidates: ['reflect-hmc'], why: 'there are no inequality constraints, so plain HMC applies' };
-  if (p.m === 0) return { candidates: ['transform-hmc', 'reflect-hmc'], why: 'there are no inequality constraints' };
+  // Without inequalities both HMC engines are plain HMC (no faces, no transforms to make).
+  if (p.m === 0) return { candidates: ['reflect-hmc'], why: 'there are no inequality constraints, so plain HMC applies' };
   const c: SamplerName[] = [];
   const parts: string[] = [];
   if (shape.ok) {
