@@ -7,8 +7,9 @@
  *
  * Warm-up: Σ starts as the inverse Dikin matrix at the centre and is replaced at the end of each
  * slow window (the same window plan as the HMC engines, samplers/adapt.ts) by the window's sample
- * covariance, shrunk towards its diagonal as the window is short (common practice); c starts at
- * 2.38/√n and follows a Robbins–Monro update towards an acceptance of 0.234. Both are frozen for
+ * covariance, shrunk towards the previous proposal covariance with weight n/(k + n) for a window
+ * of k iterations (a short window in many dimensions is singular); c starts at 2.38/√n and follows
+ * a Robbins–Monro update towards an acceptance of 0.234 through the whole warm-up. Both are frozen for
  * sampling, so the kept chain is a plain Metropolis chain. One kept draw = n proposals.
  */
 import type { ChainOptions, ChainOutput } from '../types';
@@ -94,6 +95,34 @@ export function rwmChain(p: PreparedTarget, start: Float64Array, opts: ChainOpti
     if (warm) logC = adaptLogScale(logC, a, RWM_TARGET_ACCEPT, adaptCount++);
     return a;
   };
+  /** Σ of the current proposal (without c): L Lᵀ, or H⁻¹ = L_H⁻ᵀ L_H⁻¹ from the Dikin factor. */
+  const currentCovariance = (): Float64Array => {
+    const S = new Float64Array(n * n);
+    if (L) {
+      for (let q = 0; q < n; q++)
+        for (let r = 0; r <= q; r++) {
+          let v = 0;
+          for (let t = 0; t <= r; t++) v += L[q * n + t] * L[r * n + t];
+          S[q * n + r] = v;
+          S[r * n + q] = v;
+        }
+      return S;
+    }
+    // Columns of L_H⁻ᵀ: back substitution of unit vectors; H⁻¹ = Σ_t col_t col_tᵀ.
+    const col = new Float64Array(n);
+    const dl = p.dikinL;
+    for (let t = 0; t < n; t++) {
+      col.fill(0);
+      col[t] = 1;
+      for (let i = n - 1; i >= 0; i--) {
+        const v = col[i] / dl[i * n + i];
+        col[i] = v;
+        for (let kk = 0; kk < i; kk++) col[kk] -= dl[i * n + kk] * v;
+      }
+      for (let q = 0; q < n; q++) for (let r = 0; r < n; r++) S[q * n + r] += col[q] * col[r];
+    }
+    return S;
+  };
   const moves = Math.max(1, n);
   return runLoop(p, opts, check, {
     z,
@@ -115,22 +144,20 @@ export function rwmChain(p: PreparedTarget, start: Float64Array, opts: ChainOpti
         if (ends.has(it) && wCount > 2) {
           const k = wCount;
           const cov = new Float64Array(n * n);
-          // Shrink the off-diagonal part by k/(k + n) and add a small ridge (common practice).
+          // Shrink the window's covariance towards the current proposal covariance with weight
+          // n/(k + n) (a short window in many dimensions is singular), plus a small ridge.
+          const cur = currentCovariance();
           let meanVar = 0;
           for (let q = 0; q < n; q++) meanVar += wM2[q * n + q] / (k - 1) / n;
           for (let q = 0; q < n; q++)
             for (let r = 0; r <= q; r++) {
-              let v = wM2[q * n + r] / (k - 1);
-              if (r !== q) v *= k / (k + n);
-              else v += 1e-6 * meanVar + 1e-300;
+              let v = (k / (k + n)) * (wM2[q * n + r] / (k - 1)) + (n / (k + n)) * cur[q * n + r];
+              if (r === q) v += 1e-9 * meanVar + 1e-300;
               cov[q * n + r] = v;
               cov[r * n + q] = v;
             }
           work += (n * n * n) / 3;
-          if (chol.factor(cov)) {
-            L = Float64Array.from(chol.L);
-            logC = Math.log(2.38 / Math.sqrt(n));
-          }
+          if (chol.factor(cov)) L = Float64Array.from(chol.L);
           wMean.fill(0);
           wM2.fill(0);
           wCount = 0;
