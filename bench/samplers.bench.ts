@@ -7,7 +7,7 @@
  *
  * Per engine and problem: a short calibration chain (not counted) gives the seconds per iteration;
  * the chains then get iterations = budget / (chains × seconds per iteration), half warm-up, at
- * least 10 warm-up iterations and 20 kept draws each (5 and 10 with --quick), so an engine whose
+ * least 5 warm-up iterations and 10 kept draws each, so an engine whose
  * iterations are slow overruns the budget (its ESS/s stays honest: seconds are measured). ESS is the minimum over the unknowns' coordinates of the bulk and tail
  * ESS (server/engine/diagnostics); ESS/s divides it by the chains' wall time (warm-up included).
  * `auto` is timed from its pilots to its last draw: the pilots are sized for a fit of as many
@@ -34,8 +34,8 @@ const here = path.dirname(fileURLToPath(import.meta.url));
 const QUICK = process.argv.includes('--quick') || process.env.BENCH_QUICK === '1';
 const BUDGET = Number(process.env.BENCH_BUDGET ?? (QUICK ? 0.5 : 8));
 /** Smallest run per chain whatever the budget, and the calibration chain's half-length. */
-const MIN_WARMUP = QUICK ? 5 : 10;
-const MIN_DRAWS = QUICK ? 10 : 20;
+const MIN_WARMUP = 5;
+const MIN_DRAWS = 10;
 const CALIBRATION = QUICK ? 2 : 6;
 const CHAINS = QUICK ? 2 : 4;
 const SEED = 20261203;

@@ -111,6 +111,18 @@ export interface PilotScore {
   error?: string;
 }
 
+/**
+ * RHMC's work per iteration before probing it: about 60 integrator steps per trajectory (the step
+ * size settles near 0.05 for an integration time of 3 in 50 dimensions, samplers/rhmc.ts notes),
+ * each three factorisations plus solves and one evaluation.
+ */
+export function rhmcWorkEstimate(p: PreparedTarget, evalCost: number): number {
+  const n = p.n;
+  let gram = 0;
+  for (let i = 0; i < p.m; i++) gram += (p.rows.ptr[i + 1] - p.rows.ptr[i]) ** 2;
+  return 60 * (3 * ((n * n * n) / 3 + gram) + 12 * (n * n + p.rows.val.length) + evalCost);
+}
+
 /** Modelled flops of a chain: evaluations × their cost + the engine's linear algebra. */
 export function modelledWork(p: PreparedTarget, engine: SamplerName, out: ChainOutput, evalCost: number): number {
   return (out.evaluations ?? 0) * evalCost + linearAlgebraWork(p, engine, out);

@@ -13,7 +13,7 @@ import { dikinWalkChain } from './dikin-walk';
 import { rwmChain } from './rwm';
 import { reflectHmcChain } from './reflect-hmc';
 import { transformHmcChain } from './transform-hmc';
-import { modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, pooledVariance, PROBE_ITERATIONS, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
+import { modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, pooledVariance, PROBE_ITERATIONS, rhmcWorkEstimate, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
 
 /**
  * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
@@ -136,15 +136,27 @@ export async function chooseEngine(
 ): Promise<{ sampler: SamplerName; reason: string }> {
   const list = shortlistEngines(p);
   if (list.candidates.length === 1) return soleCandidateReason(list);
-  // Probes: a few iterations of each candidate give its modelled work per iteration.
-  const probes = await runPilots(
-    list.candidates.map((engine, k) => ({ engine, start: o.start, warmup: PROBE_ITERATIONS / 2, draws: PROBE_ITERATIONS / 2, chain: PILOT_CHAIN_BASE + k })),
+  // Probes: a few iterations of each candidate give its modelled work per iteration. RHMC's probe
+  // alone (its step-size search) can cost more than the other pilots together, so it is probed
+  // only when its estimated work (rhmcWorkEstimate) would let it afford a pilot.
+  const cheap = list.candidates.map((_, k) => k).filter((k) => list.candidates[k] !== 'rhmc');
+  const cheapProbes = await runPilots(
+    cheap.map((k) => ({ engine: list.candidates[k], start: o.start, warmup: PROBE_ITERATIONS / 2, draws: PROBE_ITERATIONS / 2, chain: PILOT_CHAIN_BASE + k })),
   );
+  const probes: (ChainOutput | Error | null)[] = list.candidates.map((_, k) => (cheap.includes(k) ? cheapProbes[cheap.indexOf(k)] : null));
   const perIteration = list.candidates.map((engine, k) => {
     const out = probes[k];
+    if (out === null) return rhmcWorkEstimate(p, o.evalCost);
     return out instanceof Error ? Infinity : modelledWork(p, engine, out, o.evalCost) / PROBE_ITERATIONS;
   });
   const plan = pilotPlan(perIteration, o.fitIterations);
+  for (let k = 0; k < list.candidates.length; k++) {
+    if (probes[k] !== null || plan[k] === 0) continue;
+    const [out] = await runPilots([{ engine: list.candidates[k], start: o.start, warmup: PROBE_ITERATIONS / 2, draws: PROBE_ITERATIONS / 2, chain: PILOT_CHAIN_BASE + k }]);
+    probes[k] = out;
+    perIteration[k] = out instanceof Error ? Infinity : modelledWork(p, list.candidates[k], out, o.evalCost) / PROBE_ITERATIONS;
+    plan[k] = pilotPlan(perIteration, o.fitIterations)[k];
+  }
   const run = list.candidates.map((_, k) => k).filter((k) => plan[k] > 0);
   if (run.length === 0) return unpilotedReason(list);
   const outs = await runPilots(
@@ -160,7 +172,8 @@ export async function chooseEngine(
   const V = pooledVariance(p.target.dim, ok);
   const scores = list.candidates.map((engine, k) => {
     const r = run.indexOf(k);
-    if (r < 0) return probes[k] instanceof Error ? scorePilot(p, engine, probes[k], 0, o.evalCost) : { engine, essPerIteration: 0, workPerIteration: Infinity, score: 0 };
+    const pr = probes[k];
+    if (r < 0) return pr instanceof Error ? scorePilot(p, engine, pr, 0, o.evalCost) : { engine, essPerIteration: 0, workPerIteration: Infinity, score: 0 };
     return scorePilot(p, engine, outs[r], Math.floor(plan[k] / 2), o.evalCost, V);
   });
   return pickByPilots(list, scores, plan);
