@@ -32,11 +32,11 @@ import { PROBLEMS } from './problems';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const QUICK = process.argv.includes('--quick') || process.env.BENCH_QUICK === '1';
-const BUDGET = Number(process.env.BENCH_BUDGET ?? (QUICK ? 0.5 : 8));
+const BUDGET = Number(process.env.BENCH_BUDGET ?? (QUICK ? 0.4 : 8));
 /** Smallest run per chain whatever the budget, and the calibration chain's half-length. */
 const MIN_WARMUP = 5;
 const MIN_DRAWS = 10;
-const CALIBRATION = QUICK ? 2 : 6;
+const CALIBRATION = QUICK ? 1 : 6;
 const CHAINS = QUICK ? 2 : 4;
 const SEED = 20261203;
 
@@ -133,7 +133,7 @@ async function benchProblem(id: string): Promise<ProblemResult> {
       const spi = calibrate(p, engine, starts[0]);
       perIteration.set(engine, spi);
       const { warmup, draws } = sizeFor(spi, BUDGET);
-      if (QUICK && spi * CHAINS * (warmup + draws) > 6 * BUDGET) {
+      if (QUICK && spi * CHAINS * (warmup + draws) > 3 * BUDGET) {
         engines.push({ engine, applicable: true, note: `over the quick budget (${f3(spi)} s per iteration)` });
         process.stderr.write(`    over the quick budget (${f3(spi)} s per iteration)\n`);
         continue;
