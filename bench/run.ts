@@ -1,8 +1,10 @@
 /**
  * Benchmark runner: `npm run bench [-- name ...]`.
  *
- * Imports every bench/*.bench.ts (or those whose name contains one of the arguments), calls its
- * `run(): Promise<Record<string, number | string>>`, prints one table, writes
+ * Imports every bench/*.bench.ts (or those whose name contains one of the arguments; arguments
+ * starting with "--", such as --quick, are left for the benchmarks to read from process.argv),
+ * calls its `run(): Promise<Record<string, number | string>>` — or `{ metrics, structured }`, where
+ * `structured` is an object stored as is beside the metrics in latest.json — prints one table, writes
  * bench/results/latest.json and appends one dated row per benchmark to bench/results/README.md
  * with the machine's CPU model, core count and Node version. Speed is recorded here, never asserted
  * in a test.
@@ -13,6 +15,11 @@ import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 
 type BenchRecord = Record<string, number | string>;
+/** A benchmark may return plain metrics, or metrics plus a structured object for latest.json. */
+export interface StructuredBench {
+  metrics: BenchRecord;
+  structured: Record<string, unknown>;
+}
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 const resultsDir = path.join(here, 'results');
@@ -47,7 +54,7 @@ from the same machine.
 `;
 
 async function main(): Promise<void> {
-  const filters = process.argv.slice(2);
+  const filters = process.argv.slice(2).filter((a) => !a.startsWith('--'));
   const files = readdirSync(here)
     .filter((f) => f.endsWith('.bench.ts'))
     .filter((f) => filters.length === 0 || filters.some((x) => f.includes(x)))
@@ -58,16 +65,18 @@ async function main(): Promise<void> {
   }
   const machine = machineInfo();
   const started = new Date();
-  const results: Record<string, { seconds: number; metrics?: BenchRecord; error?: string }> = {};
+  const results: Record<string, { seconds: number; metrics?: BenchRecord; error?: string; [k: string]: unknown }> = {};
   for (const f of files) {
     const name = f.replace(/\.bench\.ts$/, '');
     process.stderr.write(`running ${name} …\n`);
     const t0 = performance.now();
     try {
-      const mod = (await import(pathToFileURL(path.join(here, f)).href)) as { run?: () => Promise<BenchRecord> };
+      const mod = (await import(pathToFileURL(path.join(here, f)).href)) as { run?: () => Promise<BenchRecord | StructuredBench> };
       if (typeof mod.run !== 'function') throw new Error(`${f} does not export run()`);
-      const metrics = await mod.run();
-      results[name] = { seconds: (performance.now() - t0) / 1000, metrics };
+      const out = await mod.run();
+      const structured = 'structured' in out && 'metrics' in out;
+      const metrics = structured ? (out as StructuredBench).metrics : (out as BenchRecord);
+      results[name] = { seconds: (performance.now() - t0) / 1000, metrics, ...(structured ? (out as StructuredBench).structured : {}) };
     } catch (e) {
       results[name] = { seconds: (performance.now() - t0) / 1000, error: (e as Error).message };
     }

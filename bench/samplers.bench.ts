@@ -1,119 +1,275 @@
 /**
- * Sampler benchmark: barrier-metric RHMC and rounded hit-and-run on the uniform simplex and the
- * order simplex in 50 dimensions. Records min(bulk, tail) ESS per draw over all coordinates (goal
- * for RHMC ≥ 0.3), metric factorisations per integrator step (goal ≤ 4), the adapted step size,
- * seconds, and the Cholesky kernel comparison behind linalg/cholesky.ts's choice.
- * Runnable alone: `npx tsx bench/samplers.bench.ts`.
+ * Engine comparison: every engine (and `auto`) on every problem P1–P9 (bench/problems), each with
+ * the same wall-clock budget, one thread, chains one after another in-process, all engines fitting
+ * the same compiled model.
+ *
+ *   npm run bench -- samplers [--quick]        (or BENCH_QUICK=1; BENCH_BUDGET=seconds overrides)
+ *
+ * Per engine and problem: a short calibration chain (not counted) gives the seconds per iteration;
+ * the chains then get iterations = budget / (chains × seconds per iteration), half warm-up, at
+ * least 5 warm-up iterations and 10 kept draws each, so an engine whose
+ * iterations are slow overruns the budget (its ESS/s stays honest: seconds are measured). ESS is the minimum over the unknowns' coordinates of the bulk and tail
+ * ESS (server/engine/diagnostics); ESS/s divides it by the chains' wall time (warm-up included).
+ * `auto` is timed from its pilots to its last draw: the pilots are sized for a fit of as many
+ * iterations as the cheapest shortlisted engine does in the budget, and its chains get what is
+ * left of the budget. gradientsPerDraw counts log-density-and-gradient evaluations per iteration
+ * (warm-up and kept alike). Writes latest.json (through bench/run.ts) and appends a dated table
+ * to bench/results/samplers.md.
  */
+import { appendFileSync, existsSync, writeFileSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { dispersedStarts, prepareTarget } from '../server/engine/geometry';
-import { sampleChain } from '../server/engine/samplers';
-import { DEFAULT_RHMC, stepResultCounts } from '../server/engine/samplers/rhmc';
-import { setCholeskyKernel } from '../server/engine/linalg/cholesky';
-import { essBulk, essTail } from '../server/engine/diagnostics';
+import { ENGINES } from '../shared/fit';
+import { compileProgram } from '../server/engine/compile';
+import { dispersedStarts, prepareTarget, type PreparedTarget } from '../server/engine/geometry';
+import { chooseEngine, evaluationCostOf, sampleChain, shortlistEngines } from '../server/engine/samplers';
+import { detectTransformShape } from '../server/engine/samplers/transform-hmc';
+import { essBulk, essTail, rhat } from '../server/engine/diagnostics';
 import { Rng } from '../server/engine/rng';
-import type { ModelTarget, SamplerName } from '../server/engine/types';
-import { gaussianOnSimplexTarget, orderedGroupsTarget, orderedMeansTarget, orderSimplexTarget, uniformSimplexTarget } from '../tests/unit/samplers/targets';
+import type { ChainOutput, SamplerName } from '../server/engine/types';
+import { PROBLEMS } from './problems';
 
-const CHAINS = 2;
+const here = path.dirname(fileURLToPath(import.meta.url));
+const QUICK = process.argv.includes('--quick') || process.env.BENCH_QUICK === '1';
+const BUDGET = Number(process.env.BENCH_BUDGET ?? (QUICK ? 0.4 : 8));
+/** Smallest run per chain whatever the budget, and the calibration chain's half-length. */
+const MIN_WARMUP = 5;
+const MIN_DRAWS = 10;
+const CALIBRATION = QUICK ? 1 : 6;
+const CHAINS = QUICK ? 2 : 4;
+const SEED = 20261203;
 
-function measure(target: ModelTarget, sampler: SamplerName, warmup: number, draws: number, seed: number) {
-  const p = prepareTarget(target);
-  const starts = dispersedStarts(p, CHAINS, new Rng(seed, 999));
+const f3 = (x: number | undefined) => (x === undefined || !Number.isFinite(x) ? '–' : x >= 100 ? x.toFixed(0) : x >= 1 ? x.toFixed(1) : x.toPrecision(2));
+
+export interface EngineResult {
+  engine: string;
+  applicable: boolean;
+  note?: string;
+  minEssBulk?: number;
+  minEssTail?: number;
+  essPerSecond?: number;
+  essPerDraw?: number;
+  gradientsPerDraw?: number;
+  maxRhat?: number;
+  seconds?: number;
+  chosen?: string;
+}
+
+interface ProblemResult {
+  id: string;
+  title: string;
+  dimension: number;
+  engines: EngineResult[];
+  /** auto's ESS/s over the best engine's in this run (pilots included). */
+  autoRatio?: number;
+}
+
+function runChainsTimed(p: PreparedTarget, engine: SamplerName, starts: Float64Array[], warmup: number, draws: number): { outs: ChainOutput[]; seconds: number } {
   const t0 = performance.now();
-  const outs = starts.map((s, c) => sampleChain(p, sampler, s, { warmup, draws, seed, chain: c }));
-  const seconds = (performance.now() - t0) / 1000;
-  const dim = target.dim;
-  let minEss = Infinity;
+  const outs = starts.map((s, c) => sampleChain(p, engine, s, { warmup, draws, seed: SEED, chain: c }));
+  return { outs, seconds: (performance.now() - t0) / 1000 };
+}
+
+/** Seconds per iteration from a short chain (not counted in the budget). */
+function calibrate(p: PreparedTarget, engine: SamplerName, start: Float64Array): number {
+  const t0 = performance.now();
+  sampleChain(p, engine, start, { warmup: CALIBRATION, draws: CALIBRATION, seed: SEED + 1, chain: 0 });
+  return Math.max(1e-6, (performance.now() - t0) / 1000 / (2 * CALIBRATION));
+}
+
+function sizeFor(secondsPerIteration: number, budget: number): { warmup: number; draws: number } {
+  const iters = Math.floor(budget / (CHAINS * secondsPerIteration));
+  const warmup = Math.max(MIN_WARMUP, Math.floor(iters / 2));
+  return { warmup, draws: Math.max(MIN_DRAWS, iters - warmup) };
+}
+
+function summarise(p: PreparedTarget, engine: string, outs: ChainOutput[], draws: number, warmup: number, seconds: number): EngineResult {
+  const dim = p.target.dim;
+  let minB = Infinity;
+  let minT = Infinity;
+  let maxR = 0;
   for (let j = 0; j < dim; j++) {
     const ch = outs.map((o) => Float64Array.from({ length: draws }, (_, k) => o.draws[k * dim + j]));
-    minEss = Math.min(minEss, essBulk(ch), essTail(ch));
+    // NaN (a tail indicator constant in a split half of a very short run) counts as no information.
+    const b = essBulk(ch);
+    const t = essTail(ch);
+    minB = Math.min(minB, Number.isFinite(b) ? b : 0);
+    minT = Math.min(minT, Number.isFinite(t) ? t : 0);
+    const r = rhat(ch);
+    maxR = Math.max(maxR, Number.isFinite(r) ? r : Infinity);
   }
-  const total = CHAINS * draws;
-  const div = outs.reduce((s, o) => s + o.divergent.reduce((a, b) => a + b, 0), 0);
-  const rej = outs.reduce((s, o) => s + (o.rejected ?? new Uint8Array(0)).reduce((a, b) => a + b, 0), 0);
+  const ess = Math.min(minB, minT);
+  const evals = outs.reduce((s, o) => s + (o.evaluations ?? 0), 0);
   return {
-    essPerDraw: minEss / total,
+    engine,
+    applicable: true,
+    minEssBulk: minB,
+    minEssTail: minT,
+    essPerSecond: ess / seconds,
+    essPerDraw: ess / (outs.length * draws),
+    gradientsPerDraw: evals / (outs.length * (warmup + draws)),
+    maxRhat: maxR,
     seconds,
-    stepSize: outs.reduce((s, o) => s + o.stepSize, 0) / CHAINS,
-    fps: outs.reduce((s, o) => s + (o.factorizationsPerStep ?? NaN), 0) / CHAINS,
-    divergentFraction: div / total,
-    rejectedFraction: rej / total,
-    acceptance: outs.reduce((s, o) => s + o.acceptStat.reduce((a, b) => a + b, 0), 0) / total,
   };
 }
 
-export async function run(): Promise<Record<string, number | string>> {
-  const out: Record<string, number | string> = { chains: CHAINS };
-  const cases: [string, ModelTarget][] = [
-    ['simplex50', uniformSimplexTarget(50)],
-    ['order50', orderSimplexTarget(50)],
-  ];
-  const W = 300;
-  const D = 500;
-  out.rhmcWarmupDraws = `${W}/${D}`;
-  for (const [name, t] of cases) {
-    for (const k of Object.keys(stepResultCounts)) delete stepResultCounts[k];
-    const r = measure(t, 'rhmc', W, D, 2026);
-    out[`${name}.rhmc.essPerDraw`] = r.essPerDraw;
-    out[`${name}.rhmc.factorizationsPerStep`] = r.fps;
-    out[`${name}.rhmc.stepSize`] = r.stepSize;
-    out[`${name}.rhmc.acceptance`] = r.acceptance;
-    out[`${name}.rhmc.divergentFraction`] = r.divergentFraction;
-    out[`${name}.rhmc.rejectedFraction`] = r.rejectedFraction;
-    out[`${name}.rhmc.seconds`] = r.seconds;
-    const steps = Object.values(stepResultCounts).reduce((a, b) => a + b, 0);
-    out[`${name}.rhmc.failedStepFraction`] = steps > 0 ? 1 - (stepResultCounts.ok ?? 0) / steps : NaN;
-    const h = measure(t, 'hitrun', W, D, 2026);
-    out[`${name}.hitrun.essPerDraw`] = h.essPerDraw;
-    out[`${name}.hitrun.seconds`] = h.seconds;
-  }
-  // Λ adaptation: likelihood curvature (default) against inverse warm-up variances, on two
-  // likelihood-dominated constrained targets.
-  const y = [0.8, 1.1, 0.9, 1.6, 2.2, 2.0, 2.9, 3.1, 2.7, 3.8];
-  const metricCases: [string, ModelTarget][] = [
-    ['ordered10', orderedMeansTarget({ y, sigma: 0.3 })],
-    ['gaussOnSimplex10', gaussianOnSimplexTarget({ d: 10, centre: 0.08, sd: 0.03 })],
-  ];
-  for (const mode of ['curvature', 'variance'] as const) {
-    DEFAULT_RHMC.metricAdaptation = mode;
-    for (const [name, t] of metricCases) {
-      const r = measure(t, 'rhmc', 300, 500, 5);
-      out[`metric.${mode}.${name}.essPerDraw`] = r.essPerDraw;
-      out[`metric.${mode}.${name}.seconds`] = r.seconds;
+async function benchProblem(id: string): Promise<ProblemResult> {
+  const pr = PROBLEMS[id]();
+  const tStart = performance.now();
+  const target = compileProgram(pr.source, pr.tables);
+  const p = prepareTarget(target);
+  const starts = dispersedStarts(p, CHAINS, new Rng(SEED, 0x5eed));
+  const shape = detectTransformShape(target);
+  const engines: EngineResult[] = [];
+  const perIteration = new Map<string, number>();
+  for (const engine of ENGINES) {
+    if (engine === 'transform-hmc' && !shape.ok) {
+      engines.push({ engine, applicable: false, note: 'not applicable: the region is not a product of bounds, simplices and orderings' });
+      continue;
+    }
+    process.stderr.write(`  ${id} ${engine} …\n`);
+    try {
+      const spi = calibrate(p, engine, starts[0]);
+      perIteration.set(engine, spi);
+      const { warmup, draws } = sizeFor(spi, BUDGET);
+      if (QUICK && spi * CHAINS * (warmup + draws) > 3 * BUDGET) {
+        engines.push({ engine, applicable: true, note: `over the quick budget (${f3(spi)} s per iteration)` });
+        process.stderr.write(`    over the quick budget (${f3(spi)} s per iteration)\n`);
+        continue;
+      }
+      const { outs, seconds } = runChainsTimed(p, engine, starts, warmup, draws);
+      const r = summarise(p, engine, outs, draws, warmup, seconds);
+      engines.push(r);
+      process.stderr.write(`    ESS/s ${f3(r.essPerSecond)}, ESS/draw ${f3(r.essPerDraw)}, ${f3(seconds)} s\n`);
+    } catch (e) {
+      engines.push({ engine, applicable: true, note: `failed: ${(e as Error).message.slice(0, 160)}` });
     }
   }
-  DEFAULT_RHMC.metricAdaptation = 'curvature';
-  // A realistic posterior: ordered group means with a shared scale (divergent share matters for the
-  // run verdict, which flags any divergence; a rejected share above 10% is flagged too).
-  const groups = orderedGroupsTarget({
-    y: [
-      [2.1, 2.9, 1.7, 2.5, 3.0, 2.2],
-      [2.4, 2.0, 2.8, 1.9, 2.6, 2.3],
-      [3.9, 4.4, 3.6, 4.1, 4.8, 3.7],
-      [3.5, 4.0, 3.8, 4.6, 3.3, 4.2],
-    ],
-  });
-  const g = measure(groups, 'rhmc', 400, 1000, 8);
-  out['orderedGroups.rhmc.essPerDraw'] = g.essPerDraw;
-  out['orderedGroups.rhmc.divergentFraction'] = g.divergentFraction;
-  out['orderedGroups.rhmc.rejectedFraction'] = g.rejectedFraction;
-  out['orderedGroups.rhmc.stepSize'] = g.stepSize;
-  out['orderedGroups.rhmc.seconds'] = g.seconds;
-  // Cholesky kernel: the same short RHMC run with ml-matrix's decomposition and with the in-place loop.
-  const t = uniformSimplexTarget(50);
-  setCholeskyKernel('ml-matrix');
-  const ml = measure(t, 'rhmc', 60, 60, 7);
-  setCholeskyKernel('inplace');
-  const ip = measure(t, 'rhmc', 60, 60, 7);
-  out['cholesky.mlMatrix.seconds'] = ml.seconds;
-  out['cholesky.inplace.seconds'] = ip.seconds;
-  out['cholesky.speedup'] = ml.seconds / ip.seconds;
-  return out;
+  // auto: pilots and chains inside the same budget.
+  process.stderr.write(`  ${id} auto …\n`);
+  try {
+    const list = shortlistEngines(p);
+    const cheapest = Math.min(...list.candidates.map((c) => perIteration.get(c) ?? Infinity));
+    const fitSize = sizeFor(cheapest, BUDGET);
+    const t0 = performance.now();
+    const choice = await chooseEngine(
+      p,
+      { start: starts[0], fitIterations: CHAINS * (fitSize.warmup + fitSize.draws), evalCost: evaluationCostOf({ kind: 'program', source: pr.source, tables: pr.tables }, target.dim) },
+      async (jobs) =>
+        jobs.map((j) => {
+          try {
+            return sampleChain(p, j.engine, j.start, { warmup: j.warmup, draws: j.draws, seed: SEED, chain: j.chain });
+          } catch (e) {
+            return e as Error;
+          }
+        }),
+    );
+    const pilotSeconds = (performance.now() - t0) / 1000;
+    const spi = perIteration.get(choice.sampler) ?? calibrate(p, choice.sampler, starts[0]);
+    const { warmup, draws } = sizeFor(spi, Math.max(BUDGET - pilotSeconds, 0));
+    const { outs, seconds } = runChainsTimed(p, choice.sampler, starts, warmup, draws);
+    const r = summarise(p, 'auto', outs, draws, warmup, seconds + pilotSeconds);
+    r.chosen = choice.sampler;
+    r.note = `pilots ${pilotSeconds.toFixed(2)} s; ${choice.reason}`;
+    engines.push(r);
+    process.stderr.write(`    chose ${choice.sampler}: ESS/s ${f3(r.essPerSecond)}, pilots ${f3(pilotSeconds)} s, ${f3(r.seconds)} s\n    ${choice.reason}\n`);
+  } catch (e) {
+    engines.push({ engine: 'auto', applicable: true, note: `failed: ${(e as Error).message.slice(0, 160)}` });
+  }
+  const best = Math.max(...engines.filter((e) => e.engine !== 'auto' && e.essPerSecond !== undefined).map((e) => e.essPerSecond!));
+  const auto = engines.find((e) => e.engine === 'auto')?.essPerSecond;
+  process.stderr.write(`  ${id} done in ${f3((performance.now() - tStart) / 1000)} s; auto/best = ${f3(auto !== undefined && best > 0 ? auto / best : NaN)}\n`);
+  return { id, title: pr.title, dimension: p.n, engines, autoRatio: auto !== undefined && best > 0 ? auto / best : undefined };
+}
+
+
+function markdown(problems: ProblemResult[], date: string): string {
+  const cpu = os.cpus()[0]?.model.trim() ?? 'unknown';
+  const lines = [
+    `## ${date} (${QUICK ? 'quick' : 'full'}: ${BUDGET} s per engine, ${CHAINS} chains, ${cpu}, node ${process.version})`,
+    '',
+    `ESS/s (min over coordinates of bulk and tail ESS, per second of the chains' wall time). The best engine per problem is in bold; "auto" is followed by the engine it chose and its ratio to the best.`,
+    '',
+    `| engine | ${problems.map((p) => `${p.id} (d=${p.dimension})`).join(' | ')} |`,
+    `|---|${problems.map(() => '---').join('|')}|`,
+  ];
+  const names = [...ENGINES, 'auto'];
+  for (const name of names) {
+    const cells = problems.map((p) => {
+      const e = p.engines.find((x) => x.engine === name);
+      if (!e) return '';
+      if (!e.applicable) return 'n/a';
+      if (e.essPerSecond === undefined) return e.note?.startsWith('over') ? 'over budget' : 'failed';
+      const best = Math.max(...p.engines.filter((x) => x.engine !== 'auto' && x.essPerSecond !== undefined).map((x) => x.essPerSecond!));
+      const v = f3(e.essPerSecond);
+      if (name === 'auto') return `${v} (${e.chosen}, ${f3(p.autoRatio)}×)`;
+      return e.essPerSecond === best ? `**${v}**` : v;
+    });
+    lines.push(`| ${name} | ${cells.join(' | ')} |`);
+  }
+  lines.push('', `auto ≥ 0.8 × best: ${problems.map((p) => `${p.id} ${p.autoRatio !== undefined && p.autoRatio >= 0.8 ? 'met' : 'NOT met'} (${f3(p.autoRatio)})`).join(', ')}.`, '');
+  lines.push('ESS per draw / evaluations per iteration / max R̂:', '');
+  lines.push(`| engine | ${problems.map((p) => p.id).join(' | ')} |`, `|---|${problems.map(() => '---').join('|')}|`);
+  for (const name of names) {
+    const cells = problems.map((p) => {
+      const e = p.engines.find((x) => x.engine === name);
+      if (!e || !e.applicable) return 'n/a';
+      if (e.essPerSecond === undefined) return 'failed';
+      return `${f3(e.essPerDraw)} / ${f3(e.gradientsPerDraw)} / ${e.maxRhat!.toFixed(2)}`;
+    });
+    lines.push(`| ${name} | ${cells.join(' | ')} |`);
+  }
+  return lines.join('\n') + '\n\n';
+}
+
+const MD_HEAD = `# Sampler benchmark history
+
+Appended by \`npm run bench -- samplers\` (newest last). Problems: bench/problems/index.ts; method:
+docs/engine.md §9. Compare rows from the same machine.
+
+`;
+
+export async function run() {
+  const date = new Date().toISOString().slice(0, 16).replace('T', ' ');
+  const problems: ProblemResult[] = [];
+  for (const id of Object.keys(PROBLEMS)) problems.push(await benchProblem(id));
+  const md = path.join(here, 'results', 'samplers.md');
+  if (!existsSync(md)) writeFileSync(md, MD_HEAD);
+  appendFileSync(md, markdown(problems, date));
+  const metrics: Record<string, number | string> = { mode: QUICK ? 'quick' : 'full', budgetSeconds: BUDGET, chains: CHAINS };
+  for (const p of problems) {
+    metrics[`${p.id}.autoRatio`] = p.autoRatio ?? NaN;
+    metrics[`${p.id}.autoChose`] = p.engines.find((e) => e.engine === 'auto')?.chosen ?? 'failed';
+  }
+  return {
+    metrics,
+    structured: {
+      problems: problems.map((p) => ({
+        id: p.id,
+        title: p.title,
+        dimension: p.dimension,
+        autoRatio: p.autoRatio ?? null,
+        engines: p.engines.map((e) =>
+          e.applicable && e.essPerSecond !== undefined
+            ? {
+                engine: e.engine,
+                minEssBulk: e.minEssBulk,
+                minEssTail: e.minEssTail,
+                essPerSecond: e.essPerSecond,
+                essPerDraw: e.essPerDraw,
+                gradientsPerDraw: e.gradientsPerDraw,
+                maxRhat: e.maxRhat,
+                seconds: e.seconds,
+                ...(e.chosen ? { chosen: e.chosen, note: e.note } : {}),
+              }
+            : { engine: e.engine, note: e.applicable ? e.note : 'not applicable' },
+        ),
+      })),
+    },
+  };
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  run().then((r) => {
-    for (const [k, v] of Object.entries(r)) console.log(k.padEnd(40), typeof v === 'number' ? Number(v.toPrecision(4)) : v);
-  });
+  run().then((r) => console.log(JSON.stringify(r.metrics, null, 1)));
 }

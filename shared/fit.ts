@@ -4,7 +4,23 @@
  */
 import { z } from 'zod';
 
-export const SAMPLERS = ['auto', 'rhmc', 'hitrun'] as const;
+/** Sampling engines a chain can run with (docs/engine.md §9). */
+export const ENGINES = [
+  'rhmc',
+  'rhmc-gl',
+  'hitrun',
+  'hitrun-plain',
+  'coord-hitrun',
+  'ball-walk',
+  'dikin-walk',
+  'rwm',
+  'transform-hmc',
+  'reflect-hmc',
+] as const;
+export type EngineName = (typeof ENGINES)[number];
+
+/** What the fit settings accept: an engine, or 'auto' (the engine picks and says why). */
+export const SAMPLERS = ['auto', ...ENGINES] as const;
 
 /**
  * Most unknown coordinates a model may have, everywhere: the model check (editor, compile route)
@@ -79,7 +95,7 @@ export const runDiagnosticsSchema = z.object({
   /** Mean number of metric factorisations per integrator step (RHMC only). */
   factorizationsPerStep: z.number().optional(),
   /** Sampler actually used and why (when settings.sampler was 'auto'). */
-  samplerUsed: z.enum(['rhmc', 'hitrun']),
+  samplerUsed: z.enum(ENGINES),
   samplerReason: z.string(),
 });
 export type RunDiagnostics = z.infer<typeof runDiagnosticsSchema>;

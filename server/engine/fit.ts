@@ -24,7 +24,7 @@ import {
 import type { ChainResult, FitResult, SamplerName, TargetSpec } from './types';
 import { Rng } from './rng';
 import { dispersedStarts, type PreparedTarget } from './geometry';
-import { chooseSampler } from './samplers';
+import { chooseEngine, evaluationCostOf } from './samplers';
 import { findMode } from './mode';
 import { summarise } from './summarise';
 import { preparedFor, runChainOnPrepared, type ChainJob } from './fit-worker';
@@ -79,10 +79,38 @@ export async function runFit(
     throw new Error(`The model has ${target.dim} unknowns; a fit allows at most ${FIT_LIMITS.dimension}.`);
   }
 
+  const starts = dispersedStarts(p, settings.chains, new Rng(settings.seed, STARTS_STREAM));
+
   let sampler: SamplerName;
   let samplerReason: string;
   if (settings.sampler === 'auto') {
-    const choice = chooseSampler(p);
+    // Decided once per fit, before any chain starts: every chain runs the same engine. Pilot chains
+    // run like the fit's chains (worker threads unless parallel is false) and are never returned.
+    const choice = await chooseEngine(
+      p,
+      {
+        start: starts[0],
+        fitIterations: settings.chains * (settings.warmup + settings.draws),
+        evalCost: evaluationCostOf(spec, target.dim),
+      },
+      (pilots) =>
+        Promise.all(
+          pilots.map(async (pl) => {
+            const job: ChainJob = { spec, sampler: pl.engine, start: Array.from(pl.start), warmup: pl.warmup, draws: pl.draws, seed: settings.seed, chain: pl.chain };
+            const none: ChainProgress = () => {};
+            try {
+              const [out] =
+                opts.parallel === false
+                  ? await runInProcess(p, [job], none, opts.signal, new Map())
+                  : await runOnWorkers([job], none, opts.signal, opts.maxWorkers, new Map());
+              return out as ChainResult | Error;
+            } catch (e) {
+              if (opts.signal?.aborted || (e instanceof Error && e.name === 'AbortError')) throw new FitCancelledError();
+              return e instanceof Error ? e : new Error(String(e));
+            }
+          }),
+        ),
+    );
     sampler = choice.sampler;
     samplerReason = choice.reason;
   } else {
@@ -90,7 +118,6 @@ export async function runFit(
     samplerReason = `Chosen in the fit settings (${settings.sampler}).`;
   }
 
-  const starts = dispersedStarts(p, settings.chains, new Rng(settings.seed, STARTS_STREAM));
   const jobs: ChainJob[] = starts.map((start, chain) => ({
     spec,
     sampler,

@@ -67,7 +67,18 @@ export type TargetSpec =
 /* Samplers (server/engine/samplers) ↔ fit orchestration (server/engine/fit.ts)                */
 /* ------------------------------------------------------------------------------------------ */
 
-export type SamplerName = 'rhmc' | 'hitrun';
+/** Engines a chain can run with (see docs/engine.md §9); 'auto' is resolved before chains start. */
+export type SamplerName =
+  | 'rhmc'
+  | 'rhmc-gl'
+  | 'hitrun'
+  | 'hitrun-plain'
+  | 'coord-hitrun'
+  | 'ball-walk'
+  | 'dikin-walk'
+  | 'rwm'
+  | 'transform-hmc'
+  | 'reflect-hmc';
 
 export interface ChainOptions {
   warmup: number;
@@ -116,6 +127,13 @@ export interface ChainOutput {
   metricStructure?: string;
   /** RHMC integrator: 'midpoint' (default) or 'leapfrog' (generalised leapfrog). */
   integrator?: string;
+  /**
+   * Modelled linear-algebra work of the whole chain in flops, density evaluations excluded (the
+   * automatic choice's deterministic cost model; absent for samplers that do not count it).
+   */
+  work?: number;
+  /** Log-density (with gradient) evaluations of the whole chain, warm-up included. */
+  evaluations?: number;
 }
 
 /** One chain's kept output plus the derived quantities evaluated per draw. */

@@ -2,7 +2,7 @@
  * Command-line arguments of the headless fit:
  *
  *   npm run fit -- <model file> [--data name=path.csv | --data path.csv]... [--chains N]
- *       [--warmup N] [--draws N] [--seed N] [--sampler auto|rhmc|hitrun] [--json]
+ *       [--warmup N] [--draws N] [--seed N] [--sampler auto|ENGINE] [--json]
  *       [--draws-out file.csv] [--mode] [--export NAME] [--prior-only] [--replicates N]
  *       [--replicates-out file.csv] [--check-stat NAME]...
  *
@@ -11,7 +11,7 @@
  */
 import { parseArgs } from 'node:util';
 import path from 'node:path';
-import { FIT_LIMITS, SAMPLERS, type FitSettings } from '../../../shared/fit';
+import { ENGINES, FIT_LIMITS, SAMPLERS, type FitSettings } from '../../../shared/fit';
 import { statistic } from '../predictive/ppc';
 
 export class UsageError extends Error {
@@ -30,7 +30,7 @@ Options:
   --warmup N             warm-up iterations per chain (${FIT_LIMITS.warmup.min}–${FIT_LIMITS.warmup.max}, default 1000)
   --draws N              kept draws per chain (${FIT_LIMITS.draws.min}–${FIT_LIMITS.draws.max}, default 1000)
   --seed N               random seed (0–2147483647, default 20261201)
-  --sampler NAME         auto (default), rhmc or hitrun
+  --sampler NAME         auto (default) or an engine: ${ENGINES.join(', ')}
   --mode                 also report the maximum a posteriori point
   --json                 print the summary as JSON (see docs/engine.md)
   --draws-out FILE       write every draw to FILE as CSV with chain and iteration columns

@@ -1,6 +1,8 @@
 /**
- * Hit-and-run along random chords of the region (Smith 1984), directions rounded by the Dikin
- * ellipsoid of the barrier at the centre: d = L⁻ᵀ u with u uniform on the unit sphere and
+ * Hit-and-run along random chords of the region ("Efficient Monte Carlo procedures for generating
+ * points uniformly distributed over bounded regions", Operations Research, 1984). Two engines:
+ * `hitrun` (directions rounded by the Dikin ellipsoid of the barrier at the centre) and
+ * `hitrun-plain` (directions uniform on the unit sphere of the reduced coordinates). Rounded: d = L⁻ᵀ u with u uniform on the unit sphere and
  * L Lᵀ = Aᵀ S⁻² A (+ ρ I on unbounded regions). The direction law is fixed and symmetric (d and −d
  * equally likely), so each move leaves the target invariant: it samples the target restricted to
  * the line through the current point.
@@ -22,6 +24,8 @@ export interface HitRunState {
   s: Float64Array;
   l: number;
   exactChord: boolean;
+  /** Directions L⁻ᵀu (Dikin-rounded) rather than u. */
+  rounded: boolean;
   /** Slice width along t (in Dikin units). */
   width: number;
   // scratch
@@ -36,13 +40,14 @@ export interface HitRunState {
   evals: number;
 }
 
-export function makeHitRunState(p: PreparedTarget, z0: Float64Array, exactChord: boolean): HitRunState {
+export function makeHitRunState(p: PreparedTarget, z0: Float64Array, exactChord: boolean, rounded = true): HitRunState {
   const n = p.n;
   const st: HitRunState = {
     z: Float64Array.from(z0),
     s: new Float64Array(p.m),
     l: NaN,
     exactChord,
+    rounded,
     width: 1,
     d: new Float64Array(n),
     Ad: new Float64Array(p.m),
@@ -76,7 +81,8 @@ export function hitRunStep(p: PreparedTarget, st: HitRunState, rng: Rng, adapt: 
   rng.normals(u);
   const nu = Math.sqrt(dot(u, u));
   for (let q = 0; q < n; q++) u[q] /= nu;
-  backwardL(p.dikinL, n, u, d);
+  if (st.rounded) backwardL(p.dikinL, n, u, d);
+  else d.set(u);
   p.rows.mul(d, Ad);
   let tmin = -Infinity;
   let tmax = Infinity;
@@ -158,11 +164,18 @@ export function hitRunStep(p: PreparedTarget, st: HitRunState, rng: Rng, adapt: 
 }
 
 /** Runs a hit-and-run chain: warm-up moves adapt the slice width, then opts.draws kept draws. */
-export function hitRunChain(p: PreparedTarget, start: Float64Array, opts: ChainOptions, rng: Rng, check: (z: Float64Array, out: Float64Array) => void): ChainOutput {
+export function hitRunChain(
+  p: PreparedTarget,
+  start: Float64Array,
+  opts: ChainOptions,
+  rng: Rng,
+  check: (z: Float64Array, out: Float64Array) => void,
+  rounded = true,
+): ChainOutput {
   const n = p.n;
   const dim = p.target.dim;
   const exact = isFlat(p) && p.bounded && p.m > 0;
-  const st = makeHitRunState(p, start, exact);
+  const st = makeHitRunState(p, start, exact, rounded);
   const moves = Math.max(1, n);
   const draws = new Float64Array(opts.draws * dim);
   const theta = new Float64Array(dim);
@@ -192,5 +205,7 @@ export function hitRunChain(p: PreparedTarget, start: Float64Array, opts: ChainO
     divergent: new Uint8Array(opts.draws),
     acceptStat: new Float64Array(opts.draws).fill(1),
     stepSize: NaN,
+    // Per move: A d, the chord and the slack update (≈ 2 nnz + 4 m), the direction (n² rounded).
+    work: total * moves * (2 * p.rows.val.length + 4 * p.m + 4 * n + (rounded ? n * n : 0)),
   };
 }

@@ -7,6 +7,13 @@ import { isFlat } from '../geometry';
 import { Rng } from '../rng';
 import { hitRunChain } from './hitrun';
 import { rhmcChain } from './rhmc';
+import { ballWalkChain } from './ball-walk';
+import { coordHitRunChain } from './coord-hitrun';
+import { dikinWalkChain } from './dikin-walk';
+import { rwmChain } from './rwm';
+import { reflectHmcChain } from './reflect-hmc';
+import { transformHmcChain } from './transform-hmc';
+import { modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, pooledVariance, PROBE_ITERATIONS, rhmcWorkEstimate, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
 
 /**
  * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
@@ -45,8 +52,27 @@ export function makeDrawCheck(p: PreparedTarget): (z: Float64Array, out: Float64
 }
 
 /** Runs warm-up then keeps opts.draws draws; the returned draws are in θ coordinates. */
-export function sampleChain(p: PreparedTarget, sampler: SamplerName, start: Float64Array, opts: ChainOptions): ChainOutput {
-  if (start.length !== p.n) throw new Error(`start has length ${start.length}, expected the reduced dimension ${p.n}`);
+export function sampleChain(p0: PreparedTarget, sampler: SamplerName, start: Float64Array, opts: ChainOptions): ChainOutput {
+  if (start.length !== p0.n) throw new Error(`start has length ${start.length}, expected the reduced dimension ${p0.n}`);
+  // Density evaluations are counted for the run diagnostics, the benchmark and the automatic
+  // choice's cost model (one closure call per evaluation).
+  let evaluations = 0;
+  const inner = p0.target.logDensity;
+  const target = {
+    ...p0.target,
+    logDensity: (t: Float64Array, g: Float64Array) => {
+      evaluations++;
+      return inner.call(p0.target, t, g);
+    },
+  };
+  const p: PreparedTarget = { ...p0, target, logDensity: (z, g) => (p0.N ? (evaluations++, p0.logDensity(z, g)) : target.logDensity(z, g)) };
+  const out = sampleWith(p, sampler, start, opts);
+  if (p.flat !== undefined) p0.flat = p.flat;
+  out.evaluations = evaluations;
+  return out;
+}
+
+function sampleWith(p: PreparedTarget, sampler: SamplerName, start: Float64Array, opts: ChainOptions): ChainOutput {
   const rng = new Rng(opts.seed, opts.chain);
   const check = makeDrawCheck(p);
   // A non-finite log-density at the start is reported before any work.
@@ -65,31 +91,90 @@ export function sampleChain(p: PreparedTarget, sampler: SamplerName, start: Floa
   if (isFlat(p) && !p.bounded) {
     throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
   }
-  if (sampler === 'hitrun') return hitRunChain(p, start, opts, rng, check);
-  if (sampler === 'rhmc') return rhmcChain(p, start, opts, rng, check);
-  throw new Error(`unknown sampler "${String(sampler)}"`);
+  switch (sampler) {
+    case 'rhmc':
+      return rhmcChain(p, start, opts, rng, check, {});
+    case 'rhmc-gl':
+      return rhmcChain(p, start, opts, rng, check, { integrator: 'leapfrog' });
+    case 'hitrun':
+      return hitRunChain(p, start, opts, rng, check, true);
+    case 'hitrun-plain':
+      return hitRunChain(p, start, opts, rng, check, false);
+    case 'coord-hitrun':
+      return coordHitRunChain(p, start, opts, rng, check);
+    case 'ball-walk':
+      return ballWalkChain(p, start, opts, rng, check);
+    case 'dikin-walk':
+      return dikinWalkChain(p, start, opts, rng, check);
+    case 'rwm':
+      return rwmChain(p, start, opts, rng, check);
+    case 'transform-hmc':
+      return transformHmcChain(p, start, opts, rng, check);
+    case 'reflect-hmc':
+      return reflectHmcChain(p, start, opts, rng, check);
+    default:
+      throw new Error(`unknown sampler "${String(sampler)}"`);
+  }
 }
 
-/** Picks a sampler by the model's structure and says why in one sentence. */
-export function chooseSampler(p: PreparedTarget): { sampler: SamplerName; reason: string } {
-  const flat = isFlat(p);
-  if (flat && p.m > 0 && p.bounded) {
-    return {
-      sampler: 'hitrun',
-      reason: 'The log-density is constant and the constraints enclose a bounded region, so hit-and-run with exact uniform chords samples it directly.',
-    };
+export { shortlistEngines, evaluationCostOf, PILOT_CHAIN_BASE } from './auto';
+
+/** A pilot run: one chain of `engine` from `start` with the given warm-up, draws and chain index. */
+export type PilotRunner = (
+  jobs: { engine: SamplerName; start: Float64Array; warmup: number; draws: number; chain: number }[],
+) => Promise<(ChainOutput | Error)[]>;
+
+/**
+ * The automatic choice (samplers/auto.ts): shortlist by structure, then pilots of the candidates
+ * (run by `runPilots`, in worker threads for a fit), scored by ESS per unit of modelled work.
+ * Deterministic in (model, seed, iterations).
+ */
+export async function chooseEngine(
+  p: PreparedTarget,
+  o: { start: Float64Array; fitIterations: number; evalCost: number },
+  runPilots: PilotRunner,
+): Promise<{ sampler: SamplerName; reason: string }> {
+  const list = shortlistEngines(p);
+  if (list.candidates.length === 1) return soleCandidateReason(list);
+  // Probes: a few iterations of each candidate give its modelled work per iteration. RHMC's probe
+  // alone (its step-size search) can cost more than the other pilots together, so it is probed
+  // only when its estimated work (rhmcWorkEstimate) would let it afford a pilot.
+  const cheap = list.candidates.map((_, k) => k).filter((k) => list.candidates[k] !== 'rhmc');
+  const cheapProbes = await runPilots(
+    cheap.map((k) => ({ engine: list.candidates[k], start: o.start, warmup: PROBE_ITERATIONS / 2, draws: PROBE_ITERATIONS / 2, chain: PILOT_CHAIN_BASE + k })),
+  );
+  const probes: (ChainOutput | Error | null)[] = list.candidates.map((_, k) => (cheap.includes(k) ? cheapProbes[cheap.indexOf(k)] : null));
+  const perIteration = list.candidates.map((engine, k) => {
+    const out = probes[k];
+    if (out === null) return rhmcWorkEstimate(p, o.evalCost);
+    return out instanceof Error ? Infinity : modelledWork(p, engine, out, o.evalCost) / PROBE_ITERATIONS;
+  });
+  const plan = pilotPlan(perIteration, o.fitIterations);
+  for (let k = 0; k < list.candidates.length; k++) {
+    if (probes[k] !== null || plan[k] === 0) continue;
+    const [out] = await runPilots([{ engine: list.candidates[k], start: o.start, warmup: PROBE_ITERATIONS / 2, draws: PROBE_ITERATIONS / 2, chain: PILOT_CHAIN_BASE + k }]);
+    probes[k] = out;
+    perIteration[k] = out instanceof Error ? Infinity : modelledWork(p, list.candidates[k], out, o.evalCost) / PROBE_ITERATIONS;
+    plan[k] = pilotPlan(perIteration, o.fitIterations)[k];
   }
-  if (flat) {
-    throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
-  }
-  if (p.m === 0) {
-    return {
-      sampler: 'rhmc',
-      reason: 'There are no inequality constraints, so Hamiltonian Monte Carlo with an adapted diagonal metric is used.',
-    };
-  }
-  return {
-    sampler: 'rhmc',
-    reason: 'The log-density varies over a region bounded by inequalities, so barrier-metric Riemannian HMC is used: it adapts to the likelihood and slows near the faces instead of leaving them.',
-  };
+  const run = list.candidates.map((_, k) => k).filter((k) => plan[k] > 0);
+  if (run.length === 0) return unpilotedReason(list);
+  const outs = await runPilots(
+    run.map((k) => ({
+      engine: list.candidates[k],
+      start: o.start,
+      warmup: Math.floor(plan[k] / 2),
+      draws: plan[k] - Math.floor(plan[k] / 2),
+      chain: PILOT_CHAIN_BASE + list.candidates.length + k,
+    })),
+  );
+  const ok = outs.filter((x): x is ChainOutput => !(x instanceof Error));
+  const V = pooledVariance(p.target.dim, ok);
+  const scores = list.candidates.map((engine, k) => {
+    const r = run.indexOf(k);
+    const pr = probes[k];
+    if (r < 0) return pr instanceof Error ? scorePilot(p, engine, pr, 0, o.evalCost) : { engine, essPerIteration: 0, workPerIteration: Infinity, score: 0 };
+    return scorePilot(p, engine, outs[r], Math.floor(plan[k] / 2), o.evalCost, V);
+  });
+  return pickByPilots(list, scores, plan);
 }

@@ -33,7 +33,8 @@ describe('fit command with model-language programs', () => {
     const sq = doc.quantities[1];
     expect(sq.name).toBe('mu_sq');
     expect(Math.abs(sq.mean - (postVar + postMean ** 2))).toBeLessThan(4 * sq.mcseMean);
-    expect(doc.diagnostics.samplerUsed).toBe('rhmc');
+    // No inequalities: the automatic choice is plain HMC (docs/engine.md §7.2).
+    expect(doc.diagnostics.samplerUsed).toBe('reflect-hmc');
   }, 60_000);
 
   it('reports compile errors with line and column from the real compiler', async () => {

@@ -43,7 +43,7 @@ describe('parseCliArgs', () => {
     [['a.slk', '--chains', 'two'], /--chains needs a whole number/],
     [['a.slk', '--chains', '9'], /--chains must be between 1 and 8/],
     [['a.slk', '--draws', '10'], /--draws must be between 50 and 20000/],
-    [['a.slk', '--sampler', 'fast'], /--sampler must be one of auto, rhmc, hitrun/],
+    [['a.slk', '--sampler', 'fast'], /--sampler must be one of auto, rhmc, rhmc-gl, hitrun, hitrun-plain, coord-hitrun, ball-walk, dikin-walk, rwm, transform-hmc, reflect-hmc/],
     [['a.slk', '--colour'], /Unknown option '--colour'/],
     [['a.slk', '--data', 'x.csv', '--data', 'dir/x.csv'], /Two --data files are bound to the table name "x"/],
     [['a.slk', '--data', '2026 plots.csv'], /cannot be a table name/],

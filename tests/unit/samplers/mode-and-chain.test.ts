@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { dispersedStarts, prepareTarget } from '../../../server/engine/geometry';
-import { chooseSampler, sampleChain } from '../../../server/engine/samplers';
+import { sampleChain, shortlistEngines } from '../../../server/engine/samplers';
 import { findMode } from '../../../server/engine/mode';
 import { Rng } from '../../../server/engine/rng';
 import type { ModelTarget } from '../../../server/engine/types';
@@ -102,17 +102,17 @@ describe('chains', () => {
   });
 });
 
-describe('automatic choice', () => {
-  it('flat density on a bounded polytope → hit-and-run, with a reason', () => {
-    const c = chooseSampler(prepareTarget(uniformSimplexTarget(4)));
-    expect(c.sampler).toBe('hitrun');
-    expect(c.reason).toMatch(/constant/);
+describe('automatic choice: the structural shortlist (the pilots are tested in auto.test.ts)', () => {
+  it('flat density on a bounded polytope → the exact-chord walks are candidates', () => {
+    const c = shortlistEngines(prepareTarget(uniformSimplexTarget(4)));
+    expect(c.candidates).toEqual(expect.arrayContaining(['hitrun', 'coord-hitrun', 'reflect-hmc']));
+    expect(c.why).toMatch(/flat/);
   });
-  it('a varying density → RHMC; no inequalities → RHMC with the Euclidean metric', () => {
-    expect(chooseSampler(prepareTarget(gaussianOnSimplexTarget({ d: 3, centre: 0.2, sd: 0.1 }))).sampler).toBe('rhmc');
-    const c = chooseSampler(prepareTarget(normalMeanTarget({ y: [1], sigma: 1, mu0: 0, tau0: 1 })));
-    expect(c.sampler).toBe('rhmc');
-    expect(c.reason).toMatch(/no inequality/);
+  it('a varying density on a simplex → transform-based HMC is a candidate; no inequalities → plain HMC alone', () => {
+    expect(shortlistEngines(prepareTarget(gaussianOnSimplexTarget({ d: 3, centre: 0.2, sd: 0.1 }))).candidates[0]).toBe('transform-hmc');
+    const c = shortlistEngines(prepareTarget(normalMeanTarget({ y: [1], sigma: 1, mu0: 0, tau0: 1 })));
+    expect(c.candidates).toEqual(['reflect-hmc']);
+    expect(c.why).toMatch(/no inequality/);
   });
 });
 
@@ -121,7 +121,7 @@ describe('improper targets', () => {
     const p = prepareTarget(orderedMeansTarget({ y: [1, 2, 3], sigma: 1 }));
     const flat: ModelTarget = { ...p.target, logDensity: (_t, g) => (g.fill(0), 0) };
     const pf = prepareTarget(flat);
-    expect(() => chooseSampler(pf)).toThrow(/improper/);
+    expect(() => shortlistEngines(pf)).toThrow(/improper/);
     for (const s of ['rhmc', 'hitrun'] as const) {
       expect(() => sampleChain(pf, s, pf.centre, { warmup: 10, draws: 10, seed: 1, chain: 0 })).toThrow(/improper/);
     }

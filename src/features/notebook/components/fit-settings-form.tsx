@@ -6,7 +6,30 @@ const DEFAULTS: FitSettings = fitSettingsSchema.parse({});
 const SAMPLER_WORDS: Record<(typeof SAMPLERS)[number], string> = {
   auto: 'automatic (chosen from the model’s structure)',
   rhmc: 'barrier-metric Riemannian HMC',
-  hitrun: 'hit-and-run (cross-check)',
+  'rhmc-gl': 'barrier-metric Riemannian HMC, generalised leapfrog',
+  hitrun: 'hit-and-run, rounded directions',
+  'hitrun-plain': 'hit-and-run, plain directions',
+  'coord-hitrun': 'coordinate hit-and-run',
+  'ball-walk': 'ball walk',
+  'dikin-walk': 'Dikin walk',
+  rwm: 'random-walk Metropolis',
+  'transform-hmc': 'HMC on transformed coordinates',
+  'reflect-hmc': 'HMC reflecting off the constraints',
+};
+
+/** One sentence per engine, shown under the select (docs/engine.md §7 has the details). */
+const SAMPLER_SENTENCES: Record<(typeof SAMPLERS)[number], string> = {
+  auto: 'Shortlists engines from the model’s structure, runs short pilots during warm-up and keeps the one with the most effective draws per unit of work.',
+  rhmc: 'Hamiltonian moves whose metric follows the constraint barrier: slows near the faces instead of leaving the region.',
+  'rhmc-gl': 'The same barrier-metric method with the generalised leapfrog integrator.',
+  hitrun: 'Moves to a random point on a random chord through the region, directions shaped by the region’s central ellipsoid.',
+  'hitrun-plain': 'Moves to a random point on a chord in a uniformly random direction.',
+  'coord-hitrun': 'Moves along one unknown at a time, to a random point of that axis’s chord.',
+  'ball-walk': 'Proposes a uniform point in a small ball and accepts it with the Metropolis rule.',
+  'dikin-walk': 'Proposes a uniform point in the ellipsoid that fits the constraints around the current point, with the Metropolis rule.',
+  rwm: 'Gaussian random-walk proposals with a covariance learned in warm-up.',
+  'transform-hmc': 'Maps bounds, simplices and orderings to free coordinates and runs plain HMC; only for regions made of those shapes.',
+  'reflect-hmc': 'Plain HMC whose trajectories bounce off the constraint faces.',
 };
 
 type Draft = Record<'chains' | 'warmup' | 'draws' | 'seed', string> & { sampler: FitSettings['sampler'] };
@@ -137,6 +160,7 @@ export function FitSettingsForm({ value, readOnly, running, onChange, onRun, onC
             </option>
           ))}
         </select>
+        <div className="sl-hint">{SAMPLER_SENTENCES[draft.sampler]}</div>
       </div>
       {!readOnly && (
         <div className="flex items-center gap-2">

@@ -1,0 +1,249 @@
+/**
+ * The automatic choice of engine ('auto'): a shortlist from the model's structure, then short
+ * pilot chains of the shortlisted engines, compared by effective draws per unit of modelled work.
+ *
+ * - Shortlist (structure): transform-based HMC when the region is a product of bounds, simplices
+ *   and orderings; reflective HMC always (it is plain HMC without inequalities); for a flat density
+ *   on a bounded region the exact-chord walks (rounded and coordinate hit-and-run); for a varying
+ *   density barrier-metric RHMC, coordinate and rounded hit-and-run.
+ * - Pilots: a probe of PROBE_ITERATIONS iterations measures each candidate's modelled work per
+ *   iteration; then one pilot chain per candidate, from the fit's first dispersed start, seeded with
+ *   the fit's seed and a chain index of its own (PILOT_CHAIN_BASE + k), half warm-up. All pilots
+ *   together cost about PILOT_SHARE (8%) of the fit's work at the cheapest candidate's rate, each
+ *   between PILOT_MIN and PILOT_MAX iterations (pilotPlan). Pilot draws are warm-up: they are never
+ *   returned or summarised.
+ * - Score: ESS per kept iteration from the pilot's mean squared jumps against the variance of all
+ *   pilots pooled (scorePilot), minimum over coordinates, divided by the modelled work per iteration = density evaluations × the model's evaluation cost (a count from
+ *   its data: 50 + 10·dim + 12·data cells) + the engine's own linear-algebra flops (ChainOutput.work;
+ *   for RHMC about three factorisations and a few solves per evaluation). Work is counted, not
+ *   timed, so the same model and seed always give the same choice and therefore identical draws;
+ *   the benchmark (npm run bench -- samplers) checks the choice against measured ESS per second.
+ * - The engine is decided once per fit, before any chain starts (server/engine/fit.ts), and every
+ *   chain runs it.
+ */
+import type { ChainOutput, DataTables, SamplerName, TargetSpec } from '../types';
+import type { PreparedTarget } from '../geometry';
+import { isFlat } from '../geometry';
+import { detectTransformShape } from './transform-hmc';
+import { detectStructure } from '../linalg/metric';
+
+export interface Shortlist {
+  candidates: SamplerName[];
+  /** Why these, one clause. */
+  why: string;
+}
+
+export function shortlistEngines(p: PreparedTarget): Shortlist {
+  const flat = isFlat(p);
+  if (flat && !p.bounded) {
+    throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
+  }
+  const shape = detectTransformShape(p.target);
+  // Without inequalities both HMC engines are plain HMC (no faces, no transforms to make).
+  if (p.m === 0) return { candidates: ['reflect-hmc'], why: 'there are no inequality constraints, so plain HMC applies' };
+  const c: SamplerName[] = [];
+  const parts: string[] = [];
+  if (shape.ok) {
+    c.push('transform-hmc');
+    parts.push(`the region is a product of standard shapes (${shape.plan.description})`);
+  } else parts.push('the region is a general polytope');
+  c.push('reflect-hmc');
+  if (flat) {
+    c.push('hitrun', 'coord-hitrun');
+    parts.push('the density is flat on a bounded region');
+  } else {
+    // Measured (bench/results/samplers.md): barrier RHMC wins the isotonic posterior, where
+    // binding orderings give transformed coordinates a funnel; coordinate moves suit near-
+    // independent coordinates.
+    c.push('rhmc', 'coord-hitrun', 'hitrun');
+    parts.push('the density varies');
+  }
+  return { candidates: c, why: parts.join(' and ') };
+}
+
+/** Modelled cost of one log-density evaluation, in flops, from the model's size. */
+export function evaluationCost(dim: number, tables?: DataTables): number {
+  let cells = 0;
+  for (const t of Object.values(tables ?? {})) cells += t.rows * Object.keys(t.columns).length;
+  return 50 + 10 * dim + 12 * cells;
+}
+
+export function evaluationCostOf(spec: TargetSpec | null, dim: number): number {
+  return evaluationCost(dim, spec && spec.kind === 'program' ? spec.tables : undefined);
+}
+
+/** Iterations of the probe that measures each candidate's work per iteration (half warm-up). */
+export const PROBE_ITERATIONS = 6;
+/** Share of the fit's work (at the cheapest candidate's cost per iteration) spent on all pilots. */
+export const PILOT_SHARE = 0.08;
+export const PILOT_MIN = 30;
+export const PILOT_MAX = 300;
+
+/**
+ * Pilot iterations per candidate: together the pilots may cost PILOT_SHARE of what the whole fit
+ * (fitIterations over all chains) would cost with the cheapest candidate; each gets an equal share
+ * of that work, in iterations between PILOT_MIN and PILOT_MAX. Candidates whose probe failed get 0.
+ */
+export function pilotPlan(workPerIteration: number[], fitIterations: number): number[] {
+  const finite = workPerIteration.filter((w) => Number.isFinite(w) && w > 0);
+  const wMin = finite.length ? Math.min(...finite) : 1;
+  const each = (PILOT_SHARE * fitIterations * wMin) / Math.max(1, finite.length);
+  // A candidate whose PILOT_MIN iterations would cost more than three shares is not piloted (0):
+  // engines differ a lot in work per iteration (the walks thin by n), so some overrun is allowed.
+  return workPerIteration.map((w) => {
+    if (!Number.isFinite(w)) return 0;
+    const it = Math.floor(each / Math.max(w, 1e-12));
+    if (it >= PILOT_MIN) return Math.min(PILOT_MAX, it);
+    return PILOT_MIN * w <= 3 * each ? PILOT_MIN : 0;
+  });
+}
+
+/** Chain index of candidate k's pilot (its own random stream, far from the fit's chains). */
+export const PILOT_CHAIN_BASE = 1000;
+
+export interface PilotScore {
+  engine: SamplerName;
+  /** Min over coordinates of bulk and tail ESS per kept pilot iteration. */
+  essPerIteration: number;
+  /** Modelled flops per iteration. */
+  workPerIteration: number;
+  /** ESS per million modelled flops (0 when the pilot failed). */
+  score: number;
+  error?: string;
+}
+
+/**
+ * RHMC's linear-algebra flops per integrator step: about three factorisations of the barrier metric
+ * Aᵀ W A + Λ plus a dozen solves, at the cost of the structure the metric is factorised with
+ * (linalg/metric.ts: diagonal, banded, plus low rank by Woodbury, or dense; the generalised
+ * leapfrog, `rhmc-gl`, always factorises densely).
+ */
+export function rhmcStepWork(p: PreparedTarget, dense = false): number {
+  const n = p.n;
+  const s = detectStructure(p.rows, dense ? 'dense' : undefined);
+  const k = s.lowRankRows.length;
+  const band = s.bandwidth;
+  let factor: number;
+  let solve: number;
+  if (s.kind === 'dense') {
+    let gram = 0;
+    for (let i = 0; i < p.m; i++) gram += (p.rows.ptr[i + 1] - p.rows.ptr[i]) ** 2;
+    factor = (n * n * n) / 3 + gram;
+    solve = n * n;
+  } else {
+    // band: n·b² to factor, n·b per solve; Woodbury: k solves and a k × k system
+    factor = n * (band + 1) * (band + 1) + k * n * (band + 1) + (k * k * k) / 3;
+    solve = n * (band + 1) + k * n;
+  }
+  return 3 * factor + 12 * (solve + p.rows.val.length);
+}
+
+/**
+ * RHMC's work per iteration before probing it: about 20 integrator steps per trajectory (the
+ * implicit-midpoint integrator's median on the 50-dimensional benchmark problems, bench/rhmc), each
+ * with its linear algebra and one evaluation.
+ */
+export function rhmcWorkEstimate(p: PreparedTarget, evalCost: number): number {
+  return 20 * (rhmcStepWork(p) + evalCost);
+}
+
+/** Modelled flops of a chain: evaluations × their cost + the engine's linear algebra. */
+export function modelledWork(p: PreparedTarget, engine: SamplerName, out: ChainOutput, evalCost: number): number {
+  return (out.evaluations ?? 0) * evalCost + linearAlgebraWork(p, engine, out);
+}
+
+function linearAlgebraWork(p: PreparedTarget, engine: SamplerName, out: ChainOutput): number {
+  if (out.work !== undefined) return out.work;
+  // RHMC does not count its own work: one evaluation per integrator step, each step's linear
+  // algebra modelled from the metric's structure.
+  const perStep = engine === 'rhmc' || engine === 'rhmc-gl' ? rhmcStepWork(p, engine === 'rhmc-gl') : 0;
+  return (out.evaluations ?? 0) * perStep;
+}
+
+/**
+ * Per-coordinate variance of all pilots' kept draws pooled: a pilot that never explores a long
+ * direction cannot hide it, because the candidates that do explore it widen the pooled variance.
+ */
+export function pooledVariance(dim: number, outs: ChainOutput[]): Float64Array {
+  const mean = new Float64Array(dim);
+  const m2 = new Float64Array(dim);
+  let count = 0;
+  for (const o of outs) {
+    const draws = o.draws.length / dim;
+    for (let i = 0; i < draws; i++) {
+      count++;
+      for (let j = 0; j < dim; j++) {
+        const x = o.draws[i * dim + j];
+        const d = x - mean[j];
+        mean[j] += d / count;
+        m2[j] += d * (x - mean[j]);
+      }
+    }
+  }
+  for (let j = 0; j < dim; j++) m2[j] = count > 1 ? m2[j] / (count - 1) : 0;
+  return m2;
+}
+
+/**
+ * Scores one pilot. Mixing per kept iteration: for each coordinate j, r_j = mean squared jump
+ * between consecutive kept draws / (2 × pooled variance of j); under a first-order autoregressive
+ * approximation (lag-one autocorrelation 1 − r) the ESS per draw is r/(2 − r), capped at 1. The
+ * minimum over coordinates (the benchmark's min-ESS objective) over the modelled work per
+ * iteration is the score. Less noisy than the ESS of a short single chain, which moreover cannot
+ * see a direction the pilot never explored.
+ */
+export function scorePilot(
+  p: PreparedTarget,
+  engine: SamplerName,
+  out: ChainOutput | Error,
+  pilotWarmup: number,
+  evalCost: number,
+  pooledVar?: Float64Array,
+): PilotScore {
+  if (out instanceof Error) return { engine, essPerIteration: 0, workPerIteration: Infinity, score: 0, error: out.message };
+  const dim = p.target.dim;
+  const draws = out.draws.length / dim;
+  const V = pooledVar ?? pooledVariance(dim, [out]);
+  let essPerIteration = 1;
+  for (let j = 0; j < dim; j++) {
+    if (!(V[j] > 0)) continue;
+    let jump = 0;
+    for (let i = 1; i < draws; i++) {
+      const d = out.draws[i * dim + j] - out.draws[(i - 1) * dim + j];
+      jump += d * d;
+    }
+    const r = jump / Math.max(1, draws - 1) / (2 * V[j]);
+    essPerIteration = Math.min(essPerIteration, r >= 1 ? 1 : r / (2 - r));
+  }
+  if (draws < 2) essPerIteration = 0;
+  const iterations = pilotWarmup + draws;
+  const workPerIteration = modelledWork(p, engine, out, evalCost) / iterations;
+  return { engine, essPerIteration, workPerIteration, score: workPerIteration > 0 ? (1e6 * essPerIteration) / workPerIteration : 0 };
+}
+
+/** Picks the best-scoring pilot (ties: the earlier candidate) and writes the reason. */
+export function pickByPilots(list: Shortlist, scores: PilotScore[], iterations: number[]): { sampler: SamplerName; reason: string } {
+  let best = scores[0];
+  for (const s of scores) if (s.score > best.score) best = s;
+  const fmt = (x: number) => (x >= 100 ? x.toFixed(0) : x >= 1 ? x.toFixed(2) : x.toPrecision(2));
+  const table = scores
+    .map((s, k) => `${s.engine} ${s.error ? 'failed' : iterations[k] === 0 ? 'too costly to pilot' : `${fmt(s.score)} (${iterations[k]} iterations)`}`)
+    .join(', ');
+  return {
+    sampler: best.engine,
+    reason: `Automatic: ${list.why}, so the candidates were ${list.candidates.join(', ')}. Pilot chains (warm-up only, never kept) gave effective draws per million modelled operations of ${table}; ${best.engine} was used for every chain.`,
+  };
+}
+
+/** No candidate can be piloted within the budget (a short fit): the first of the shortlist. */
+export function unpilotedReason(list: Shortlist): { sampler: SamplerName; reason: string } {
+  return {
+    sampler: list.candidates[0],
+    reason: `Automatic: ${list.why}, so the candidates were ${list.candidates.join(', ')}; the fit is too short for pilots within 8% of its work, so the first by structure, ${list.candidates[0]}, was used.`,
+  };
+}
+
+/** A single candidate needs no pilot. */
+export function soleCandidateReason(list: Shortlist): { sampler: SamplerName; reason: string } {
+  return { sampler: list.candidates[0], reason: `Automatic: ${list.why}, so ${list.candidates[0]} was used without pilots.` };
+}
