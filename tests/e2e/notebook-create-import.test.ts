@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { startTestServer, type TestServer } from '../helpers/server';
 import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';
+import { confirmSignUpInPage } from './sign-up';
 
 let server: TestServer;
 let browser: Browser;
@@ -49,6 +50,7 @@ async function flow() {
   await page.getByLabel('E-mail').fill('ines@hedgerow.test');
   await page.getByLabel('Password').fill('hawthorn berries in october');
   await page.getByRole('button', { name: 'Create account' }).click();
+  await confirmSignUpInPage(page, server, 'ines@hedgerow.test');
   await page.getByLabel('New workspace name').fill('Hedgerow survey');
   await page.getByRole('button', { name: 'Create workspace' }).click();
   await page.getByRole('heading', { name: 'Hedgerow survey' }).waitFor();

@@ -1,6 +1,6 @@
 /**
- * Step-size adaptation by dual averaging (Hoffman & Gelman 2014, "The No-U-Turn Sampler",
- * JMLR 15, Algorithm 5; constants γ = 0.05, t₀ = 10, κ = 0.75 from that paper) and the warm-up
+ * Step-size adaptation by dual averaging ("The No-U-Turn Sampler", JMLR 15, 2014,
+ * Algorithm 5; constants γ = 0.05, t₀ = 10, κ = 0.75 from that paper) and the warm-up
  * window plan (a fast initial buffer, slow windows doubling in length, a fast final buffer:
  * common practice for windowed metric adaptation).
  */

@@ -8,8 +8,8 @@
  * the line through the current point.
  *
  * - Flat density on a bounded region: the new point is uniform on the chord (exact).
- * - Otherwise: slice sampling along the chord (Neal 2003, "Slice sampling", Ann. Statist. 31(3)),
- *   stepping-out with a step budget (Neal's J/K split keeps it reversible) and shrinkage, both
+ * - Otherwise: slice sampling along the chord ("Slice sampling", Annals of Statistics 31(3), 2003),
+ *   stepping-out with a step budget (the paper's split of the step budget keeps it reversible) and shrinkage, both
  *   confined to the chord; unbounded chords are handled by stepping out.
  *
  * One kept draw = n line moves (thinning by the dimension, common practice for hit-and-run).
@@ -189,7 +189,7 @@ export function hitRunChain(
     const warm = it < opts.warmup;
     for (let k = 0; k < moves; k++) hitRunStep(p, st, rng, warm);
     if (warm && st.jumpCount > 0 && (it + 1) % 10 === 0) {
-      // Slice width: a few typical jumps (Neal 2003 §4.1 suggests a typical slice size).
+      // Slice width: a few typical jumps ("Slice sampling", 2003, §4.1, suggests a typical slice size).
       st.width = Math.max(1e-8, (3 * st.jumpSum) / st.jumpCount);
       st.jumpSum = 0;
       st.jumpCount = 0;

@@ -14,7 +14,8 @@
  *   ∇U = −∇ℓ + Aᵀ(σ / s),  σᵢ = aᵢᵀ g⁻¹ aᵢ / sᵢ²            (½ ∂ log det g = ½ tr(g⁻¹ ∂g))
  *   ∇_z(½ pᵀ g⁻¹ p) = −Aᵀ((A v)² / s³),  v = g⁻¹ p            (−½ vᵀ ∂g v)
  *
- * Integrator: generalised leapfrog (Leimkuhler & Reich 2004; Girolami & Calderhead 2011), symplectic
+ * Integrator: generalised leapfrog ("Simulating Hamiltonian Dynamics", Cambridge University Press 2004;
+ * "Riemann manifold Langevin and Hamiltonian Monte Carlo methods", JRSS B 2011), symplectic
  * and reversible for non-separable H:
  *   p½ = p − ε/2 ∇_z H(z, p½)                 implicit in p½: fixed point, reusing the Cholesky of g(z)
  *   z' = z + ε/2 (g(z)⁻¹ + g(z')⁻¹) p½         implicit in z': Newton in w = g(z')⁻¹ p½ (below)
@@ -22,12 +23,13 @@
  * The z' equation is solved for w: with c = z + ε/2 g(z)⁻¹p½ and z' = c + ε/2 w,
  *   F(w) = g(c + ε/2 w) w − p½ = 0,   ∂F/∂w = Aᵀ diag((1 + ε (A w)ᵢ / sᵢ) / sᵢ²) A + Λ =: M(w),
  * a symmetric matrix; F itself costs only matrix–vector products. M is factorised once, at the
- * predictor w₀ = g(z)⁻¹ p½, and reused for the following (chord) iterations, stopped by Hairer &
- * Wanner's contraction estimate. One more factorisation, of g(z'), gives the leverages for ∇U(z')
+ * predictor w₀ = g(z)⁻¹ p½, and reused for the following (chord) iterations, stopped by the
+ * contraction estimate of "Solving Ordinary Differential Equations II" (Springer, §IV.8). One more factorisation, of g(z'), gives the leverages for ∇U(z')
  * and serves the next step's p½ fixed point.
  *
  * Exactness: each step is run back from (z', −p') with the same solvers and must land on z (the
- * involution check of Noble, De Bortoli & Durmus 2023, one more factorisation of M). A step whose
+ * involution check of "Unbiased constrained sampling with self-concordant barrier Hamiltonian
+ * Monte Carlo", NeurIPS 2023, one more factorisation of M). A step whose
  * fixed point or Newton iteration does not converge, whose M is not positive definite, that leaves
  * the region or fails the run-back check rejects the whole trajectory and is counted as *rejected*
  * (ChainOutput.rejected), not as a divergence: the proposal map restricted to where the forward and
@@ -107,7 +109,7 @@ export interface RhmcSettings {
    * failed draws 36 / 26 / 5 with factor 1, 2 / 2 / 0 with 0.7, at similar ESS per draw and run time.
    */
   finalStepScale: number;
-  /** Run each step back and require the start (Noble, De Bortoli & Durmus 2023). */
+  /** Run each step back and require the start ("Unbiased constrained sampling with self-concordant barrier HMC", NeurIPS 2023). */
   involutionCheck: boolean;
   /** Largest Dikin-norm distance between the start and the run-back point. */
   involutionTolerance: number;
@@ -386,7 +388,7 @@ export class BarrierIntegrator {
       rows.mul(delta, this.vm2);
       for (let i = 0; i < m; i++) err = Math.max(err, Math.abs(this.vm2[i]) / sN[i]);
       err *= half;
-      // Stopping rule of Hairer & Wanner (Solving ODEs II, §IV.8): with the observed contraction
+      // Stopping rule of "Solving Ordinary Differential Equations II" (§IV.8): with the observed contraction
       // θ = err/errPrev, the error left after this correction is about θ/(1−θ)·err.
       let done = err <= settings.tolerance;
       if (!done && it > 0) {
@@ -407,7 +409,7 @@ export class BarrierIntegrator {
    * One generalised-leapfrog step from (cur, pm) into (next, pm). pm is updated in place only on
    * success (on failure its content is unspecified; the caller rejects the trajectory).
    *
-   * Involution check (Noble, De Bortoli & Durmus 2023): the step is run back from (z', −p') with
+   * Involution check ("Unbiased constrained sampling with self-concordant barrier HMC", NeurIPS 2023): the step is run back from (z', −p') with
    * the same solvers and must return to z within a small multiple of the tolerance; otherwise the
    * step is rejected. This makes the accepted map an involution on the set where both solves
    * succeed, so a failed or wrong-root solve cannot bias the chain (it only costs a rejection).

@@ -27,8 +27,8 @@ const some = (d: number) => [0, Math.floor(d / 2), d - 1];
 describe.each(ENGINES)('%s', (engine, draws) => {
   it('uniform on the simplex {w ≥ 0, Σw = 1} with 6 parts: every part is Beta(1, 5)', () => {
     // Dirichlet(1, …, 1) aggregation property: each component of a uniform point on the K-part
-    // simplex is Beta(1, K − 1) (Kotz, Balakrishnan & Johnson, Continuous Multivariate
-    // Distributions vol. 1, ch. 49).
+    // simplex is Beta(1, K − 1) ("Continuous Multivariate Distributions",
+    // vol. 1, 2nd ed., Wiley 2000, ch. 49).
     const K = 6;
     const run = runChains(equalitySimplexTarget(K), engine, { warmup: 300, draws, seed: 61 });
     const { mean, variance } = betaMoments(1, K - 1);
@@ -40,7 +40,7 @@ describe.each(ENGINES)('%s', (engine, draws) => {
   }, 30_000);
 
   it('uniform on the order simplex 0 ≤ x₁ ≤ … ≤ x₈ ≤ 1: x_k is Beta(k, n + 1 − k)', () => {
-    // The k-th order statistic of n uniforms (David & Nagaraja, Order Statistics, 3rd ed., §2.1).
+    // The k-th order statistic of n uniforms ("Order Statistics", 3rd ed., Wiley 2003, §2.1).
     const n = 8;
     const run = runChains(orderSimplexTarget(n), engine, { warmup: 300, draws, seed: 62 });
     for (const j of some(n)) {
@@ -52,7 +52,7 @@ describe.each(ENGINES)('%s', (engine, draws) => {
   }, 30_000);
 
   it('standard normal truncated to [0.5, 2.5]: closed-form mean and variance', () => {
-    // Johnson, Kotz & Balakrishnan, Continuous Univariate Distributions vol. 1, 2nd ed., §13.10.1:
+    // "Continuous Univariate Distributions", vol. 1, 2nd ed., Wiley 1994, §13.10.1:
     // Z = Φ(b) − Φ(a), mean = (φ(a) − φ(b))/Z, var = 1 + (aφ(a) − bφ(b))/Z − mean²
     // (Φ, φ from @stdlib/stats-base-dists-normal).
     const a = 0.5;
