@@ -289,7 +289,7 @@ export function p8Logistic(seed = DEFAULT_PROBLEM_SEED): Problem {
       'table trial',
       'unknown beta[30], alpha',
       `let X = [${names('x', k).join(', ')}]`,
-      'term ld_bernoulli_logodds(y, X * beta + alpha)',
+      'term ld_bernoulli(y, logistic(X * beta + alpha))',
       'term ld_normal(beta, 0, 2.5) + ld_normal(alpha, 0, 5)',
       'constrain beta[1] >= 0',
       'constrain beta[1] <= beta[2] <= beta[3] <= beta[4] <= beta[5] <= beta[6] <= beta[7] <= beta[8] <= beta[9] <= beta[10]',

@@ -138,6 +138,16 @@ describe('benchmark problems', () => {
     expect(Array.from(c.tables.poly.columns.bound.values)).not.toEqual(Array.from(PROBLEMS.P6(11).tables.poly.columns.bound.values));
   });
 
+  it('every problem is a valid program of the model language and compiles with its tables', () => {
+    for (const make of Object.values(PROBLEMS)) {
+      const pr = make(11);
+      const t = compileProgram(pr.source, pr.tables);
+      expect(t.dim).toBeGreaterThan(0);
+      const z = new Float64Array(t.dim);
+      expect(Number.isNaN(t.logDensity(z, new Float64Array(t.dim)))).toBe(false);
+    }
+  });
+
   it('P1 compiles to the order simplex of the sampler tests (same rows)', () => {
     const t = compileProgram(PROBLEMS.P1().source, {});
     const ref = orderSimplexTarget(50);
