@@ -322,14 +322,20 @@ export async function closeFitWorkers(): Promise<void> {
   await p?.close();
 }
 
-/** Runs one chain on a pooled worker. */
-function runJobOnWorker(
+/**
+ * Posts `request` to a pooled worker and waits for the answer `pick` recognises (or an error
+ * message). The worker goes back to the pool after an answer, is dropped when `signal` aborts,
+ * and a worker that errors or exits rejects with `what` named.
+ */
+function askWorker<T>(
   w: Worker,
-  job: ChainJob,
-  progress: ChainProgress,
-  signal?: AbortSignal,
-): Promise<ChainResult> {
-  return new Promise<ChainResult>((resolve, reject) => {
+  request: unknown,
+  pick: (msg: WorkerMessage) => { value: T } | undefined,
+  what: string,
+  opts: { onMessage?: (msg: WorkerMessage) => void; signal?: AbortSignal } = {},
+): Promise<T> {
+  const { onMessage: observe, signal } = opts;
+  return new Promise<T>((resolve, reject) => {
     const cleanup = () => {
       w.off('message', onMessage);
       w.off('error', onError);
@@ -337,11 +343,12 @@ function runJobOnWorker(
       signal?.removeEventListener('abort', onAbort);
     };
     const onMessage = (msg: WorkerMessage) => {
-      if (msg.type === 'progress') progress(msg.chain, msg.phase, msg.iteration);
-      else if (msg.type === 'done') {
+      observe?.(msg);
+      const answer = pick(msg);
+      if (answer) {
         cleanup();
         pool().release(w);
-        resolve(msg.result);
+        resolve(answer.value);
       } else if (msg.type === 'error') {
         cleanup();
         pool().release(w);
@@ -354,7 +361,7 @@ function runJobOnWorker(
     };
     const onExit = (code: number) => {
       cleanup();
-      reject(new Error(`A chain's worker thread stopped with exit code ${code}.`));
+      reject(new Error(`${what} stopped with exit code ${code}.`));
     };
     const onAbort = () => {
       cleanup();
@@ -365,9 +372,20 @@ function runJobOnWorker(
     w.on('error', onError);
     w.on('exit', onExit);
     signal?.addEventListener('abort', onAbort);
-    progress(job.chain, 'warmup', -1);
-    w.postMessage({ type: 'run', job });
+    w.postMessage(request);
   });
+}
+
+/** Runs one chain on a pooled worker. */
+function runJobOnWorker(w: Worker, job: ChainJob, progress: ChainProgress, signal?: AbortSignal): Promise<ChainResult> {
+  progress(job.chain, 'warmup', -1);
+  return askWorker<ChainResult>(
+    w,
+    { type: 'run', job },
+    (msg) => (msg.type === 'done' ? { value: msg.result } : undefined),
+    "A chain's worker thread",
+    { signal, onMessage: (msg) => msg.type === 'progress' && progress(msg.chain, msg.phase, msg.iteration) },
+  );
 }
 
 /** Runs the jobs on pooled worker threads, at most `maxWorkers` of this fit's chains at once. */
@@ -424,34 +442,10 @@ async function runOnWorkers(
 /** The summary computed on a pooled worker thread (the chains are copied to it). */
 async function summariseOnWorker(spec: TargetSpec, chains: ChainResult[], settings: FitSettings, sampler: SamplerName, samplerReason: string): Promise<FitSummary> {
   const w = await pool().acquire();
-  return new Promise<FitSummary>((resolve, reject) => {
-    const cleanup = () => {
-      w.off('message', onMessage);
-      w.off('error', onError);
-      w.off('exit', onExit);
-    };
-    const onMessage = (msg: WorkerMessage) => {
-      if (msg.type === 'summary') {
-        cleanup();
-        pool().release(w);
-        resolve(msg.summary);
-      } else if (msg.type === 'error') {
-        cleanup();
-        pool().release(w);
-        reject(rebuildError(msg.error));
-      }
-    };
-    const onError = (e: Error) => {
-      cleanup();
-      reject(e);
-    };
-    const onExit = (code: number) => {
-      cleanup();
-      reject(new Error(`The summary's worker thread stopped with exit code ${code}.`));
-    };
-    w.on('message', onMessage);
-    w.on('error', onError);
-    w.on('exit', onExit);
-    w.postMessage({ type: 'summarise', spec, chains, settings, sampler, samplerReason });
-  });
+  return askWorker<FitSummary>(
+    w,
+    { type: 'summarise', spec, chains, settings, sampler, samplerReason },
+    (msg) => (msg.type === 'summary' ? { value: msg.summary } : undefined),
+    "The summary's worker thread",
+  );
 }
