@@ -23,6 +23,35 @@
 import { Cholesky } from './cholesky';
 import type { RowMatrix } from './sparse';
 
+/**
+ * out[i] = |L⁻¹ aᵢ|² for every row aᵢ of `rows`, with L the dense lower Cholesky factor (row-major,
+ * n × n) of a metric: the rows' leverages before their slack scaling. Each forward solve starts at
+ * the row's first nonzero column. `x` is scratch of length n.
+ */
+export function rowLeverages(rows: RowMatrix, L: Float64Array, x: Float64Array, out: Float64Array): Float64Array {
+  const { m, n, ptr, idx, val } = rows;
+  for (let i = 0; i < m; i++) {
+    if (ptr[i + 1] === ptr[i]) {
+      out[i] = 0;
+      continue;
+    }
+    const first = idx[ptr[i]];
+    x.fill(0, first);
+    for (let q = ptr[i]; q < ptr[i + 1]; q++) x[idx[q]] = val[q];
+    let norm2 = 0;
+    for (let r = first; r < n; r++) {
+      const rr = r * n;
+      let sum = x[r];
+      for (let k = first; k < r; k++) sum -= L[rr + k] * x[k];
+      const v = sum / L[rr + r];
+      x[r] = v;
+      norm2 += v * v;
+    }
+    out[i] = norm2;
+  }
+  return out;
+}
+
 export type MetricKind = 'diagonal' | 'banded' | 'diagonal+low-rank' | 'banded+low-rank' | 'dense';
 
 export interface MetricStructure {
@@ -124,29 +153,7 @@ class DenseMetric implements MetricFactor {
     return this.chol.logDet();
   }
   leverages(out: Float64Array): Float64Array {
-    const { m, n, ptr, idx, val } = this.rows;
-    const L = this.chol.L;
-    const x = this.x;
-    for (let i = 0; i < m; i++) {
-      if (ptr[i + 1] === ptr[i]) {
-        out[i] = 0;
-        continue;
-      }
-      const first = idx[ptr[i]];
-      x.fill(0, first);
-      for (let q = ptr[i]; q < ptr[i + 1]; q++) x[idx[q]] = val[q];
-      let norm2 = 0;
-      for (let r = first; r < n; r++) {
-        const rr = r * n;
-        let sum = x[r];
-        for (let k = first; k < r; k++) sum -= L[rr + k] * x[k];
-        const v = sum / L[rr + r];
-        x[r] = v;
-        norm2 += v * v;
-      }
-      out[i] = norm2;
-    }
-    return out;
+    return rowLeverages(this.rows, this.chol.L, this.x, out);
   }
   copyFrom(o: MetricFactor): void {
     this.chol.L.set((o as DenseMetric).chol.L);

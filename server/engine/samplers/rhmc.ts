@@ -54,6 +54,7 @@ import type { PreparedTarget } from '../geometry';
 import { Rng } from '../rng';
 import { Cholesky } from '../linalg/cholesky';
 import type { RowMatrix } from '../linalg/sparse';
+import { rowLeverages } from '../linalg/metric';
 import { DualAveraging, warmupBuffers, windowEnds } from './adapt';
 import { DEFAULT_MIDPOINT, midpointChain } from './rhmc-midpoint';
 
@@ -264,25 +265,10 @@ export class BarrierIntegrator {
     for (let q = 0; q < n; q++) if (!Number.isFinite(ps.gradL[q])) return 'not-finite';
     ps.l = l;
     // leverages: σᵢ = |L⁻¹ aᵢ|² / sᵢ²; ∇U = −∇ℓ + Aᵀ(σ/s)
-    const L = ps.chol.L;
-    const x = this.rowTmp;
-    const sig = this.vm1;
-    const { ptr, idx, val } = rows;
+    const sig = rowLeverages(rows, ps.chol.L, this.rowTmp, this.vm1);
     for (let i = 0; i < m; i++) {
-      const first = idx[ptr[i]];
-      x.fill(0, first);
-      for (let q = ptr[i]; q < ptr[i + 1]; q++) x[idx[q]] = val[q];
-      let norm2 = 0;
-      for (let r = first; r < n; r++) {
-        const rr = r * n;
-        let sum = x[r];
-        for (let k = first; k < r; k++) sum -= L[rr + k] * x[k];
-        const v = sum / L[rr + r];
-        x[r] = v;
-        norm2 += v * v;
-      }
       const si = ps.s[i];
-      sig[i] = norm2 / (si * si) / si;
+      sig[i] = sig[i] / (si * si) / si;
     }
     for (let q = 0; q < n; q++) ps.gradU[q] = -ps.gradL[q];
     rows.addMulT(sig, ps.gradU, 1);
