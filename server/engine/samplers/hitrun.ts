@@ -18,6 +18,7 @@ import type { ChainOptions, ChainOutput } from '../types';
 import type { PreparedTarget } from '../geometry';
 import { Rng } from '../rng';
 import { backwardL, dot, isFlat } from '../geometry';
+import { chord, sliceOnChord } from './common';
 
 export interface HitRunState {
   z: Float64Array;
@@ -71,7 +72,6 @@ export function makeHitRunState(p: PreparedTarget, z0: Float64Array, exactChord:
   return st;
 }
 
-const MAX_STEP_OUT = 50;
 
 /** One line move. Returns |Δt|. */
 export function hitRunStep(p: PreparedTarget, st: HitRunState, rng: Rng, adapt: boolean): number {
@@ -84,13 +84,7 @@ export function hitRunStep(p: PreparedTarget, st: HitRunState, rng: Rng, adapt: 
   if (st.rounded) backwardL(p.dikinL, n, u, d);
   else d.set(u);
   p.rows.mul(d, Ad);
-  let tmin = -Infinity;
-  let tmax = Infinity;
-  for (let i = 0; i < m; i++) {
-    const a = Ad[i];
-    if (a > 0) tmax = Math.min(tmax, s[i] / a);
-    else if (a < 0) tmin = Math.max(tmin, s[i] / a);
-  }
+  const [tmin, tmax] = chord(s, Ad, m);
   let t: number;
   if (st.exactChord) {
     if (!Number.isFinite(tmin) || !Number.isFinite(tmax)) {
@@ -98,52 +92,15 @@ export function hitRunStep(p: PreparedTarget, st: HitRunState, rng: Rng, adapt: 
     }
     t = tmin + (tmax - tmin) * rng.uniformPositive();
   } else {
-    const logy = st.l + Math.log(rng.uniformPositive());
     const f = (tt: number): number => {
       for (let q = 0; q < n; q++) trial[q] = z[q] + tt * d[q];
       st.evals++;
       const v = p.logDensity(trial, st.grad);
       return Number.isNaN(v) ? -Infinity : v;
     };
-    const w = st.width;
-    let L = -w * rng.uniform();
-    let R = L + w;
-    let J = Math.floor(MAX_STEP_OUT * rng.uniform());
-    let K = MAX_STEP_OUT - 1 - J;
-    if (L <= tmin) L = tmin;
-    else
-      while (J > 0 && f(L) > logy) {
-        L -= w;
-        J--;
-        if (L <= tmin) {
-          L = tmin;
-          break;
-        }
-      }
-    if (R >= tmax) R = tmax;
-    else
-      while (K > 0 && f(R) > logy) {
-        R += w;
-        K--;
-        if (R >= tmax) {
-          R = tmax;
-          break;
-        }
-      }
-    let lNew = -Infinity;
-    for (let k = 0; ; k++) {
-      t = L + (R - L) * rng.uniformPositive();
-      lNew = f(t);
-      if (lNew > logy) break;
-      if (t < 0) L = t;
-      else R = t;
-      if (k > 200) {
-        t = 0;
-        lNew = st.l;
-        break;
-      }
-    }
-    if (t !== 0) st.l = lNew;
+    const r = sliceOnChord(f, st.l, tmin, tmax, st.width, rng);
+    t = r.t;
+    st.l = r.l;
   }
   if (t === 0) return 0;
   for (let q = 0; q < n; q++) trial[q] = z[q] + t * d[q];
