@@ -74,7 +74,8 @@ export const MAX_REPLICATES = 20000;
 
 const TABLE_NAME_RE = /^[A-Za-z_][A-Za-z0-9_]*$/;
 
-function intOption(flag: string, raw: string | undefined, min: number, max: number): number | undefined {
+/** A whole-number option within [min, max] (undefined when absent). */
+export function intOption(flag: string, raw: string | undefined, min: number, max: number): number | undefined {
   if (raw === undefined) return undefined;
   if (!/^\d+$/.test(raw.trim())) throw new UsageError(`--${flag} needs a whole number, got "${raw}".`);
   const v = Number(raw);
@@ -82,7 +83,8 @@ function intOption(flag: string, raw: string | undefined, min: number, max: numb
   return v;
 }
 
-function parseData(raw: string): DataArg {
+/** `--data name=path` or `--data path` (the table named after the file). */
+export function parseData(raw: string): DataArg {
   const eq = raw.indexOf('=');
   // "name=path" unless the part before "=" looks like a path (contains a separator or a dot).
   if (eq > 0 && !/[\\/.]/.test(raw.slice(0, eq))) {

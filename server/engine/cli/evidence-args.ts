@@ -6,8 +6,7 @@
  *       [--reference auto|uniform|gaussian] [--json]
  */
 import { parseArgs } from 'node:util';
-import path from 'node:path';
-import { UsageError, type DataArg } from './args';
+import { intOption, parseData, UsageError, type DataArg } from './args';
 
 export { UsageError };
 
@@ -43,32 +42,6 @@ export interface EvidenceCliArgs {
   reference?: 'auto' | 'uniform' | 'gaussian';
   json: boolean;
   help: boolean;
-}
-
-const TABLE_NAME_RE = /^[A-Za-z_][A-Za-z0-9_]*$/;
-
-function parseData(raw: string): DataArg {
-  const eq = raw.indexOf('=');
-  if (eq > 0 && !/[\\/.]/.test(raw.slice(0, eq))) {
-    const name = raw.slice(0, eq);
-    const p = raw.slice(eq + 1);
-    if (!TABLE_NAME_RE.test(name)) throw new UsageError(`--data: "${name}" is not a valid table name.`);
-    if (!p) throw new UsageError(`--data ${raw}: the file path is missing.`);
-    return { name, path: p };
-  }
-  const base = path.basename(raw).replace(/\.[^.]*$/, '');
-  if (!TABLE_NAME_RE.test(base)) {
-    throw new UsageError(`--data ${raw}: "${base}" cannot be a table name; give one explicitly as --data name=${raw}.`);
-  }
-  return { name: base, path: raw };
-}
-
-function intOption(flag: string, raw: string | undefined, min: number, max: number): number | undefined {
-  if (raw === undefined) return undefined;
-  if (!/^\d+$/.test(raw.trim())) throw new UsageError(`--${flag} needs a whole number, got "${raw}".`);
-  const v = Number(raw);
-  if (v < min || v > max) throw new UsageError(`--${flag} must be between ${min} and ${max}, got ${v}.`);
-  return v;
 }
 
 export function parseEvidenceArgs(argv: string[]): EvidenceCliArgs {

@@ -7,52 +7,13 @@
  */
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { parseCsv } from '../../../shared/data';
-import type { DataTables } from '../types';
 import type { EvidenceOptions, EvidenceResult } from '../evidence';
 import { programEvidence, testHypothesis, type HypothesisResult } from '../evidence/program';
-import { processIo, type CliIo } from './fit';
+import { loadTables, processIo, readOrFail, type CliIo } from './fit';
 import { EVIDENCE_USAGE, parseEvidenceArgs, UsageError, type EvidenceCliArgs } from './evidence-args';
 
 export interface EvidenceCliOptions {
   signal?: AbortSignal;
-}
-
-class InputError extends Error {
-  constructor(message: string) {
-    super(message);
-    this.name = 'InputError';
-  }
-}
-
-function readText(io: CliIo, file: string, what: string): string {
-  try {
-    return new TextDecoder('utf-8').decode(io.readFile(file));
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'it is a folder' : (e as Error).message;
-    throw new InputError(`Cannot read ${what} "${file}": ${why}.`);
-  }
-}
-
-function loadTables(args: EvidenceCliArgs, io: CliIo): DataTables {
-  const tables: DataTables = {};
-  for (const d of args.data) {
-    let bytes: Uint8Array;
-    try {
-      bytes = io.readFile(d.path);
-    } catch {
-      throw new InputError(`Cannot read data file "${d.path}".`);
-    }
-    const r = parseCsv(bytes);
-    for (const issue of r.issues) {
-      // Each message names its own row and column.
-      io.stderr(`${d.path}: ${issue.severity}: ${issue.message}\n`);
-    }
-    if (!r.table) throw new InputError(`The data file "${d.path}" has errors (listed above).`);
-    tables[d.name] = r.table;
-  }
-  return tables;
 }
 
 const r4 = (x: number | null) => (x === null || !Number.isFinite(x) ? x : Number(x.toPrecision(6)));
@@ -121,7 +82,7 @@ export async function main(argv: string[], io: CliIo = processIo, opts: Evidence
   try {
     const started = performance.now();
     const tables = loadTables(args, io);
-    const source = readText(io, args.modelPath, 'model file');
+    const source = new TextDecoder('utf-8').decode(readOrFail(io, args.modelPath, 'model file'));
     const model = path.basename(args.modelPath);
     const eo: EvidenceOptions = {
       replicates: args.replicates,
@@ -179,7 +140,7 @@ export async function main(argv: string[], io: CliIo = processIo, opts: Evidence
       return 0;
     }
     currentModel = args.againstPath;
-    const otherSource = readText(io, args.againstPath, 'model file');
+    const otherSource = new TextDecoder('utf-8').decode(readOrFail(io, args.againstPath, 'model file'));
     const other = path.basename(args.againstPath);
     const b = programEvidence(otherSource, tables, { ...eo, seed: (args.seed ?? 20261201) + 1 });
     clear();

@@ -10,7 +10,7 @@ import { pathToFileURL } from 'node:url';
 import { parseCsv } from '../../../shared/data';
 import type { DataTables, TargetSpec } from '../types';
 import { runFit } from '../fit';
-import { parseCliArgs, USAGE, UsageError, type CliArgs } from './args';
+import { parseCliArgs, USAGE, UsageError, type CliArgs, type DataArg } from './args';
 import { drawsCsv, summaryJson, summaryTable } from './format';
 import { checkProgram } from '../../../shared/lang/index';
 import { schemaOf } from '../compile/index';
@@ -40,7 +40,8 @@ export interface CliOptions {
   signal?: AbortSignal;
 }
 
-function readOrFail(io: CliIo, file: string, what: string): Uint8Array {
+/** The file's bytes, or an InputError saying why it cannot be read. */
+export function readOrFail(io: CliIo, file: string, what: string): Uint8Array {
   try {
     return io.readFile(file);
   } catch (e) {
@@ -50,14 +51,16 @@ function readOrFail(io: CliIo, file: string, what: string): Uint8Array {
   }
 }
 
-class InputError extends Error {
+/** A problem with the command's input files: reported in one line, exit code 1. */
+export class InputError extends Error {
   constructor(message: string) {
     super(message);
     this.name = 'InputError';
   }
 }
 
-function loadTables(args: CliArgs, io: CliIo): DataTables {
+/** Reads and parses every `--data` file; each CSV problem goes to stderr with its file name. */
+export function loadTables(args: { data: readonly DataArg[] }, io: CliIo): DataTables {
   const tables: DataTables = {};
   for (const d of args.data) {
     const bytes = readOrFail(io, d.path, 'data file');
