@@ -252,6 +252,8 @@ export const runs = mysqlTable(
     /** Phase durations in milliseconds, e.g. { compile, warmup, sampling, diagnostics }. */
     timings: jsonCol<unknown>('timings'),
     error: text('error'),
+    /** The engine every chain runs ({ sampler, samplerReason }), decided by the first chain claimed. */
+    plan: jsonCol<unknown>('plan'),
   },
   (t) => [
     index('runs_queue_idx').on(t.status, t.leaseExpiresAt),
@@ -279,6 +281,44 @@ export const runChains = mysqlTable(
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex('run_chains_uq').on(t.runId, t.chainIndex), index('run_chains_ws_idx').on(t.workspaceId)],
+);
+
+/**
+ * The claimable units of a run (server/runs/queue.ts): one per chain of a fit, one 'finish' unit
+ * (the summary) created when the last chain is stored, or one 'job' unit for work that runs whole.
+ * Each unit has its own lease and heartbeat, so one run's chains spread over slots and processes.
+ */
+export const RUN_UNIT_KINDS = ['chain', 'finish', 'job'] as const;
+export const RUN_UNIT_STATUSES = ['queued', 'running', 'done', 'dropped'] as const;
+export const runUnits = mysqlTable(
+  'run_units',
+  {
+    id: id().primaryKey(),
+    workspaceId: id('workspace_id')
+      .notNull()
+      .references(() => workspaces.id, { onDelete: 'cascade' }),
+    runId: id('run_id')
+      .notNull()
+      .references(() => runs.id, { onDelete: 'cascade' }),
+    /** Chain index (0-based) for 'chain' units; -1 for 'finish'; 0 for 'job'. */
+    unit: int('unit').notNull(),
+    kind: mysqlEnum('kind', RUN_UNIT_KINDS).notNull(),
+    status: mysqlEnum('status', RUN_UNIT_STATUSES).notNull().default('queued'),
+    leaseOwner: varchar('lease_owner', { length: 120 }),
+    leaseExpiresAt: ts('lease_expires_at'),
+    heartbeatAt: ts('heartbeat_at'),
+    attempts: int('attempts').notNull().default(0),
+    progress: jsonCol<unknown>('progress'),
+    /** The run's creation time (the queue's age order). */
+    queuedAt: ts('queued_at').notNull(),
+    claimedAt: ts('claimed_at'),
+    finishedAt: ts('finished_at'),
+  },
+  (t) => [
+    uniqueIndex('run_units_uq').on(t.runId, t.unit),
+    index('run_units_queue_idx').on(t.status, t.leaseExpiresAt),
+    index('run_units_ws_idx').on(t.workspaceId, t.claimedAt),
+  ],
 );
 
 export const runSummaries = mysqlTable(

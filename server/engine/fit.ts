@@ -81,42 +81,7 @@ export async function runFit(
 
   const starts = dispersedStarts(p, settings.chains, new Rng(settings.seed, STARTS_STREAM));
 
-  let sampler: SamplerName;
-  let samplerReason: string;
-  if (settings.sampler === 'auto') {
-    // Decided once per fit, before any chain starts: every chain runs the same engine. Pilot chains
-    // run like the fit's chains (worker threads unless parallel is false) and are never returned.
-    const choice = await chooseEngine(
-      p,
-      {
-        start: starts[0],
-        fitIterations: settings.chains * (settings.warmup + settings.draws),
-        evalCost: evaluationCostOf(spec, target.dim),
-      },
-      (pilots) =>
-        Promise.all(
-          pilots.map(async (pl) => {
-            const job: ChainJob = { spec, sampler: pl.engine, start: Array.from(pl.start), warmup: pl.warmup, draws: pl.draws, seed: settings.seed, chain: pl.chain };
-            const none: ChainProgress = () => {};
-            try {
-              const [out] =
-                opts.parallel === false
-                  ? await runInProcess(p, [job], none, opts.signal, new Map())
-                  : await runOnWorkers([job], none, opts.signal, opts.maxWorkers, new Map());
-              return out as ChainResult | Error;
-            } catch (e) {
-              if (opts.signal?.aborted || (e instanceof Error && e.name === 'AbortError')) throw new FitCancelledError();
-              return e instanceof Error ? e : new Error(String(e));
-            }
-          }),
-        ),
-    );
-    sampler = choice.sampler;
-    samplerReason = choice.reason;
-  } else {
-    sampler = settings.sampler;
-    samplerReason = `Chosen in the fit settings (${settings.sampler}).`;
-  }
+  const { sampler, samplerReason } = await choosePlan(spec, p, settings, starts, opts);
 
   const jobs: ChainJob[] = starts.map((start, chain) => ({
     spec,
@@ -166,6 +131,116 @@ export async function runFit(
   return {
     unknownNames: target.names.slice(),
     derivedNames: target.derived?.names.slice() ?? [],
+    chains,
+    summary: fitSummarySchema.parse(summary),
+  };
+}
+
+/* ------------------------------------------------------------------------------------------ */
+/* One chain at a time: the pieces of runFit for callers that spread a fit's chains out         */
+/* ------------------------------------------------------------------------------------------ */
+
+/** What every chain of a fit shares beyond its settings: the engine, decided once per fit. */
+export interface FitPlan {
+  sampler: SamplerName;
+  samplerReason: string;
+}
+
+type PlanOptions = Pick<RunFitOptions, 'signal' | 'parallel' | 'maxWorkers'>;
+
+/** The engine of a fit: the settings' engine, or the automatic choice by pilots (deterministic in the seed). */
+async function choosePlan(spec: TargetSpec, p: PreparedTarget, settings: FitSettings, starts: Float64Array[], opts: PlanOptions): Promise<FitPlan> {
+  if (settings.sampler !== 'auto') return { sampler: settings.sampler, samplerReason: `Chosen in the fit settings (${settings.sampler}).` };
+  // Decided once per fit, before any chain starts: every chain runs the same engine. Pilot chains
+  // run like the fit's chains (worker threads unless parallel is false) and are never returned.
+  const choice = await chooseEngine(
+    p,
+    {
+      start: starts[0],
+      fitIterations: settings.chains * (settings.warmup + settings.draws),
+      evalCost: evaluationCostOf(spec, p.target.dim),
+    },
+    (pilots) =>
+      Promise.all(
+        pilots.map(async (pl) => {
+          const job: ChainJob = { spec, sampler: pl.engine, start: Array.from(pl.start), warmup: pl.warmup, draws: pl.draws, seed: settings.seed, chain: pl.chain };
+          const none: ChainProgress = () => {};
+          try {
+            const [out] =
+              opts.parallel === false
+                ? await runInProcess(p, [job], none, opts.signal, new Map())
+                : await runOnWorkers([job], none, opts.signal, opts.maxWorkers, new Map());
+            return out as ChainResult | Error;
+          } catch (e) {
+            if (opts.signal?.aborted || (e instanceof Error && e.name === 'AbortError')) throw new FitCancelledError();
+            return e instanceof Error ? e : new Error(String(e));
+          }
+        }),
+      ),
+  );
+  return { sampler: choice.sampler, samplerReason: choice.reason };
+}
+
+async function preparedWithStarts(spec: TargetSpec, settings: FitSettings) {
+  const p = await preparedFor(spec);
+  if (p.target.dim > FIT_LIMITS.dimension) {
+    throw new Error(`The model has ${p.target.dim} unknowns; a fit allows at most ${FIT_LIMITS.dimension}.`);
+  }
+  return { p, starts: dispersedStarts(p, settings.chains, new Rng(settings.seed, STARTS_STREAM)) };
+}
+
+/** The engine runFit would use for these settings (the same pilots, so the same answer). */
+export async function planFit(spec: TargetSpec, settingsIn: Partial<FitSettings>, opts: PlanOptions = {}): Promise<FitPlan> {
+  const settings = fitSettingsSchema.parse(settingsIn);
+  const { p, starts } = await preparedWithStarts(spec, settings);
+  return choosePlan(spec, p, settings, starts, opts);
+}
+
+/**
+ * One chain of a fit, alone: the same start (the fit's dispersed starts, drawn from the seed) and
+ * the same (seed, chain index), so its draws equal that chain of runFit with the same plan.
+ */
+export async function runFitChain(
+  spec: TargetSpec,
+  settingsIn: Partial<FitSettings>,
+  chain: number,
+  plan: FitPlan,
+  opts: Pick<RunFitOptions, 'signal' | 'parallel' | 'onProgress'> = {},
+): Promise<ChainResult> {
+  const settings = fitSettingsSchema.parse(settingsIn);
+  if (opts.signal?.aborted) throw new FitCancelledError();
+  if (!Number.isInteger(chain) || chain < 0 || chain >= settings.chains) throw new Error(`Chain ${chain + 1} is not a chain of this fit.`);
+  const { p, starts } = await preparedWithStarts(spec, settings);
+  const job: ChainJob = { spec, sampler: plan.sampler, start: Array.from(starts[chain]), warmup: settings.warmup, draws: settings.draws, seed: settings.seed, chain };
+  const progress = makeProgressReporter(settings, opts.onProgress);
+  const finished = new Map<number, ChainResult>();
+  const [out] = opts.parallel === false ? await runInProcess(p, [job], progress, opts.signal, finished) : await runOnWorkers([job], progress, opts.signal, 1, finished);
+  return out;
+}
+
+/**
+ * Summaries, diagnostics and verdict of chains run apart (runFitChain), on a pooled worker thread
+ * unless `onWorker` is false. The summary's settings name the chains given.
+ */
+export async function summariseFitChains(
+  spec: TargetSpec,
+  settingsIn: Partial<FitSettings>,
+  chainsIn: ChainResult[],
+  plan: FitPlan,
+  opts: { onWorker?: boolean } = {},
+): Promise<FitResult> {
+  const started = performance.now();
+  const settings = fitSettingsSchema.parse({ ...settingsIn, chains: chainsIn.length });
+  const p = await preparedFor(spec);
+  const chains = chainsIn.slice().sort((a, b) => a.chain - b.chain);
+  const summary =
+    opts.onWorker === false
+      ? summarise(p, chains, settings, plan.sampler, plan.samplerReason)
+      : await summariseOnWorker(spec, chains, settings, plan.sampler, plan.samplerReason);
+  summary.seconds = (performance.now() - started) / 1000;
+  return {
+    unknownNames: p.target.names.slice(),
+    derivedNames: p.target.derived?.names.slice() ?? [],
     chains,
     summary: fitSummarySchema.parse(summary),
   };

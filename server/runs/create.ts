@@ -8,7 +8,7 @@ import { and, eq } from 'drizzle-orm';
 import { fitContentSchema, RUN_LIMITS, WORKSPACE_CONCURRENT_RUNS, type Run } from '../../shared/api/notebook';
 import { FIT_LIMITS, type FitSettings } from '../../shared/fit';
 import type { Db } from '../db/client';
-import { cells, runs, workspaces } from '../db/schema';
+import { cells, runs, runUnits, workspaces } from '../db/schema';
 import { DomainError } from '../lib/errors';
 import { newId } from '../lib/ids';
 import { findCell } from '../notebook/cells';
@@ -17,6 +17,7 @@ import { checkModelOffThread } from '../notebook/checks';
 import { firstProblem, tablesNamed } from '../notebook/model';
 import { findRun } from './read';
 import { activeRunCount, cancelRun, type RunSpec } from './queue';
+import { unitsFor } from './units';
 
 export interface QueueRequest {
   workspaceId: string;
@@ -78,10 +79,13 @@ export async function queueRun(db: Db, now: Date, q: QueueRequest): Promise<Run>
     if (active >= WORKSPACE_CONCURRENT_RUNS) {
       throw new DomainError('conflict', `This workspace already has ${active} fits queued or running (the limit is ${WORKSPACE_CONCURRENT_RUNS}). Wait for one to finish or cancel one.`);
     }
-    await tx.insert(runs).values({
-      id, workspaceId: q.workspaceId, notebookId: q.notebookId, cellId: cell.id, status: 'queued', settings, seed: settings.seed,
+    const row = {
+      id, workspaceId: q.workspaceId, notebookId: q.notebookId, cellId: cell.id, status: 'queued' as const, settings, seed: settings.seed,
       modelHash, spec, progress: [], attempts: 0, requestedBy: q.userId, createdAt: now,
-    });
+    };
+    await tx.insert(runs).values(row);
+    // One claimable unit per chain (units.ts): slots anywhere take them one by one.
+    await tx.insert(runUnits).values(unitsFor(row));
   });
   const { row: _row, ...out } = await findRun(db, q.workspaceId, id, now);
   return out;

@@ -1,25 +1,23 @@
 /**
- * Runs as jobs in MariaDB (no other queue): a run row is the job.
+ * Runs as jobs in MariaDB (no other queue): a run row is the job, and its units (units.ts: one per
+ * chain, then the summary; or one for a job that runs whole) are what slots claim.
  *
- *   queued ──claim──▶ running ──finish──▶ done
- *                        │  └──fail────▶ failed
- *                        │  └──cancel (API sets it; the heartbeat notices and the worker stops)
- *                        └─ lease expired ─▶ claimable again (attempts + 1; failed after maxAttempts)
+ *   queued ──first unit claimed──▶ running ──last unit (the summary) stored──▶ done
+ *                                     │  └──a unit fails──▶ failed
+ *                                     │  └──cancel (API sets it; heartbeats notice and slots stop)
+ *                                     └─ a unit's lease expired ─▶ that unit is claimable again
  *
- * A worker claims with SELECT … FOR UPDATE SKIP LOCKED so concurrent workers never take the same
- * row, holds a lease it extends with a heartbeat, writes per-chain progress, stores each chain as it
- * finishes, and marks the run done in one transaction together with its summary. Every write after
- * the claim is fenced on (lease_owner = me AND status = 'running'), so a worker that lost its lease
- * changes nothing. Stored chains outlive a lost lease: the next worker to claim the run resumes
- * from them and runs only the missing chains. A run that ends failed or cancelled drops them.
+ * Chains are stored as they finish and outlive a lost lease: only the lost chain runs again. A run
+ * that ends failed or cancelled drops them. This file holds the run-level reads and writes (queue
+ * order and positions, stored chains, finish, fail, cancel); units.ts the claims and leases.
  */
-import { and, asc, eq, inArray, lt, or, sql } from 'drizzle-orm';
-import { RUN_LIMITS } from '../../shared/api/notebook';
+import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import type { FitProgress, FitSummary } from '../../shared/fit';
 import type { Db } from '../db/client';
 import { runChains, runs, runSummaries } from '../db/schema';
 import { newId } from '../lib/ids';
 import type { ChainResult } from '../engine/types';
+import { endRun, unitClaimOrder } from './units';
 import { decodeDraws, decodeFlags, decodeFloats, encodeChain, type ChainStats, type DrawNames, type EncodedChain } from './draws-codec';
 
 export type RunRow = typeof runs.$inferSelect;
@@ -35,24 +33,20 @@ export type { ChainStats, DrawNames, EncodedChain } from './draws-codec';
 
 const fenced = (runId: string, workerId: string) => and(eq(runs.id, runId), eq(runs.leaseOwner, workerId), eq(runs.status, 'running'));
 
-/** Queued, or running with a lease that expired before `now`. */
-const claimableSql = (now: Date) => sql`(r.status = 'queued' OR (r.status = 'running' AND r.lease_expires_at < ${now}))`;
-
 /**
- * Claimable runs in the order fit slots take them, fair between workspaces: a run's turn is its
- * rank among its workspace's claimable runs (oldest first) plus the runs the workspace already has
- * running, so each workspace's first waiting run comes before any workspace's second (round-robin
- * by workspace), and ties go to the older run.
+ * Runs with claimable units in the order slots take them (the first unit of each run in
+ * unitClaimOrder): fair between workspaces, oldest first within one.
  */
 export async function claimOrder(db: Pick<Db, 'execute'>, now: Date, limit: number | null): Promise<{ id: string; workspaceId: string }[]> {
-  const [rows] = (await db.execute(sql`
-    SELECT q.id, q.workspace_id AS workspaceId FROM (
-      SELECT r.id, r.workspace_id, r.created_at,
-        ROW_NUMBER() OVER (PARTITION BY r.workspace_id ORDER BY r.created_at, r.id)
-          + (SELECT COUNT(*) FROM runs x WHERE x.workspace_id = r.workspace_id AND x.status = 'running' AND x.lease_expires_at >= ${now}) AS turn
-      FROM runs r WHERE ${claimableSql(now)}
-    ) q ORDER BY q.turn, q.created_at, q.id ${limit === null ? sql`` : sql`LIMIT ${limit}`}`)) as unknown as [{ id: string; workspaceId: string }[]];
-  return rows;
+  const seen = new Set<string>();
+  const out: { id: string; workspaceId: string }[] = [];
+  for (const u of await unitClaimOrder(db, now, null)) {
+    if (seen.has(u.runId)) continue;
+    seen.add(u.runId);
+    out.push({ id: u.runId, workspaceId: u.workspaceId });
+    if (limit !== null && out.length >= limit) break;
+  }
+  return out;
 }
 
 /** 1-based place of each queued run of a workspace in the claim order (see claimOrder). */
@@ -61,86 +55,12 @@ export async function queuePositions(db: Pick<Db, 'execute'>, now: Date): Promis
   return new Map(order.map((r, i) => [r.id, i + 1]));
 }
 
-/**
- * Claim the claimable run whose turn comes first (claimOrder): queued, or running with an expired
- * lease. A run whose lease expired `maxAttempts` times is marked failed instead. Returns null when
- * nothing is claimable (or every candidate is being claimed by another worker at this moment).
- */
-export async function claimRun(db: Db, workerId: string, now: Date, leaseMs: number): Promise<RunRow | null> {
-  const claimable = or(eq(runs.status, 'queued'), and(eq(runs.status, 'running'), lt(runs.leaseExpiresAt, now)));
-  // Candidates are read without locks: InnoDB locks every row a locking read scans (a sort
-  // reads them all), so one claim would hide every queued row from the others. Each candidate is
-  // then locked by primary key with SKIP LOCKED and checked again under the lock.
-  for (;;) {
-    const candidates = await claimOrder(db, now, 16);
-    if (candidates.length === 0) return null;
-    let retry = false;
-    for (const { id } of candidates) {
-      const outcome = await db.transaction(async (tx) => {
-        const [row] = await tx
-          .select()
-          .from(runs)
-          .where(and(eq(runs.id, id), claimable))
-          .for('update', { skipLocked: true });
-        if (!row) return null;
-        if (row.status === 'running' && row.attempts >= RUN_LIMITS.maxAttempts) {
-          await tx
-            .update(runs)
-            .set({ status: 'failed', leaseOwner: null, leaseExpiresAt: null, finishedAt: now, error: `The worker running this fit stopped answering ${row.attempts} times; the fit was given up.` })
-            .where(eq(runs.id, row.id));
-          await tx.delete(runChains).where(eq(runChains.runId, row.id));
-          return 'gave-up' as const;
-        }
-        const claimed = {
-          status: 'running' as const, leaseOwner: workerId, leaseExpiresAt: new Date(now.getTime() + leaseMs), heartbeatAt: now,
-          attempts: row.attempts + 1, startedAt: row.startedAt ?? now,
-        };
-        await tx.update(runs).set(claimed).where(eq(runs.id, row.id));
-        return { ...row, ...claimed };
-      });
-      if (outcome === 'gave-up') {
-        retry = true;
-        continue;
-      }
-      if (outcome) return outcome;
-    }
-    // Every candidate was taken by someone else meanwhile (or given up): look again once more.
-    if (!retry) return null;
-  }
-}
-
-/** Extend the lease. false: the lease was lost or the run was cancelled — stop working on it. */
-export async function heartbeat(db: Db, runId: string, workerId: string, now: Date, leaseMs: number): Promise<boolean> {
-  const [res] = await db.update(runs).set({ leaseExpiresAt: new Date(now.getTime() + leaseMs), heartbeatAt: now }).where(fenced(runId, workerId));
-  return res.affectedRows === 1;
-}
-
-export async function writeProgress(db: Db, runId: string, workerId: string, progress: FitProgress[]): Promise<boolean> {
-  const [res] = await db.update(runs).set({ progress }).where(fenced(runId, workerId));
-  return res.affectedRows === 1;
-}
-
 function chainRow(run: Pick<RunRow, 'id' | 'workspaceId'>, names: DrawNames, ch: ChainResult | EncodedChain, now: Date): typeof runChains.$inferInsert {
   const enc = 'stats' in ch ? ch : encodeChain(names, ch);
   return {
     id: newId(), workspaceId: run.workspaceId, runId: run.id, chainIndex: enc.chain, drawCount: enc.drawCount,
     dimension: enc.dimension, draws: enc.draws, stats: enc.stats, createdAt: now,
   };
-}
-
-/**
- * Store one finished chain while the run goes on (as the engine returned it, or already encoded
- * off the main thread). Fenced like every write: false (and nothing written) when this worker no
- * longer holds the run.
- */
-export async function storeChain(db: Db, run: Pick<RunRow, 'id' | 'workspaceId'>, workerId: string, names: DrawNames, chain: ChainResult | EncodedChain, now: Date): Promise<boolean> {
-  return db.transaction(async (tx) => {
-    const [mine] = await tx.select({ id: runs.id }).from(runs).where(fenced(run.id, workerId)).for('update');
-    if (!mine) return false;
-    await tx.delete(runChains).where(and(eq(runChains.runId, run.id), eq(runChains.chainIndex, chain.chain)));
-    await tx.insert(runChains).values(chainRow(run, names, chain, now));
-    return true;
-  });
 }
 
 /**
@@ -222,7 +142,7 @@ export async function failRun(db: Db, runId: string, workerId: string, message: 
       .set({ status: 'failed', error: message.slice(0, 4000), finishedAt: now, leaseOwner: null, leaseExpiresAt: null, heartbeatAt: null })
       .where(fenced(runId, workerId));
     if (res.affectedRows !== 1) return false;
-    await tx.delete(runChains).where(eq(runChains.runId, runId));
+    await endRun(tx, runId, now, 'failed', message);
     return true;
   });
 }
@@ -235,8 +155,9 @@ export async function cancelRun(db: Db, workspaceId: string, runId: string, now:
       .set({ status: 'cancelled', finishedAt: now, leaseOwner: null, leaseExpiresAt: null })
       .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId), inArray(runs.status, ['queued', 'running'])));
     if (res.affectedRows !== 1) return false;
-    // Chains a worker stored before the cancel (its later writes are fenced out).
-    await tx.delete(runChains).where(and(eq(runChains.workspaceId, workspaceId), eq(runChains.runId, runId)));
+    // Chains stored before the cancel go; units still waiting or running are dropped (their
+    // slots' heartbeats and writes are fenced out).
+    await endRun(tx, runId, now, 'cancelled', null);
     return true;
   });
 }

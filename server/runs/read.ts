@@ -5,6 +5,7 @@ import { RUN_HEARTBEAT, type Run, type RunDraws } from '../../shared/api/noteboo
 import { runChains, runs, runSummaries, users, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
 import { DomainError } from '../lib/errors';
+import { unitsOf, type UnitRow } from './units';
 import { queuePositions, type ChainStats, type RunRow, type RunSpec } from './queue';
 import { computeFailure, datasetMetaColumns, loadDataTables } from '../notebook/datasets';
 import { checkModelOffThread } from '../notebook/checks';
@@ -13,7 +14,7 @@ import { cachedRegionProjections } from '../notebook/projections';
 import type { StoredChainInput } from '../compute/tasks';
 
 /** Is the worker holding this running run silent (lease expired or heartbeat stale)? */
-export function workerLost(r: Pick<RunRow, 'status' | 'leaseExpiresAt' | 'heartbeatAt'>, now: Date): boolean {
+export function workerLost(r: { status: string; leaseExpiresAt: Date | null; heartbeatAt: Date | null }, now: Date): boolean {
   if (r.status !== 'running') return false;
   if (!r.leaseExpiresAt || r.leaseExpiresAt.getTime() < now.getTime()) return true;
   return r.heartbeatAt !== null && now.getTime() - r.heartbeatAt.getTime() > RUN_HEARTBEAT.staleMs;
@@ -23,9 +24,37 @@ export function workerLost(r: Pick<RunRow, 'status' | 'leaseExpiresAt' | 'heartb
 export interface RunView {
   now: Date;
   positions?: Map<string, number>;
+  /** The units of running runs (their per-chain progress and liveness). */
+  units?: Map<string, UnitRow[]>;
+}
+
+/** A running run's progress and liveness from its units: each chain's own progress and lease. */
+function liveFromUnits(r: RunRow, units: UnitRow[], now: Date): { progress: FitProgress[]; worker: 'active' | 'lost'; lastHeartbeatAt: string | null } {
+  const total = (() => {
+    const s = r.settings as { warmup?: number; draws?: number } | null;
+    return (s?.warmup ?? 0) + (s?.draws ?? 0);
+  })();
+  const progress: FitProgress[] = [];
+  let lost = false;
+  let last: Date | null = null;
+  for (const u of units) {
+    if (u.status === 'running') {
+      if (workerLost(u, now)) lost = true;
+      if (u.heartbeatAt && (!last || u.heartbeatAt > last)) last = u.heartbeatAt;
+    }
+    if (u.kind !== 'chain') continue;
+    if (u.status === 'done') progress.push({ chain: u.unit + 1, phase: 'done', iteration: total, total, itersPerSecond: 0 });
+    else if (u.status === 'running') {
+      const p = Array.isArray(u.progress) ? (u.progress as FitProgress[])[0] : undefined;
+      progress.push(p ?? { chain: u.unit + 1, phase: 'warmup', iteration: 0, total, itersPerSecond: 0 });
+    }
+  }
+  return { progress, worker: lost ? 'lost' : 'active', lastHeartbeatAt: (last ?? r.heartbeatAt)?.toISOString() ?? null };
 }
 
 export function toRun(r: RunRow, summary: FitSummary | null, requestedByName: string | null, view: RunView = { now: new Date() }): Run {
+  const units = r.status === 'running' ? view.units?.get(r.id) : undefined;
+  const live = units && units.length ? liveFromUnits(r, units, view.now) : null;
   return {
     id: r.id,
     cellId: r.cellId ?? null,
@@ -38,10 +67,10 @@ export function toRun(r: RunRow, summary: FitSummary | null, requestedByName: st
     startedAt: r.startedAt?.toISOString() ?? null,
     finishedAt: r.finishedAt?.toISOString() ?? null,
     error: r.error ?? null,
-    progress: Array.isArray(r.progress) ? (r.progress as FitProgress[]) : [],
+    progress: live ? live.progress : Array.isArray(r.progress) ? (r.progress as FitProgress[]) : [],
     summary,
-    worker: r.status === 'running' ? (workerLost(r, view.now) ? 'lost' : 'active') : null,
-    lastHeartbeatAt: r.status === 'running' ? (r.heartbeatAt?.toISOString() ?? null) : null,
+    worker: r.status === 'running' ? (live ? live.worker : workerLost(r, view.now) ? 'lost' : 'active') : null,
+    lastHeartbeatAt: r.status === 'running' ? (live ? live.lastHeartbeatAt : (r.heartbeatAt?.toISOString() ?? null)) : null,
     queuePosition: r.status === 'queued' ? (view.positions?.get(r.id) ?? null) : null,
     partial: r.partial,
   };
@@ -53,7 +82,10 @@ async function withSummaries(exec: Exec, rows: { r: RunRow; name: string | null 
   const byId = new Map(sums.map((s) => [s.runId, s.summary as FitSummary]));
   // The queue's order is read only when a queued run is shown.
   const positions = rows.some((x) => x.r.status === 'queued') ? await queuePositions(exec, now) : undefined;
-  return rows.map((x) => toRun(x.r, byId.get(x.r.id) ?? null, x.name, { now, positions }));
+  const running = rows.filter((x) => x.r.status === 'running').map((x) => x.r.id);
+  const units = new Map<string, UnitRow[]>();
+  for (const u of await unitsOf(exec, running)) units.set(u.runId, [...(units.get(u.runId) ?? []), u]);
+  return rows.map((x) => toRun(x.r, byId.get(x.r.id) ?? null, x.name, { now, positions, units }));
 }
 
 export async function findRun(exec: Exec, workspaceId: string, runId: string, now = new Date()): Promise<Run & { row: RunRow }> {

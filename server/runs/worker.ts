@@ -1,16 +1,19 @@
 /**
- * A run worker: fit slots that claim runs from the database and fit them with the engine's runFit.
- * Several workers (in several processes or hosts) can share one database. Each chain is stored as
- * soon as it finishes; a run claimed again after a lost lease resumes from its stored chains and
- * runs only the missing ones (same seed, so the same draws as an uninterrupted fit).
+ * A run worker: fit slots that claim run units from the database (units.ts) — one chain of a fit
+ * at a time, a fit's summary, or a job that runs whole — and run them. Several workers (in several
+ * processes or hosts) can share one database, and one fit's chains spread over all their slots.
+ *
+ * Each chain is stored as soon as it finishes; a chain whose slot vanished is claimed again once
+ * its lease expires and runs again from the same start and seed (the same draws). The slot that
+ * stores a fit's last chain summarises the fit (finishFit, off the event loop) and marks it done.
  *
  * Database outages: every write (progress, heartbeat, chain store, finish, fail) retries
  * transient errors with backoff (retry.ts), so a restart of MariaDB under a fit delays its writes
  * but loses nothing; a heartbeat the database answers with "not yours" (lease taken over or run
- * cancelled) stops the fit. Nothing here rejects unhandled.
+ * cancelled) stops the chain. Nothing here rejects unhandled.
  *
- * Slots: `slots` loops each hold at most one run; a run's chains share the engine's thread pool.
- * At the time limit the chains that finished are kept and the run is done and marked partial.
+ * Time limit: a chain that runs longer than wallSeconds is stopped and dropped; the fit ends with
+ * the chains that finished, marked partial (failed when none did).
  */
 import os from 'node:os';
 import { and, eq, inArray } from 'drizzle-orm';
@@ -18,14 +21,16 @@ import { fitSettingsSchema, type FitProgress, type FitSettings } from '../../sha
 import { RUN_HEARTBEAT, RUN_LIMITS } from '../../shared/api/notebook';
 import type { Db } from '../db/client';
 import { datasets } from '../db/schema';
-import { runFit } from '../engine/fit';
+import { FitCancelledError, planFit, runFitChain, summariseFitChains, type FitPlan } from '../engine/fit';
 import { preparedFor } from '../engine/fit-worker';
 import type { ChainResult, TargetSpec } from '../engine/types';
 import type { Clock } from '../lib/clock';
 import { systemClock } from '../lib/clock';
 import { newId } from '../lib/ids';
 import { datasetMetaColumns, loadDataTables } from '../notebook/datasets';
-import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type EncodedChain, type RunRow, type RunSpec } from './queue';
+import { storedChains, type DrawNames, type EncodedChain, type RunRow, type RunSpec } from './queue';
+import { claimUnit, endChainUnit, failUnitRun, finishUnitRun, heartbeatUnit, storePlan, writeUnitProgress, type Claim } from './units';
+import { wholeRunJobs } from './jobs';
 import { computePool } from '../compute/pool';
 import { describe, isTransientDbError, retryDb } from './retry';
 
@@ -43,7 +48,7 @@ export interface WorkerOptions {
   /** Run chains on worker threads (the engine's default) or in-process. */
   parallel?: boolean;
   wallSeconds?: number;
-  /** Runs fitted at once by this worker (default 1). */
+  /** Units (chains) run at once by this worker (default 1). */
   slots?: number;
   /** Longest pause between retries of a write while the database is unreachable. */
   maxRetryDelayMs?: number;
@@ -122,7 +127,7 @@ export class RunWorker {
     }
   }
 
-  /** Stop after the current runs (which are abandoned to their leases if `abandon`). */
+  /** Stop after the current units (which are abandoned to their leases if `abandon`). */
   async stop(abandon = false): Promise<void> {
     this.stopping = true;
     if (abandon) {
@@ -134,12 +139,16 @@ export class RunWorker {
     this.loops = [];
   }
 
-  /** Claim and process one run. Returns false when the queue had nothing claimable. */
+  /** Claim and run one unit. Returns false when the queue had nothing claimable. */
   async runOnce(slot = 0): Promise<boolean> {
-    const run = await claimRun(this.db, this.id, this.clock.now(), this.leaseMs);
-    if (!run) return false;
-    this.log(`slot ${slot + 1}: claimed run ${run.id} (attempt ${run.attempts})`);
-    await this.process(run);
+    const claim = await claimUnit(this.db, this.id, this.clock.now(), this.leaseMs);
+    if (!claim) return false;
+    const { run, unit } = claim;
+    const what = unit.kind === 'chain' ? `chain ${unit.unit + 1}` : unit.kind === 'finish' ? 'the summary' : 'the job';
+    this.log(`slot ${slot + 1}: claimed ${what} of run ${run.id} (attempt ${unit.attempts})`);
+    if (unit.kind === 'chain') await this.processChain(claim);
+    else if (unit.kind === 'finish') await this.finishFit(claim);
+    else await this.processJob(claim);
     return true;
   }
 
@@ -148,33 +157,42 @@ export class RunWorker {
     return retryDb(fn, { what, log: this.log, maxDelayMs: this.maxRetryDelayMs, giveUp: () => this.abandoning || (giveUp?.() ?? false) });
   }
 
-  private async process(run: RunRow): Promise<void> {
-    const started = performance.now();
+  /**
+   * Hold a unit while `body` runs: its heartbeat (a definite "not yours" stops the body with
+   * 'lost'), progress writes at most every progressMs (the newest values win; a failed write is
+   * superseded by the next), an optional time limit ('wall') and the worker's shutdown ('abandon').
+   */
+  private async leased<T>(
+    claim: Claim,
+    limitMs: number | null,
+    body: (h: { signal: AbortSignal; progress: (p: FitProgress[]) => void; why: () => StopReason | null; pastLimit: () => boolean }) => Promise<T>,
+  ): Promise<T> {
+    const { run } = claim;
+    const heldSince = performance.now();
     const ac = new AbortController();
     this.current.add(ac);
     let why: StopReason | null = null;
-    const stopFit = (reason: StopReason) => {
+    const stop = (reason: StopReason) => {
       if (ac.signal.aborted) return;
       why = reason;
       ac.abort();
     };
-    const onAbandon = () => {
+    const onAbort = () => {
       if (this.abandoning) why ??= 'abandon';
     };
-    ac.signal.addEventListener('abort', onAbandon);
+    ac.signal.addEventListener('abort', onAbort);
 
-    // Progress: the newest values are written at most every progressMs, one write at a time; a
-    // write that fails (database down) is simply superseded by the next one.
-    const progress = new Map<number, FitProgress>();
+    let latest: FitProgress[] | null = null;
     let lastWrite = 0;
     let writing = false;
     let progressFailing = false;
-    const flush = (force = false) => {
+    const progress = (p: FitProgress[]) => {
+      latest = p;
       const now = Date.now();
-      if (writing || (!force && now - lastWrite < this.progressMs)) return;
+      if (writing || now - lastWrite < this.progressMs) return;
       writing = true;
       lastWrite = now;
-      writeProgress(this.db, run.id, this.id, [...progress.values()].sort((a, b) => a.chain - b.chain))
+      writeUnitProgress(this.db, claim, this.id, latest)
         .then(() => {
           if (progressFailing) this.log(`run ${run.id}: progress writes work again`);
           progressFailing = false;
@@ -188,19 +206,18 @@ export class RunWorker {
         });
     };
 
-    // Heartbeat: only a definite "not yours" from the database stops the fit; an unreachable
-    // database is not a lost lease (the lease is fenced by owner, so it can be renewed on return
-    // unless another worker took the run meanwhile).
+    // Only a definite "not yours" stops the unit; an unreachable database is not a lost lease
+    // (the lease is fenced by owner, so it can be renewed on return unless another slot took it).
     let beating = false;
     let beatFailing = false;
     const beat = setInterval(() => {
       if (beating) return;
       beating = true;
-      heartbeat(this.db, run.id, this.id, this.clock.now(), this.leaseMs)
+      heartbeatUnit(this.db, claim, this.id, this.clock.now(), this.leaseMs)
         .then((ok) => {
-          if (beatFailing) this.log(`run ${run.id}: heartbeat answered again${ok ? '' : ' — the run is no longer ours'}`);
+          if (beatFailing) this.log(`run ${run.id}: heartbeat answered again${ok ? '' : ' — the unit is no longer ours'}`);
           beatFailing = false;
-          if (!ok) stopFit('lost');
+          if (!ok) stop('lost');
         })
         .catch((e: unknown) => {
           if (!beatFailing) this.log(`run ${run.id}: heartbeat failed (${describe(e)}); retrying every ${this.heartbeatMs} ms`);
@@ -210,86 +227,206 @@ export class RunWorker {
           beating = false;
         });
     }, this.heartbeatMs);
-    const wall = setTimeout(() => stopFit('wall'), this.wallSeconds * 1000);
-
-    // Chains are stored one at a time, in order, each retried through outages.
-    let chainWrites: Promise<void> = Promise.resolve();
-    const storedOk = new Set<number>();
-    const finished = new Map<number, ChainResult>();
-    let settings: FitSettings | null = null;
-    let target: TargetSpec | null = null;
-    let names: DrawNames | null = null;
-
+    const wall = limitMs === null ? null : setTimeout(() => stop('wall'), Math.max(0, limitMs));
     try {
-      const spec = run.spec as RunSpec;
-      settings = fitSettingsSchema.parse(run.settings);
-      const ids = Object.values(spec.tables);
-      const rows = ids.length
-        ? await this.write(`loading the data of run ${run.id}`, () => this.db.select(datasetMetaColumns).from(datasets).where(and(eq(datasets.workspaceId, run.workspaceId), inArray(datasets.id, ids))))
-        : [];
-      const byId = new Map(rows.map((d) => [d.id, d]));
-      const missing = Object.entries(spec.tables).filter(([, id]) => !byId.has(id)).map(([name]) => name);
-      if (missing.length) throw new Error(`The data of table ${missing.map((m) => `"${m}"`).join(', ')} was deleted before the fit ran.`);
-      const tables = await loadDataTables(this.db, Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
-      target = { kind: 'program', source: spec.source, tables };
-      // The column names every stored chain carries (the engine caches the prepared target).
-      const prepared = (await preparedFor(target)).target;
-      const drawNames: DrawNames = { unknownNames: prepared.names.slice(), derivedNames: prepared.derived?.names.slice() ?? [] };
-      names = drawNames;
-      const resume = await this.write(`reading the stored chains of run ${run.id}`, () => storedChains(this.db, run));
-      const total = settings.warmup + settings.draws;
-      for (const c of resume) {
-        progress.set(c.chain, { chain: c.chain + 1, phase: 'done', iteration: total, total, itersPerSecond: 0 });
-        finished.set(c.chain, c);
-        storedOk.add(c.chain);
-      }
-      if (resume.length) this.log(`run ${run.id}: resuming with ${resume.length} stored chain(s)`);
-      const tLoad = performance.now();
-      const result = await runFit(target, settings, {
-        signal: ac.signal,
-        parallel: this.parallel,
-        // Summaries of millions of draws take seconds: off this process's event loop, which
-        // keeps every slot's heartbeat and writes going.
-        summaryOnWorker: true,
-        // No cap per run: the engine's thread pool is shared by every slot of this process and
-        // hands a freed thread to the chain that waited longest, so chains, not runs, take turns
-        // on the cores.
-        resume,
-        onProgress: (p) => {
-          // The engine numbers chains from 0 in progress; the API shows them from 1.
-          progress.set(p.chain, { ...p, chain: p.chain + 1 });
-          flush();
-        },
-        onChainDone: (ch) => {
-          this.log(`run ${run.id}: chain ${ch.chain + 1} finished`);
-          finished.set(ch.chain, ch);
-          chainWrites = chainWrites.then(async () => this.storeOne(run, drawNames, await this.encoded(drawNames, ch), storedOk, stopFit));
-        },
-      });
-      await chainWrites;
-      const tFit = performance.now();
-      const ok = await this.write(`finishing run ${run.id}`, () =>
-        finishRun(this.db, run, this.id, result, this.clock.now(), {
-          load: Math.round(tLoad - started),
-          fit: Math.round(tFit - tLoad),
-          total: Math.round(performance.now() - started),
-        }),
-      );
-      this.log(ok ? `run ${run.id} done in ${((performance.now() - started) / 1000).toFixed(1)} s` : `run ${run.id} finished but its lease was lost; result discarded`);
-    } catch (e) {
-      await chainWrites;
-      await this.afterStop(run, e, why, { settings, target, names, finished, started });
+      // pastLimit: the limit checked at a step boundary (its timer may not have had a turn yet).
+      const pastLimit = () => {
+        if (limitMs !== null && performance.now() - heldSince >= limitMs) stop('wall');
+        return ac.signal.aborted;
+      };
+      return await body({ signal: ac.signal, progress, why: () => why, pastLimit });
     } finally {
-      // A chain write still under way ends before the run is let go (it is fenced either way).
-      await chainWrites;
       clearInterval(beat);
-      clearTimeout(wall);
-      ac.signal.removeEventListener('abort', onAbandon);
+      if (wall) clearTimeout(wall);
+      ac.signal.removeEventListener('abort', onAbort);
       this.current.delete(ac);
     }
   }
 
-  /** A chain encoded on the compute pool (as the engine gave it if the pool fails: storeChain encodes it then). */
+  /** The model and data a run fits, loaded as the run's spec froze them. */
+  private async targetOf(run: RunRow): Promise<TargetSpec> {
+    const spec = run.spec as RunSpec;
+    const ids = Object.values(spec.tables);
+    const rows = ids.length
+      ? await this.write(`loading the data of run ${run.id}`, () => this.db.select(datasetMetaColumns).from(datasets).where(and(eq(datasets.workspaceId, run.workspaceId), inArray(datasets.id, ids))))
+      : [];
+    const byId = new Map(rows.map((d) => [d.id, d]));
+    const missing = Object.entries(spec.tables).filter(([, id]) => !byId.has(id)).map(([name]) => name);
+    if (missing.length) throw new Error(`The data of table ${missing.map((m) => `"${m}"`).join(', ')} was deleted before the fit ran.`);
+    const tables = await loadDataTables(this.db, Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
+    return { kind: 'program', source: spec.source, tables };
+  }
+
+  /** The engine every chain of the run uses: stored by the first chain that decided it. */
+  private async planOf(claim: Claim, target: TargetSpec, settings: FitSettings, signal?: AbortSignal): Promise<FitPlan> {
+    const stored = claim.run.plan as FitPlan | null;
+    if (stored?.sampler) return stored;
+    // The automatic choice is deterministic in the seed, so two chains deciding at once agree.
+    const plan = await planFit(target, settings, { parallel: this.parallel, signal });
+    await this.write(`storing the engine of run ${claim.run.id}`, () => storePlan(this.db, claim.run.id, plan));
+    return plan;
+  }
+
+  /** One chain of a fit: run it, store it, and summarise the fit if it was the last one. */
+  private async processChain(claim: Claim): Promise<void> {
+    const { run, unit } = claim;
+    const chainIndex = unit.unit;
+    const started = performance.now();
+    let stopped: StopReason | null = null;
+    let ended: { mine: boolean; finish: Claim | null } | null = null;
+    try {
+      ended = await this.leased(claim, this.wallSeconds * 1000, async (h) => {
+        try {
+          const settings = fitSettingsSchema.parse(run.settings);
+          const target = await this.targetOf(run);
+          const prepared = (await preparedFor(target)).target;
+          const names: DrawNames = { unknownNames: prepared.names.slice(), derivedNames: prepared.derived?.names.slice() ?? [] };
+          const plan = await this.planOf(claim, target, settings, h.signal);
+          if (h.pastLimit()) throw new FitCancelledError();
+          const chain = await runFitChain(target, settings, chainIndex, plan, {
+            signal: h.signal,
+            parallel: this.parallel,
+            // The engine numbers chains from 0 in progress; the API shows them from 1.
+            onProgress: (p) => h.progress([{ ...p, chain: p.chain + 1 }]),
+          });
+          this.log(`run ${run.id}: chain ${chainIndex + 1} finished`);
+          const enc = await this.encoded(names, chain);
+          return await this.write(`storing chain ${chainIndex + 1} of run ${run.id}`, () => endChainUnit(this.db, claim, this.id, { names, chain: enc }, this.clock.now(), this.leaseMs));
+        } catch (e) {
+          stopped = h.why();
+          throw e;
+        }
+      });
+      if (!ended.mine) this.log(`run ${run.id}: chain ${chainIndex + 1} finished but is no longer ours (cancelled or lease lost); not stored`);
+    } catch (e) {
+      const why = stopped as StopReason | null;
+      try {
+        if (why === 'lost') this.log(`run ${run.id}: chain ${chainIndex + 1} stopped: cancelled or lease lost`);
+        else if (why === 'abandon') this.log(`run ${run.id}: chain ${chainIndex + 1} abandoned; another slot runs it again when its lease expires`);
+        else if (why === 'wall') {
+          this.log(`run ${run.id}: chain ${chainIndex + 1} ran longer than the limit of ${this.wallSeconds} s and was dropped`);
+          ended = await this.write(`dropping chain ${chainIndex + 1} of run ${run.id}`, () => endChainUnit(this.db, claim, this.id, 'dropped', this.clock.now(), this.leaseMs));
+        } else {
+          const message = e instanceof Error ? e.message : String(e);
+          await this.write(`failing run ${run.id}`, () => failUnitRun(this.db, claim, this.id, message, this.clock.now()));
+          this.log(`run ${run.id} failed: ${message}`);
+        }
+      } catch (e2) {
+        this.log(`run ${run.id}: could not record the end of chain ${chainIndex + 1}: ${describe(e2)}`);
+      }
+    }
+    this.log(`run ${run.id}: chain ${chainIndex + 1} took ${((performance.now() - started) / 1000).toFixed(1)} s`);
+    // The slot that ended the last chain summarises the fit at once (its finish unit is claimed).
+    if (ended?.finish && !this.abandoning) await this.finishFit(ended.finish);
+  }
+
+  /**
+   * The fit-finishing step, in one place: the stored chains are summarised (diagnostics and
+   * verdict on a worker thread), and the run is marked done — partial when chains were dropped at
+   * the time limit, failed when none finished. Further post-fit steps (e.g. model checks) belong
+   * here, before the run is marked done.
+   */
+  private async finishFit(claim: Claim): Promise<void> {
+    const { run } = claim;
+    const started = performance.now();
+    let stopped: StopReason | null = null;
+    try {
+      await this.leased(claim, null, async (h) => {
+        try {
+          const settings = fitSettingsSchema.parse(run.settings);
+          const target = await this.targetOf(run);
+          const stored = await this.write(`reading the stored chains of run ${run.id}`, () => storedChains(this.db, run));
+          if (stored.length === 0) {
+            const ok = await this.write(`failing run ${run.id}`, () =>
+              failUnitRun(this.db, claim, this.id, `The fit ran longer than the limit of ${this.wallSeconds} s before any chain finished, and was stopped. Try fewer draws.`, this.clock.now()),
+            );
+            this.log(ok ? `run ${run.id} failed: no chain finished within the time limit` : `run ${run.id}: no longer ours`);
+            return;
+          }
+          const plan = await this.planOf(claim, target, settings, h.signal);
+          // The summary is computed over the chains numbered 0..k-1; the stored rows keep their own numbers.
+          const sorted = stored.sort((a, b) => a.chain - b.chain);
+          const result = await summariseFitChains(target, settings, sorted.map((c, k) => ({ ...c, chain: k })), plan, { onWorker: this.parallel });
+          const partial = sorted.length < settings.chains;
+          const start = run.startedAt?.getTime() ?? this.clock.now().getTime();
+          const ok = await this.write(`finishing run ${run.id}`, () =>
+            finishUnitRun(
+              this.db,
+              claim,
+              this.id,
+              { summary: result.summary, chainsDone: sorted.length, total: settings.warmup + settings.draws },
+              this.clock.now(),
+              { summary: Math.round(performance.now() - started), total: Math.max(0, this.clock.now().getTime() - start) },
+              partial,
+            ),
+          );
+          this.log(
+            !ok
+              ? `run ${run.id} finished but is no longer ours; result discarded`
+              : partial
+                ? `run ${run.id} done: kept ${sorted.length} of ${settings.chains} chains (partial)`
+                : `run ${run.id} done (summary in ${((performance.now() - started) / 1000).toFixed(1)} s)`,
+          );
+        } catch (e) {
+          stopped = h.why();
+          throw e;
+        }
+      });
+    } catch (e) {
+      const why = stopped as StopReason | null;
+      if (why === 'lost' || why === 'abandon') {
+        this.log(`run ${run.id}: summary stopped (${why === 'lost' ? 'cancelled or lease lost' : 'worker stopping'})`);
+        return;
+      }
+      const message = e instanceof Error ? e.message : String(e);
+      try {
+        await this.write(`failing run ${run.id}`, () => failUnitRun(this.db, claim, this.id, message, this.clock.now()));
+      } catch (e2) {
+        this.log(`run ${run.id}: could not record its failure: ${describe(e2)}`);
+      }
+      this.log(`run ${run.id} failed: ${message}`);
+    }
+  }
+
+  /** A run that is one unit of work (a job kind of jobs.ts): run its function, store its summary. */
+  private async processJob(claim: Claim): Promise<void> {
+    const { run } = claim;
+    const kind = String((run.spec as { kind?: unknown } | null)?.kind);
+    const job = wholeRunJobs[kind];
+    let stopped: StopReason | null = null;
+    const started = performance.now();
+    try {
+      if (!job) throw new Error(`This worker cannot run jobs of kind "${kind}".`);
+      await this.leased(claim, this.wallSeconds * 1000, async (h) => {
+        try {
+          const out = await job({ db: this.db, run, signal: h.signal, progress: h.progress, log: this.log });
+          const start = run.startedAt?.getTime() ?? this.clock.now().getTime();
+          const ok = await this.write(`finishing run ${run.id}`, () =>
+            finishUnitRun(this.db, claim, this.id, { summary: out.summary, chainsDone: 0, total: 0 }, this.clock.now(), { job: Math.round(performance.now() - started), total: Math.max(0, this.clock.now().getTime() - start) }, out.partial ?? false),
+          );
+          this.log(ok ? `run ${run.id} done` : `run ${run.id} finished but is no longer ours; result discarded`);
+        } catch (e) {
+          stopped = h.why();
+          throw e;
+        }
+      });
+    } catch (e) {
+      const why = stopped as StopReason | null;
+      if (why === 'lost' || why === 'abandon') {
+        this.log(`run ${run.id}: job stopped (${why === 'lost' ? 'cancelled or lease lost' : 'worker stopping'})`);
+        return;
+      }
+      const message = why === 'wall' ? `The job ran longer than the limit of ${this.wallSeconds} s and was stopped.` : e instanceof Error ? e.message : String(e);
+      try {
+        await this.write(`failing run ${run.id}`, () => failUnitRun(this.db, claim, this.id, message, this.clock.now()));
+      } catch (e2) {
+        this.log(`run ${run.id}: could not record its failure: ${describe(e2)}`);
+      }
+      this.log(`run ${run.id} failed: ${message}`);
+    }
+  }
+
+  /** A chain encoded on the compute pool (as the engine gave it if the pool fails: it is encoded while stored then). */
   private async encoded(names: DrawNames, ch: ChainResult): Promise<ChainResult | EncodedChain> {
     try {
       const enc = await computePool().run('encodeChain', { names, chain: ch }, { timeoutMs: 120_000 });
@@ -299,66 +436,5 @@ export class RunWorker {
       this.log(`encoding chain ${ch.chain + 1} on the compute pool failed (${describe(e)}); encoding it here`);
       return ch;
     }
-  }
-
-  /** Store one finished chain, retrying through outages; a fenced-out write stops the fit. */
-  private async storeOne(run: RunRow, names: DrawNames, ch: ChainResult | EncodedChain, storedOk: Set<number>, stopFit: (r: StopReason) => void): Promise<void> {
-    try {
-      const mine = await this.write(`storing chain ${ch.chain + 1} of run ${run.id}`, () => storeChain(this.db, run, this.id, names, ch, this.clock.now()));
-      if (mine) storedOk.add(ch.chain);
-      else stopFit('lost');
-    } catch (e) {
-      // Not a connection problem (or the worker is abandoning): finishRun stores what is missing.
-      this.log(`run ${run.id}: storing chain ${ch.chain + 1} failed: ${describe(e)}`);
-    }
-  }
-
-  /** The fit ended early: the time limit (keep finished chains), a lost lease, a shutdown or an error. */
-  private async afterStop(
-    run: RunRow,
-    e: unknown,
-    why: StopReason | null,
-    s: { settings: FitSettings | null; target: TargetSpec | null; names: DrawNames | null; finished: Map<number, ChainResult>; started: number },
-  ): Promise<void> {
-    try {
-      if (why === 'lost') {
-        this.log(`run ${run.id} stopped: cancelled or lease lost`);
-      } else if (why === 'abandon') {
-        this.log(`run ${run.id} abandoned; another worker resumes it from its stored chains`);
-      } else if (why === 'wall') {
-        if (s.settings && s.target && s.finished.size > 0) await this.finishPartial(run, s.settings, s.target, [...s.finished.values()], s.started);
-        else
-          await this.write(`failing run ${run.id}`, () =>
-            failRun(this.db, run.id, this.id, `The fit ran longer than the limit of ${this.wallSeconds} s before any chain finished, and was stopped. Try fewer draws.`, this.clock.now()),
-          );
-      } else {
-        const message = e instanceof Error ? e.message : String(e);
-        await this.write(`failing run ${run.id}`, () => failRun(this.db, run.id, this.id, message, this.clock.now()));
-        this.log(`run ${run.id} failed: ${message}`);
-      }
-    } catch (e2) {
-      this.log(`run ${run.id}: could not record its end: ${describe(e2)}`);
-    }
-  }
-
-  /**
-   * At the time limit: summarise the chains that finished (the engine runs none, all are given
-   * to it as resumed chains numbered 0..k-1) and mark the run done and partial, keeping their draws
-   * under their own chain numbers.
-   */
-  private async finishPartial(run: RunRow, settings: FitSettings, target: TargetSpec, chains: ChainResult[], started: number): Promise<void> {
-    const sorted = chains.sort((a, b) => a.chain - b.chain);
-    const reindexed = sorted.map((c, k) => ({ ...c, chain: k }));
-    const sub = await runFit(target, { ...settings, chains: sorted.length }, { parallel: this.parallel, summaryOnWorker: true, resume: reindexed });
-    // The summary's settings name the chains it covers; the run keeps the settings it was queued with.
-    const result = { ...sub, chains: sorted };
-    const ok = await this.write(`finishing run ${run.id} (partial)`, () =>
-      finishRun(this.db, run, this.id, result, this.clock.now(), { fit: Math.round(performance.now() - started), total: Math.round(performance.now() - started) }, { partial: true }),
-    );
-    this.log(
-      ok
-        ? `run ${run.id} reached the limit of ${this.wallSeconds} s: kept ${sorted.length} of ${settings.chains} chains (partial)`
-        : `run ${run.id} reached the time limit but its lease was lost`,
-    );
   }
 }

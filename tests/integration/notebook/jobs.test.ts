@@ -1,15 +1,17 @@
 /**
- * Runs as jobs: claim with SKIP LOCKED, lease and heartbeat, expiry and requeue, cancel, give up
- * after too many lost leases, chains stored as they finish and resumed after a lost lease, and one
- * fit end to end on a tiny model through a real worker.
+ * Runs as jobs: a run's chains are units claimed with SKIP LOCKED, each with its own lease and
+ * heartbeat; expiry and requeue of one chain, cancel, give up after too many lost leases, chains
+ * stored as they finish and a lost chain run again alone, and one fit end to end on a tiny model
+ * through a real worker.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { asc, eq } from 'drizzle-orm';
 import Papa from 'papaparse';
-import { runChains, runs, runSummaries } from '../../../server/db/schema';
+import { runChains, runs, runSummaries, runUnits } from '../../../server/db/schema';
 import { ManualClock } from '../../../server/lib/clock';
 import { newId } from '../../../server/lib/ids';
-import { claimRun, heartbeat, failRun, storeChain, storedChains, writeProgress } from '../../../server/runs/queue';
+import { storedChains } from '../../../server/runs/queue';
+import { claimUnit, endChainUnit, failUnitRun, heartbeatUnit, writeUnitProgress } from '../../../server/runs/units';
 import { RunWorker } from '../../../server/runs/worker';
 import { RUN_LIMITS } from '../../../shared/api/notebook';
 import { notebookWorld, postFile, type NotebookWorld } from './setup';
@@ -21,90 +23,96 @@ beforeAll(async () => {
 afterAll(() => w.server.close());
 
 const settings = { chains: 2, warmup: 200, draws: 300, seed: 11, sampler: 'auto' as const };
+const oneChain = { ...settings, chains: 1 };
 
-async function queueRaw(createdAt: Date): Promise<string> {
+async function queueRaw(createdAt: Date, s: typeof settings = settings): Promise<string> {
   const id = newId();
   await w.server.db.db.insert(runs).values({
-    id, workspaceId: w.ws, notebookId: w.nb, cellId: null, status: 'queued', settings, seed: settings.seed,
+    id, workspaceId: w.ws, notebookId: w.nb, cellId: null, status: 'queued', settings: s, seed: s.seed,
     modelHash: '0'.repeat(64), spec: { source: 'unknown a', tables: {} }, progress: [], attempts: 0, createdAt,
   });
   return id;
 }
 const rowOf = async (id: string) => (await w.server.db.db.select().from(runs).where(eq(runs.id, id)))[0];
+const unitsOfRun = (id: string) => w.server.db.db.select().from(runUnits).where(eq(runUnits.runId, id)).orderBy(asc(runUnits.unit));
+/** Runs units until the queue has nothing claimable. */
+async function drain(worker: RunWorker): Promise<number> {
+  let n = 0;
+  while (await worker.runOnce()) n++;
+  return n;
+}
 
 describe('queue', () => {
-  it('concurrent claims take different runs (SKIP LOCKED), oldest first', async () => {
+  it('concurrent claims take different chains of a run (SKIP LOCKED), each with its own lease', async () => {
     const t0 = new Date('2026-12-01T10:00:00Z');
     const a = await queueRaw(new Date(t0.getTime() - 2000));
-    const b = await queueRaw(new Date(t0.getTime() - 1000));
-    const [x, y] = await Promise.all([claimRun(w.server.db.db, 'w1', t0, 30_000), claimRun(w.server.db.db, 'w2', t0, 30_000)]);
-    expect(new Set([x?.id, y?.id])).toEqual(new Set([a, b]));
-    expect(await claimRun(w.server.db.db, 'w3', t0, 30_000)).toBeNull();
+    const [x, y] = await Promise.all([claimUnit(w.server.db.db, 'w1', t0, 30_000), claimUnit(w.server.db.db, 'w2', t0, 30_000)]);
+    expect([x?.run.id, y?.run.id]).toEqual([a, a]);
+    expect(new Set([x?.unit.unit, y?.unit.unit])).toEqual(new Set([0, 1]));
+    expect(await claimUnit(w.server.db.db, 'w3', t0, 30_000)).toBeNull();
     const ra = await rowOf(a);
     expect(ra.status).toBe('running');
-    expect(ra.attempts).toBe(1);
-    expect(ra.leaseExpiresAt!.getTime()).toBe(t0.getTime() + 30_000);
-    // Tidy up: both fail so later tests see an empty queue.
-    await failRun(w.server.db.db, a, ra.leaseOwner!, 'test', t0);
-    const rb = await rowOf(b);
-    await failRun(w.server.db.db, b, rb.leaseOwner!, 'test', t0);
+    const units = await unitsOfRun(a);
+    expect(units.map((u) => [u.kind, u.status, u.attempts])).toEqual([['chain', 'running', 1], ['chain', 'running', 1]]);
+    expect(units.every((u) => u.leaseExpiresAt!.getTime() === t0.getTime() + 30_000)).toBe(true);
+    expect(await failUnitRun(w.server.db.db, x!, 'w1', 'test', t0)).toBe(true);
+    // The other chain's holder is fenced out once the run failed.
+    expect(await heartbeatUnit(w.server.db.db, y!, 'w2', t0, 30_000)).toBe(false);
   });
 
-  it('a heartbeat extends the lease; an expired lease returns the run to another worker, fencing the first', async () => {
+  it('a heartbeat extends a chain\'s lease; an expired lease returns that chain to another worker, fencing the first', async () => {
     const db = w.server.db.db;
     const t0 = new Date('2026-12-01T11:00:00Z');
-    const id = await queueRaw(t0);
-    const claimed = await claimRun(db, 'first', t0, 10_000);
-    expect(claimed?.id).toBe(id);
-    expect(await heartbeat(db, id, 'first', new Date(t0.getTime() + 5_000), 10_000)).toBe(true);
-    expect((await rowOf(id)).leaseExpiresAt!.getTime()).toBe(t0.getTime() + 15_000);
-    // Before expiry nobody else can take it.
-    expect(await claimRun(db, 'second', new Date(t0.getTime() + 14_000), 10_000)).toBeNull();
-    // After expiry the second worker takes it over.
+    const id = await queueRaw(t0, oneChain);
+    const claimed = await claimUnit(db, 'first', t0, 10_000);
+    expect(claimed?.run.id).toBe(id);
+    expect(await heartbeatUnit(db, claimed!, 'first', new Date(t0.getTime() + 5_000), 10_000)).toBe(true);
+    expect((await unitsOfRun(id))[0].leaseExpiresAt!.getTime()).toBe(t0.getTime() + 15_000);
+    expect(await claimUnit(db, 'second', new Date(t0.getTime() + 14_000), 10_000)).toBeNull();
     const later = new Date(t0.getTime() + 16_000);
-    const taken = await claimRun(db, 'second', later, 10_000);
-    expect(taken?.id).toBe(id);
-    expect(taken?.attempts).toBe(2);
-    // The first worker is fenced out of every write.
-    expect(await heartbeat(db, id, 'first', later, 10_000)).toBe(false);
-    expect(await writeProgress(db, id, 'first', [])).toBe(false);
-    expect(await failRun(db, id, 'first', 'late', later)).toBe(false);
-    expect((await rowOf(id)).leaseOwner).toBe('second');
-    await failRun(db, id, 'second', 'test', later);
+    const taken = await claimUnit(db, 'second', later, 10_000);
+    expect(taken?.unit.id).toBe(claimed!.unit.id);
+    expect(taken?.unit.attempts).toBe(2);
+    expect(await heartbeatUnit(db, claimed!, 'first', later, 10_000)).toBe(false);
+    expect(await writeUnitProgress(db, claimed!, 'first', [])).toBe(false);
+    expect(await failUnitRun(db, claimed!, 'first', 'late', later)).toBe(false);
+    expect((await unitsOfRun(id))[0].leaseOwner).toBe('second');
+    await failUnitRun(db, taken!, 'second', 'test', later);
   });
 
-  it(`gives a run up after ${RUN_LIMITS.maxAttempts} lost leases`, async () => {
+  it(`gives a run up after a chain lost its lease ${RUN_LIMITS.maxAttempts} times`, async () => {
     const db = w.server.db.db;
     let t = new Date('2026-12-01T12:00:00Z').getTime();
-    const id = await queueRaw(new Date(t));
+    const id = await queueRaw(new Date(t), oneChain);
     for (let k = 0; k < RUN_LIMITS.maxAttempts; k++) {
-      const c = await claimRun(db, `w${k}`, new Date(t), 1_000);
-      expect(c?.id).toBe(id);
+      const c = await claimUnit(db, `w${k}`, new Date(t), 1_000);
+      expect(c?.run.id).toBe(id);
       t += 2_000; // the worker vanished
     }
-    expect(await claimRun(db, 'last', new Date(t), 1_000)).toBeNull();
+    expect(await claimUnit(db, 'last', new Date(t), 1_000)).toBeNull();
     const row = await rowOf(id);
     expect(row.status).toBe('failed');
-    expect(row.error).toMatch(/stopped answering 3 times/);
+    expect(row.error).toMatch(/chain 1 stopped answering 3 times/);
   });
 
-  it('cancelling a queued run takes it off the queue; cancelling a running one fences its worker', async () => {
+  it('cancelling a queued run takes its chains off the queue; cancelling a running one fences its workers', async () => {
     const db = w.server.db.db;
     const t0 = new Date('2026-12-01T13:00:00Z');
     const q = await queueRaw(t0);
     const res = await w.editor.post(`/api/workspaces/${w.ws}/runs/${q}/cancel`, {});
     expect(res.status).toBe(200);
     expect(res.body.run.status).toBe('cancelled');
-    expect(await claimRun(db, 'w', t0, 10_000)).toBeNull();
+    expect(await claimUnit(db, 'w', t0, 10_000)).toBeNull();
     const r = await queueRaw(t0);
-    await claimRun(db, 'busy', t0, 10_000);
+    const busy = await claimUnit(db, 'busy', t0, 10_000);
     expect((await w.editor.post(`/api/workspaces/${w.ws}/runs/${r}/cancel`, {})).body.run.status).toBe('cancelled');
-    expect(await heartbeat(db, r, 'busy', t0, 10_000)).toBe(false);
+    expect(await heartbeatUnit(db, busy!, 'busy', t0, 10_000)).toBe(false);
+    expect(await claimUnit(db, 'w', t0, 10_000)).toBeNull();
     expect((await w.editor.post(`/api/workspaces/${w.ws}/runs/${r}/cancel`, {})).status).toBe(409);
   });
 });
 
-describe('chains stored as they finish; a lost lease resumes from them', () => {
+describe('chains stored as they finish; a lost chain runs again alone', () => {
   // An invented scenario: sediment depth (cm) settling in a river bend, a normal belief bounded to
   // the 0–5 cm a core sampler can hold. The model is tiny; what is checked is the bookkeeping.
   const spec = { source: 'unknown depth\nterm ld_normal(depth, 2, 1)\nconstrain depth >= 0\nconstrain depth <= 5\n', tables: {} };
@@ -121,59 +129,45 @@ describe('chains stored as they finish; a lost lease resumes from them', () => {
   }
   const chainsOf = (id: string) => w.server.db.db.select().from(runChains).where(eq(runChains.runId, id)).orderBy(asc(runChains.chainIndex));
   const summaryOf = async (id: string) => (await w.server.db.db.select().from(runSummaries).where(eq(runSummaries.runId, id)))[0].summary as {
-    quantities: unknown; diagnostics: unknown; verdict: unknown;
+    quantities: unknown; diagnostics: unknown; verdict: unknown; sampler: unknown;
   };
-  const finishedNumbers = (logs: string[]) => logs.map((m) => /chain (\d+) finished/.exec(m)?.[1]).filter((x) => x !== undefined).map(Number).sort();
+  const finishedNumbers = (logs: string[]) => logs.map((m) => /chain (\d+) finished$/.exec(m)?.[1]).filter((x) => x !== undefined).map(Number);
 
-  it('a second worker runs only the missing chains; the draws equal an uninterrupted fit; a fenced-out write is refused', async () => {
+  it('another worker runs only the lost chain; the draws equal an uninterrupted fit; a fenced-out write is refused', async () => {
     const db = w.server.db.db;
-    // Reference: the same fit, uninterrupted.
+    // Reference: the same fit, every chain on one worker.
     const ref = await queueFit();
     const whole = new RunWorker({ db, clock, parallel: false, progressMs: 0, heartbeatMs: 60_000, log: () => {} });
-    expect(await whole.runOnce()).toBe(true);
+    // Three chains, then the summary by the slot that stored the last chain (no separate claim).
+    expect(await drain(whole)).toBe(3);
     expect((await rowOf(ref)).status).toBe('done');
     const refChains = await chainsOf(ref);
     expect(refChains.map((c) => c.chainIndex)).toEqual([0, 1, 2]);
 
-    // The first worker stops as its first chain finishes (in-process chains run one after another,
-    // and the log line comes synchronously as the chain ends), keeping its lease until it expires.
     const id = await queueFit();
-    const logsA: string[] = [];
-    const first: RunWorker = new RunWorker({
-      db, clock, workerId: 'first', leaseMs: 60_000, parallel: false, progressMs: 0, heartbeatMs: 60_000,
-      log: (m) => {
-        logsA.push(m);
-        if (/chain 1 finished/.test(m)) void first.stop(true);
-      },
-    });
-    expect(await first.runOnce()).toBe(true);
-    const kept = await chainsOf(id);
-    expect(kept.map((c) => c.chainIndex)).toEqual([0]);
-    expect(finishedNumbers(logsA)).toEqual([1]);
-    const stalled = await rowOf(id);
-    expect(stalled.status).toBe('running');
-    expect(stalled.leaseOwner).toBe('first');
-    // Before the lease expires nobody else takes the run.
-    expect(await claimRun(db, 'early', clock.now(), 60_000)).toBeNull();
-
-    // The lease expires; a second worker claims the run and resumes.
-    clock.advance(120_000);
+    // A worker claims chain 1 and vanishes (its lease runs on until it expires).
+    const ghost = await claimUnit(db, 'ghost', clock.now(), 60_000);
+    expect([ghost?.run.id, ghost?.unit.unit]).toEqual([id, 0]);
     const logsB: string[] = [];
     const second = new RunWorker({ db, clock, workerId: 'second', parallel: false, progressMs: 0, heartbeatMs: 60_000, log: (m) => logsB.push(m) });
-    expect(await second.runOnce()).toBe(true);
+    // The other chains run at once; the lost one waits for its lease.
+    expect(await drain(second)).toBe(2);
+    expect(finishedNumbers(logsB)).toEqual([2, 3]);
+    expect((await rowOf(id)).status).toBe('running');
+    expect((await chainsOf(id)).map((c) => c.chainIndex)).toEqual([1, 2]);
+    const kept = await chainsOf(id);
+    clock.advance(120_000);
+    expect(await drain(second)).toBe(1);
+    expect(finishedNumbers(logsB)).toEqual([2, 3, 1]);
+    expect(logsB.some((m) => m.includes(`claimed chain 1 of run ${id} (attempt 2)`))).toBe(true);
     const done = await rowOf(id);
     expect(done.status).toBe('done');
-    expect(done.attempts).toBe(2);
-    expect(logsB).toContain(`run ${id}: resuming with ${kept.length} stored chain(s)`);
-    // Only the missing chains ran (and were stored) on the second worker…
-    expect(finishedNumbers(logsB)).toEqual([2, 3]);
-    // …the first worker's rows were kept as they were, with no duplicates…
     const all = await chainsOf(id);
     expect(all.map((c) => c.chainIndex)).toEqual([0, 1, 2]);
+    // The rows stored before the lost chain ran again were kept as they were.
     for (const k of kept) expect(all.find((c) => c.chainIndex === k.chainIndex)?.id).toBe(k.id);
-    // …and every chain's draws equal the uninterrupted fit's, byte for byte (same seed and chain
-    // index give the same draws: the engine's reproducibility contract), as does the summary,
-    // whose acceptance and E-FMI come from the per-draw statistics stored with each chain.
+    // Every chain's draws equal the uninterrupted fit's, byte for byte (same seed and chain index
+    // give the same draws: the engine's reproducibility contract), as does the summary.
     for (let k = 0; k < 3; k++) {
       expect(all[k].draws.equals(refChains[k].draws)).toBe(true);
       expect(all[k].stats).toEqual(refChains[k].stats);
@@ -182,41 +176,40 @@ describe('chains stored as they finish; a lost lease resumes from them', () => {
     expect(sRes.quantities).toEqual(sRef.quantities);
     expect(sRes.diagnostics).toEqual(sRef.diagnostics);
     expect(sRes.verdict).toEqual(sRef.verdict);
+    expect(sRes.sampler).toEqual(sRef.sampler);
     expect((done.progress as { phase: string }[]).map((p) => p.phase)).toEqual(['done', 'done', 'done']);
-    // The export reads the stored chains: identical CSV for both runs.
     const [csvRef, csvRes] = await Promise.all([ref, id].map((r) => w.viewer.get(`/api/workspaces/${w.ws}/runs/${r}/draws.csv`)));
     expect(csvRes.status).toBe(200);
     expect(Papa.parse<string[]>(csvRes.text.trim()).data.length - 1).toBe(resumeSettings.chains * resumeSettings.draws);
     expect(csvRes.text).toBe(csvRef.text);
 
-    // The fenced-out first worker's late chain write is refused and changes nothing.
+    // The fenced-out ghost's late chain write is refused and changes nothing.
     const late = (await storedChains(db, { id, workspaceId: w.ws }))[0];
     late.draws.fill(0);
     const names = { unknownNames: ['depth'], derivedNames: [] };
-    expect(await storeChain(db, { id, workspaceId: w.ws }, 'first', names, late, clock.now())).toBe(false);
+    expect((await endChainUnit(db, ghost!, 'ghost', { names, chain: late }, clock.now(), 60_000)).mine).toBe(false);
     const after = await chainsOf(id);
     expect(after.map((c) => c.id)).toEqual(all.map((c) => c.id));
     expect(after[0].draws.equals(refChains[0].draws)).toBe(true);
   });
 
-  it('a cancelled or failed run drops the chains it stored, and its worker can store no more', async () => {
+  it('a cancelled or failed run drops the chains it stored, and its workers can store no more', async () => {
     const db = w.server.db.db;
     for (const end of ['cancel', 'fail'] as const) {
       const id = await queueFit();
-      const worker: RunWorker = new RunWorker({
-        db, clock, workerId: `w-${end}`, parallel: false, progressMs: 0, heartbeatMs: 60_000,
-        log: (m) => {
-          if (/chain 1 finished/.test(m)) void worker.stop(true);
-        },
-      });
+      const worker = new RunWorker({ db, clock, workerId: `w-${end}`, parallel: false, progressMs: 0, heartbeatMs: 60_000, log: () => {} });
       expect(await worker.runOnce()).toBe(true);
       const kept = await storedChains(db, { id, workspaceId: w.ws });
       expect(kept.map((c) => c.chain)).toEqual([0]);
+      const holder = await claimUnit(db, `h-${end}`, clock.now(), 60_000);
+      expect(holder?.unit.unit).toBe(1);
       if (end === 'cancel') expect((await w.editor.post(`/api/workspaces/${w.ws}/runs/${id}/cancel`, {})).body.run.status).toBe('cancelled');
-      else expect(await failRun(db, id, `w-${end}`, 'test', clock.now())).toBe(true);
+      else expect(await failUnitRun(db, holder!, `h-${end}`, 'test', clock.now())).toBe(true);
       expect(await chainsOf(id)).toHaveLength(0);
-      expect(await storeChain(db, { id, workspaceId: w.ws }, `w-${end}`, { unknownNames: ['depth'], derivedNames: [] }, kept[0], clock.now())).toBe(false);
+      const names = { unknownNames: ['depth'], derivedNames: [] };
+      expect((await endChainUnit(db, holder!, `h-${end}`, { names, chain: { ...kept[0], chain: 1 } }, clock.now(), 60_000)).mine).toBe(false);
       expect(await chainsOf(id)).toHaveLength(0);
+      expect(await worker.runOnce()).toBe(false);
       expect((await w.viewer.get(`/api/workspaces/${w.ws}/runs/${id}/draws`)).status).toBe(404);
     }
   });
@@ -245,7 +238,8 @@ describe('a fit end to end', () => {
     expect((await w.reviewer.post(`${w.base}/cells/${fit.id}/runs`, {})).status).toBe(403);
 
     const worker = new RunWorker({ db: w.server.db.db, parallel: false, progressMs: 0, heartbeatMs: 1000, log: () => {} });
-    expect(await worker.runOnce()).toBe(true);
+    // One unit per chain; the slot that stores the last chain summarises the fit.
+    expect(await drain(worker)).toBe(settings.chains);
 
     const got = await w.viewer.get(`/api/workspaces/${w.ws}/runs/${runId}`);
     expect(got.status).toBe(200);

@@ -4,10 +4,11 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { asc, eq, inArray } from 'drizzle-orm';
-import { runChains, runs, runSummaries } from '../../../server/db/schema';
+import { runChains, runs, runSummaries, runUnits } from '../../../server/db/schema';
 import { ManualClock } from '../../../server/lib/clock';
 import { newId } from '../../../server/lib/ids';
-import { claimOrder, claimRun, failRun, heartbeat } from '../../../server/runs/queue';
+import { claimOrder } from '../../../server/runs/queue';
+import { claimUnit, failUnitRun, heartbeatUnit, unitsFor } from '../../../server/runs/units';
 import { decodeDraws } from '../../../server/runs/draws-codec';
 import { RunWorker } from '../../../server/runs/worker';
 import { RUN_HEARTBEAT } from '../../../shared/api/notebook';
@@ -30,10 +31,13 @@ const spec = { source: 'unknown depth\nterm ld_normal(depth, 2, 1)\nconstrain de
 
 async function queue(ws: string, nb: string, createdAt: Date): Promise<string> {
   const id = newId();
-  await w.server.db.db.insert(runs).values({
-    id, workspaceId: ws, notebookId: nb, cellId: null, status: 'queued', settings, seed: settings.seed,
+  const row = {
+    id, workspaceId: ws, notebookId: nb, cellId: null, status: 'queued' as const, settings, seed: settings.seed,
     modelHash: '2'.repeat(64), spec, progress: [], attempts: 0, createdAt,
-  });
+  };
+  await w.server.db.db.insert(runs).values(row);
+  // One unit per chain, as queueRun makes them.
+  await w.server.db.db.insert(runUnits).values(unitsFor(row));
   return id;
 }
 const getRun = async (ws: string, id: string) => (await w.owner.get(`/api/workspaces/${ws}/runs/${id}`)).body.run;
@@ -55,12 +59,13 @@ describe('queue order and position', () => {
     expect([(await getRun(w.ws, a1)).queuePosition, (await getRun(other.ws, b1)).queuePosition, (await getRun(w.ws, a2)).queuePosition]).toEqual([1, 2, 3]);
     expect((await getRun(w.ws, a1)).worker).toBeNull();
 
-    // A running run of workspace A counts as its turn: B's run comes before A's next.
-    const claimed = await claimRun(db, 'w-a', w.server.clock.now(), 60_000);
-    expect(claimed?.id).toBe(a1);
-    expect((await claimOrder(db, w.server.clock.now(), null)).map((r) => r.id)).toEqual([b1, a2]);
+    // A running chain of workspace A counts as its turn, and A was served last: B's chains come
+    // before A's next one.
+    const claimed = await claimUnit(db, 'w-a', w.server.clock.now(), 60_000);
+    expect([claimed?.run.id, claimed?.unit.unit]).toEqual([a1, 0]);
+    expect((await claimOrder(db, w.server.clock.now(), null)).map((r) => r.id)).toEqual([b1, a1, a2]);
     expect((await getRun(other.ws, b1)).queuePosition).toBe(1);
-    expect((await getRun(w.ws, a2)).queuePosition).toBe(2);
+    expect((await getRun(w.ws, a2)).queuePosition).toBe(3);
     const running = await getRun(w.ws, a1);
     expect(running.queuePosition).toBeNull();
     expect(running.worker).toBe('active');
@@ -69,7 +74,7 @@ describe('queue order and position', () => {
 });
 
 describe('fit slots', () => {
-  it('a worker with two slots fits two runs at once, taking workspaces in turn', async () => {
+  it('a worker with two slots runs chains of two workspaces at once, a workspace\'s runs oldest first', async () => {
     const db = w.server.db.db;
     await clearQueue();
     const t0 = w.server.clock.now().getTime() - 10_000;
@@ -87,14 +92,15 @@ describe('fit slots', () => {
       await new Promise((r) => setTimeout(r, 100));
     }
     await worker.stop();
-    const claims = logs.map((m) => /slot (\d): claimed run (\w+)/.exec(m)).filter((m) => m !== null);
-    // The first two claims are one run of each workspace, on different slots; A's second run comes last.
-    expect(new Set(claims.slice(0, 2).map((m) => m[2]))).toEqual(new Set([a1, b1]));
+    const claims = logs.map((m) => /slot (\d): claimed chain (\d) of run (\w+)/.exec(m)).filter((m) => m !== null);
+    expect(claims).toHaveLength(9);
+    // The first two claims are one chain of each workspace, on different slots.
+    expect(new Set(claims.slice(0, 2).map((m) => m[3]))).toEqual(new Set([a1, b1]));
     expect(new Set(claims.slice(0, 2).map((m) => m[1]))).toEqual(new Set(['1', '2']));
-    expect(claims[2][2]).toBe(a2);
-    // The two first runs overlapped: the second claim came before the first run was done.
-    const firstDone = logs.findIndex((m) => /run \w+ done in/.test(m));
-    expect(logs.indexOf(claims[1].input)).toBeLessThan(firstDone);
+    // Within workspace A, the older run's chains go first.
+    const lastA1 = claims.map((m) => m[3]).lastIndexOf(a1);
+    const firstA2 = claims.map((m) => m[3]).indexOf(a2);
+    expect(lastA1).toBeLessThan(firstA2);
   });
 });
 
@@ -103,21 +109,21 @@ describe('a lost worker', () => {
     const db = w.server.db.db;
     const now = w.server.clock.now();
     const id = await queue(w.ws, w.nb, now);
-    await claimRun(db, 'silent', now, 60_000);
+    const silent = await claimUnit(db, 'silent', now, 60_000);
     const fresh = await getRun(w.ws, id);
     expect(fresh.worker).toBe('active');
     expect(fresh.lastHeartbeatAt).toBe(now.toISOString());
     // No beat for longer than the stale time (the lease itself still runs).
     w.server.clock.advance(RUN_HEARTBEAT.staleMs + 1_000);
     expect((await getRun(w.ws, id)).worker).toBe('lost');
-    expect(await heartbeat(db, id, 'silent', w.server.clock.now(), 60_000)).toBe(true);
+    expect(await heartbeatUnit(db, silent!, 'silent', w.server.clock.now(), 60_000)).toBe(true);
     expect((await getRun(w.ws, id)).worker).toBe('active');
     // The lease runs out.
     w.server.clock.advance(61_000);
     const lost = await getRun(w.ws, id);
     expect(lost.status).toBe('running');
     expect(lost.worker).toBe('lost');
-    await failRun(db, id, 'silent', 'test', w.server.clock.now());
+    expect(await failUnitRun(db, silent!, 'silent', 'test', w.server.clock.now())).toBe(true);
     expect((await getRun(w.ws, id)).worker).toBeNull();
   });
 });
@@ -128,19 +134,16 @@ describe('the time limit', () => {
     await clearQueue();
     const clock = new ManualClock(new Date('2026-12-02T09:00:00Z'));
     const id = await queue(w.ws, w.nb, clock.now());
-    // A first worker stores chain 1 and vanishes (as in jobs.test.ts).
-    const first: RunWorker = new RunWorker({
-      db, clock, workerId: 'first', leaseMs: 60_000, parallel: false, progressMs: 0, heartbeatMs: 60_000,
-      log: (m) => {
-        if (/chain 1 finished/.test(m)) void first.stop(true);
-      },
-    });
+    // A first worker runs chain 1.
+    const first = new RunWorker({ db, clock, workerId: 'first', parallel: false, progressMs: 0, heartbeatMs: 60_000, log: () => {} });
     expect(await first.runOnce()).toBe(true);
-    clock.advance(120_000);
-    // The next worker's time limit passes before another chain can finish.
+    // The next worker's time limit passes before its chains can finish: both are dropped, and the
+    // slot that dropped the last one summarises the fit over the chain that finished.
     const logs: string[] = [];
-    const second = new RunWorker({ db, clock, workerId: 'second', parallel: false, progressMs: 0, heartbeatMs: 60_000, wallSeconds: 0.001, log: (m) => logs.push(m) });
+    const second = new RunWorker({ db, clock, workerId: 'second', parallel: false, progressMs: 0, heartbeatMs: 60_000, wallSeconds: 0, log: (m) => logs.push(m) });
     expect(await second.runOnce()).toBe(true);
+    expect(await second.runOnce()).toBe(true);
+    expect(await second.runOnce()).toBe(false);
     const [row] = await db.select().from(runs).where(eq(runs.id, id));
     expect(row.status).toBe('done');
     expect(row.partial).toBe(true);
