@@ -16,7 +16,15 @@ process.on('uncaughtException', (e) => console.error(`[slackline] worker: uncaug
 
 const handle = createDb(process.env.DATABASE_URL ?? DEFAULT_DATABASE_URL, 4);
 const slots = fitSlotsFromEnv();
-const worker = new RunWorker({ db: handle.db, slots });
+/** Optional whole milliseconds from the environment (lease and beat lengths, for operators and tests). */
+function msFromEnv(name: string): number | undefined {
+  const raw = process.env[name]?.trim();
+  if (!raw) return undefined;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 1) throw new Error(`${name} must be a whole number of milliseconds (got "${raw}")`);
+  return n;
+}
+const worker = new RunWorker({ db: handle.db, slots, leaseMs: msFromEnv('RUN_LEASE_MS'), heartbeatMs: msFromEnv('RUN_HEARTBEAT_MS'), pollMs: msFromEnv('RUN_POLL_MS') });
 worker.start();
 console.log(`[slackline] run worker ${worker.id} polling the queue with ${slots} fit slot(s)`);
 
