@@ -1,5 +1,6 @@
 /** Application configuration, read from the environment by index.ts and built directly by tests. */
 import { randomBytes } from 'node:crypto';
+import { RUN_LIMITS } from '../shared/api/notebook';
 
 export interface AppConfig {
   /** true in production: hides development routes (mail capture) and error details. */
@@ -42,6 +43,8 @@ export interface AppConfig {
   checkResponses: boolean;
   /** Log unexpected errors to stderr. */
   logErrors: boolean;
+  /** Longest one chain of a fit may run (RUN_CHAIN_SECONDS); fits estimated to need longer are refused. */
+  runChainSeconds: number;
 }
 
 export const defaultConfig = (overrides: Partial<AppConfig> = {}): AppConfig => ({
@@ -57,6 +60,7 @@ export const defaultConfig = (overrides: Partial<AppConfig> = {}): AppConfig => 
   mailFrom: 'Slackline <no-reply@slackline.invalid>',
   checkResponses: false,
   logErrors: true,
+  runChainSeconds: RUN_LIMITS.wallSeconds,
   ...overrides,
 });
 
@@ -102,5 +106,6 @@ export function configFromEnv(env: NodeJS.ProcessEnv, clientDir: string | null):
     clientDir,
     mailFrom: env.MAIL_FROM ?? 'Slackline <no-reply@slackline.invalid>',
     checkResponses: env.NODE_ENV === 'test' || env.CHECK_RESPONSES === 'true',
+    runChainSeconds: num(env.RUN_CHAIN_SECONDS, RUN_LIMITS.wallSeconds),
   });
 }

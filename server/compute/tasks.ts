@@ -6,7 +6,9 @@
 import { parseCsv, type ParsedTable } from '../../shared/data';
 import { drawsCsvHeader, drawsCsvRows } from '../../shared/export-csv';
 import type { CompileResponse, DatasetColumn, RegionSystem } from '../../shared/api/notebook';
-import type { DataTables } from '../engine/types';
+import type { DataTables, TargetSpec } from '../engine/types';
+import { planFit, runFitChain, type FitPlan } from '../engine/fit';
+import type { FitSettings } from '../../shared/fit';
 import { decodeDraws, decodeFlags, encodeChain, type DrawNames, type EncodedChain } from '../runs/draws-codec';
 import type { ChainResult } from '../engine/types';
 import { checkModel, regionSystem } from '../notebook/model';
@@ -46,7 +48,7 @@ export interface ThinDrawsOutput {
   chains: { chain: number; values: number[][]; divergent: number[] }[];
 }
 
-type Task<I, O> = (input: I) => { output: O; transfer?: ArrayBuffer[] };
+type Task<I, O> = (input: I) => { output: O; transfer?: ArrayBuffer[] } | Promise<{ output: O; transfer?: ArrayBuffer[] }>;
 
 const asBuffer = (u: Uint8Array) => Buffer.from(u.buffer, u.byteOffset, u.byteLength);
 
@@ -122,7 +124,32 @@ const encode: Task<{ names: DrawNames; chain: ChainResult }, EncodedChain> = ({ 
   return { output: enc, transfer: own ? [enc.draws.buffer as ArrayBuffer] : [] };
 };
 
-export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, encodeChain: encode, projections };
+export interface PilotFitOutput {
+  /** The engine the fit will run (the automatic choice decided here, as every chain would). */
+  plan: FitPlan;
+  /** Seconds per iteration (warm-up and draws together) of a short timed chain with that engine. */
+  secondsPerIteration: number;
+  pilotIterations: number;
+}
+
+/**
+ * A short timed pilot of a fit: its engine (the automatic choice by pilots when asked), then one
+ * chain of that engine lengthened ×4 until it takes at least 100 ms (or 6,400 iterations).
+ */
+const pilotFit: Task<{ source: string; tables: DataTables; settings: FitSettings }, PilotFitOutput> = async ({ source, tables, settings }) => {
+  const spec: TargetSpec = { kind: 'program', source, tables };
+  const plan = await planFit(spec, settings, { parallel: false });
+  let half = 50;
+  for (;;) {
+    const t0 = performance.now();
+    await runFitChain(spec, { ...settings, chains: 1, warmup: half, draws: half }, 0, plan, { parallel: false });
+    const seconds = (performance.now() - t0) / 1000;
+    if (seconds >= 0.1 || half >= 3200) return { output: { plan, secondsPerIteration: seconds / (2 * half), pilotIterations: 2 * half } };
+    half *= 4;
+  }
+};
+
+export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, encodeChain: encode, projections, pilotFit };
 export type TaskName = keyof typeof TASKS;
 export type TaskInput<K extends TaskName> = Parameters<(typeof TASKS)[K]>[0];
-export type TaskOutput<K extends TaskName> = ReturnType<(typeof TASKS)[K]>['output'];
+export type TaskOutput<K extends TaskName> = Awaited<ReturnType<(typeof TASKS)[K]>>['output'];

@@ -8,11 +8,11 @@ interface Request {
   input: unknown;
 }
 
-parentPort!.on('message', (msg: Request) => {
+parentPort!.on('message', async (msg: Request) => {
   try {
-    const task = TASKS[msg.name] as (input: unknown) => { output: unknown; transfer?: ArrayBuffer[] };
+    const task = TASKS[msg.name] as (input: unknown) => { output: unknown; transfer?: ArrayBuffer[] } | Promise<{ output: unknown; transfer?: ArrayBuffer[] }>;
     if (!task) throw new Error(`unknown compute task "${msg.name}"`);
-    const { output, transfer } = task(msg.input);
+    const { output, transfer } = await task(msg.input);
     parentPort!.postMessage({ id: msg.id, ok: true, output }, transfer ?? []);
   } catch (e) {
     const err = e instanceof Error ? { name: e.name, message: e.message } : { name: 'Error', message: String(e) };

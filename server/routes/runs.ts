@@ -26,7 +26,7 @@ export function runsRouter(ctx: AppContext): Router {
   const { db, clock } = ctx;
 
   mount(r, ctx, routes.createRun, async ({ params, body }, req) => {
-    const run = await queueRun(db, clock.now(), { workspaceId: req.workspace!.id, notebookId: params.notebookId, cellId: params.cellId, userId: req.user!.id, ...body });
+    const run = await queueRun(db, clock.now(), { workspaceId: req.workspace!.id, notebookId: params.notebookId, cellId: params.cellId, userId: req.user!.id, chainSeconds: ctx.config.runChainSeconds, ...body });
     return { run };
   });
 

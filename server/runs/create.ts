@@ -18,6 +18,10 @@ import { firstProblem, tablesNamed } from '../notebook/model';
 import { findRun } from './read';
 import { activeRunCount, cancelRun, type RunSpec } from './queue';
 import { unitsFor } from './units';
+import { computePool } from '../compute/pool';
+import type { PilotFitOutput } from '../compute/tasks';
+import type { DataTables } from '../engine/types';
+import type { FitPlan } from '../engine/fit';
 
 export interface QueueRequest {
   workspaceId: string;
@@ -29,6 +33,46 @@ export interface QueueRequest {
   settings?: FitSettings;
   /** The model cell to fit; the one the fit cell names when absent. */
   modelCellId?: string;
+  /** Longest a chain may run (seconds); RUN_LIMITS.wallSeconds when absent. */
+  chainSeconds?: number;
+}
+
+/** Round down to two significant digits (a suggestion, not a promise). */
+function roundDown2(n: number): number {
+  if (n < 100) return Math.floor(n);
+  const p = 10 ** (Math.floor(Math.log10(n)) - 1);
+  return Math.floor(n / p) * p;
+}
+
+const secondsText = (s: number) => (s >= 120 ? `${Math.round(s / 60).toLocaleString('en')} min` : `${s >= 10 ? Math.round(s) : s.toPrecision(2)} s`);
+
+/**
+ * Refuse a fit whose chains cannot finish within the time limit, from a short timed pilot on the
+ * compute pool (the engine the fit will run, one chain lengthened until it is measurable), saying
+ * how many iterations per chain would fit. An estimate that cannot be made (the pilot failed or
+ * timed out) refuses nothing; the limit still holds while the fit runs. Returns the engine plan.
+ */
+async function estimateOrRefuse(source: string, tables: DataTables, settings: FitSettings, limitSeconds: number): Promise<FitPlan | null> {
+  let pilot: PilotFitOutput;
+  try {
+    pilot = await computePool().run('pilotFit', { source, tables, settings });
+  } catch {
+    return null;
+  }
+  const iterations = settings.warmup + settings.draws;
+  const perChain = pilot.secondsPerIteration * iterations;
+  if (perChain <= limitSeconds) return pilot.plan;
+  // Leave a fifth of the limit as a margin for a busier machine than the pilot's.
+  const fits = roundDown2((0.8 * limitSeconds) / pilot.secondsPerIteration);
+  const speed = `about ${(pilot.secondsPerIteration * 1000).toPrecision(2)} ms per iteration in a short pilot with ${pilot.plan.sampler}`;
+  const advice =
+    fits >= FIT_LIMITS.warmup.min + FIT_LIMITS.draws.min
+      ? `At this model's speed at most ~${fits.toLocaleString('en')} iterations per chain (warm-up + draws) would fit.`
+      : 'This model is too slow to fit within the limit even with the fewest iterations allowed.';
+  throw invalid(
+    `This fit would take about ${secondsText(perChain)} per chain (${iterations.toLocaleString('en')} iterations, ${speed}); a chain may run at most ${secondsText(limitSeconds)}. ${advice}`,
+    { settings: advice },
+  );
 }
 
 const invalid = (message: string, fields?: Record<string, string>) => new DomainError('invalid', message, fields);
@@ -55,7 +99,8 @@ export async function queueRun(db: Db, now: Date, q: QueueRequest): Promise<Run>
     throw invalid(`The model binds ${missing.map((t) => `table "${t}"`).join(' and ')}, but no data cell in this notebook holds a table by that name.`);
   }
   const used = named.map((t) => bound.get(t)!);
-  const m = await checkModelOffThread(model.source, await loadDataTables(db, used), false);
+  const tables = await loadDataTables(db, used);
+  const m = await checkModelOffThread(model.source, tables, false);
   const problem = firstProblem(m.response);
   if (problem) throw invalid(`The model has a problem at ${problem}`);
   const dim = m.dim;
@@ -67,6 +112,7 @@ export async function queueRun(db: Db, now: Date, q: QueueRequest): Promise<Run>
       `This fit would keep ${stored.toLocaleString('en')} numbers (chains × draws × quantities); the limit is ${RUN_LIMITS.storedNumbers.toLocaleString('en')}. Use fewer draws or chains.`,
     );
   }
+  const plan = await estimateOrRefuse(model.source, tables, settings, q.chainSeconds ?? RUN_LIMITS.wallSeconds);
   const spec: RunSpec = { source: model.source, tables: Object.fromEntries(used.map((d) => [d.name, d.id])) };
   const modelHash = createHash('sha256')
     .update(JSON.stringify({ source: spec.source, tables: Object.entries(spec.tables).sort() }))
@@ -81,7 +127,7 @@ export async function queueRun(db: Db, now: Date, q: QueueRequest): Promise<Run>
     }
     const row = {
       id, workspaceId: q.workspaceId, notebookId: q.notebookId, cellId: cell.id, status: 'queued' as const, settings, seed: settings.seed,
-      modelHash, spec, progress: [], attempts: 0, requestedBy: q.userId, createdAt: now,
+      modelHash, spec, progress: [], attempts: 0, requestedBy: q.userId, createdAt: now, ...(plan ? { plan } : {}),
     };
     await tx.insert(runs).values(row);
     // One claimable unit per chain (units.ts): slots anywhere take them one by one.
