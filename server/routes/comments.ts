@@ -14,7 +14,7 @@ import { findNotebook } from './notebooks';
 
 type Row = typeof comments.$inferSelect & { authorName: string | null };
 
-const toComment = (c: Row): Comment => ({
+export const toComment = (c: Row): Comment => ({
   id: c.id,
   cellId: c.cellId,
   author: c.authorId && c.authorName !== null ? { id: c.authorId, name: c.authorName } : null,
@@ -25,7 +25,7 @@ const toComment = (c: Row): Comment => ({
   updatedAt: c.updatedAt.toISOString(),
 });
 
-async function loadComments(exec: Exec, workspaceId: string, notebookId: string, commentId?: string): Promise<Row[]> {
+export async function loadComments(exec: Exec, workspaceId: string, notebookId: string, commentId?: string): Promise<Row[]> {
   const where = commentId
     ? and(eq(comments.workspaceId, workspaceId), eq(comments.notebookId, notebookId), eq(comments.id, commentId))
     : and(eq(comments.workspaceId, workspaceId), eq(comments.notebookId, notebookId));

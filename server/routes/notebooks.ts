@@ -4,6 +4,7 @@ import { and, asc, desc, eq } from 'drizzle-orm';
 import { routes } from '../../shared/api/routes';
 import type { Notebook } from '../../shared/api/notebooks';
 import { toCell } from '../notebook/cells';
+import { notebookPage } from '../notebook/page';
 import type { AppContext } from '../context';
 import type { Exec } from '../lib/audit';
 import { cells, notebooks } from '../db/schema';
@@ -76,6 +77,11 @@ export function notebooksRouter(ctx: AppContext): Router {
       role: ws.role,
       workspaceName: ws.name,
     };
+  });
+
+  mount(r, ctx, routes.getNotebookPage, async ({ params }, req) => {
+    const ws = req.workspace!;
+    return notebookPage(db, { id: ws.id, role: ws.role, name: ws.name }, params.notebookId, clock.now());
   });
 
   mount(r, ctx, routes.renameNotebook, async ({ params, body }, req) => {

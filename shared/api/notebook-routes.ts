@@ -9,6 +9,7 @@
 import { z } from 'zod';
 import type { RouteDef } from './routes';
 import * as nb from './notebook';
+import { notebookPageResponse } from './notebook-page';
 
 const ws = z.strictObject({ workspaceId: nb.nbIdSchema });
 const nbParams = z.strictObject({ workspaceId: nb.nbIdSchema, notebookId: nb.nbIdSchema });
@@ -23,6 +24,13 @@ const shareDataset = z.strictObject({ token: shareToken, datasetId: nb.nbIdSchem
 const nbBase = '/api/workspaces/:workspaceId/notebooks/:notebookId';
 
 export const notebookRoutes = {
+  // ---- the screen's first paint ----
+  getNotebookPage: {
+    method: 'GET', path: `${nbBase}/page`, access: 'viewer', status: 200,
+    purpose: 'The notebook screen in one answer: cells, table summaries, model checks, each fit cell\'s runs with their summaries, and comments',
+    params: nbParams, response: notebookPageResponse,
+  },
+
   // ---- cells ----
   createCell: {
     method: 'POST', path: `${nbBase}/cells`, access: 'editor', status: 201,
