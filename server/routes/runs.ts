@@ -13,6 +13,8 @@ import { notFound } from '../http/errors';
 import { findCell } from '../notebook/cells';
 import { cellRuns, findRun, runDraws, runDrawsCsv } from '../runs/read';
 import { cancelQueuedOrRunning, queueRun } from '../runs/create';
+import { RunEventHub } from '../runs/events';
+import { findNotebook } from './notebooks';
 
 const DEFAULT_PLOT_DRAWS = 1000;
 
@@ -65,6 +67,18 @@ export function runsRouter(ctx: AppContext): Router {
     if (!run.summary) throw notFound('This run has no summary yet');
     sendCsv(res, `summary-${run.id}.csv`);
     res.status(200).send(summaryCsv((run.summary as FitSummary).quantities));
+  });
+
+  // ---- events (server-sent) ----
+  const hub = new RunEventHub({ db, clock });
+  mount(r, ctx, routes.notebookEvents, async ({ params, query }, req, res) => {
+    const ws = req.workspace!;
+    await findNotebook(db, ws.id, params.notebookId);
+    await hub.subscribe(res, ws.id, params.notebookId, { doneOnly: false, once: query.once === '1' });
+  });
+  mount(r, ctx, routes.sharedNotebookEvents, async ({ query }, req, res) => {
+    const share = req.share!;
+    await hub.subscribe(res, share.workspaceId, share.notebookId, { doneOnly: true, once: query.once === '1' });
   });
 
   // ---- share-link readers ----

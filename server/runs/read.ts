@@ -76,7 +76,7 @@ export function toRun(r: RunRow, summary: FitSummary | null, requestedByName: st
   };
 }
 
-async function withSummaries(exec: Exec, rows: { r: RunRow; name: string | null }[], now: Date): Promise<Run[]> {
+export async function withSummaries(exec: Exec, rows: { r: RunRow; name: string | null }[], now: Date): Promise<Run[]> {
   const ids = rows.filter((x) => x.r.status === 'done').map((x) => x.r.id);
   const sums = ids.length ? await exec.select().from(runSummaries).where(inArray(runSummaries.runId, ids)) : [];
   const byId = new Map(sums.map((s) => [s.runId, s.summary as FitSummary]));

@@ -19,3 +19,14 @@ export const notebookPageResponse = z.object({
   comments: z.array(commentSchema),
 });
 export type NotebookPageResponse = z.infer<typeof notebookPageResponse>;
+
+/**
+ * Server-sent events of a notebook's runs (`…/events`, text/event-stream): an `event: runs` whose
+ * data is `{ runs }` — every run of the notebook that is queued or running, or whose status,
+ * progress, queue place or summary changed since the last event — as often as they change (about
+ * once a second at most). Share-link readers get only finished runs. `?once=1` answers the current
+ * state as one event and closes (for clients that cannot hold a stream, and for checks).
+ */
+export const runEventsData = z.object({ runs: z.array(runSchema) });
+export type RunEventsData = z.infer<typeof runEventsData>;
+export const runEventsQuery = z.strictObject({ once: z.enum(['1']).optional() });

@@ -9,7 +9,7 @@
 import { z } from 'zod';
 import type { RouteDef } from './routes';
 import * as nb from './notebook';
-import { notebookPageResponse } from './notebook-page';
+import { notebookPageResponse, runEventsQuery } from './notebook-page';
 
 const ws = z.strictObject({ workspaceId: nb.nbIdSchema });
 const nbParams = z.strictObject({ workspaceId: nb.nbIdSchema, notebookId: nb.nbIdSchema });
@@ -29,6 +29,12 @@ export const notebookRoutes = {
     method: 'GET', path: `${nbBase}/page`, access: 'viewer', status: 200,
     purpose: 'The notebook screen in one answer: cells, table summaries, model checks, each fit cell\'s runs with their summaries, and comments',
     params: nbParams, response: notebookPageResponse,
+  },
+
+  notebookEvents: {
+    method: 'GET', path: `${nbBase}/events`, access: 'viewer', status: 200,
+    purpose: 'Server-sent events of the notebook\'s runs: status, queue place, per-chain progress, summaries (text/event-stream)',
+    params: nbParams, query: runEventsQuery,
   },
 
   // ---- cells ----
@@ -153,6 +159,11 @@ export const notebookRoutes = {
     method: 'GET', path: '/api/share/:token/cells/:cellId/check', access: 'share-token', status: 200,
     purpose: 'The side panel of a model cell of the shared notebook: its stored program checked against the notebook\'s tables',
     params: shareCell, response: nb.compileResponse,
+  },
+  sharedNotebookEvents: {
+    method: 'GET', path: '/api/share/:token/events', access: 'share-token', status: 200,
+    purpose: 'Server-sent events of the shared notebook\'s finished runs (text/event-stream)',
+    params: z.strictObject({ token: shareToken }), query: runEventsQuery,
   },
   sharedCellRuns: {
     method: 'GET', path: '/api/share/:token/cells/:cellId/runs', access: 'share-token', status: 200,

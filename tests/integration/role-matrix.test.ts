@@ -64,6 +64,7 @@ const EXPECTED: Record<RouteName, Row> = {
   createNotebook: EDITOR_UP(201),
   getNotebook: VIEWER_UP(200),
   getNotebookPage: VIEWER_UP(200),
+  notebookEvents: VIEWER_UP(200),
   renameNotebook: EDITOR_UP(200),
   deleteNotebook: EDITOR_UP(204),
   listShareLinks: EDITOR_UP(200),
@@ -96,6 +97,7 @@ const EXPECTED: Record<RouteName, Row> = {
   importNotebook: EDITOR_UP(201),
   // Share-link reads are bearer capabilities like getSharedNotebook: the token is in the path.
   sharedModelCheck: ALL_200,
+  sharedNotebookEvents: ALL_200,
   sharedCellRuns: ALL_200,
   sharedRunDraws: ALL_200,
   sharedDataset: ALL_200,
@@ -117,7 +119,7 @@ interface World {
   nbw: NotebookMatrixWorld;
 }
 
-type Req = { params?: Record<string, string>; body?: unknown; form?: () => FormData };
+type Req = { params?: Record<string, string>; query?: string; body?: unknown; form?: () => FormData };
 const REQUESTS: Record<RouteName, (w: World) => Req> = {
   health: () => ({}),
   signUp: () => ({ body: { email: uniqueEmail('matrix'), password: TEST_PASSWORD, name: 'Matrix' } }),
@@ -146,6 +148,8 @@ const REQUESTS: Record<RouteName, (w: World) => Req> = {
   createNotebook: (w) => ({ params: { workspaceId: w.ws }, body: { title: 'Matrix notebook' } }),
   getNotebook: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb } }),
   getNotebookPage: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb } }),
+  // The event stream answers once and closes with ?once=1.
+  notebookEvents: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb }, query: 'once=1' }),
   renameNotebook: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb }, body: { title: 'Renamed notebook' } }),
   deleteNotebook: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb } }),
   listShareLinks: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb } }),
@@ -179,6 +183,7 @@ const REQUESTS: Record<RouteName, (w: World) => Req> = {
     form: () => csvForm(JSON.stringify({ slackline: 1, notebook: { title: 'Imported' }, cells: [{ key: 'c1', kind: 'notes', source: 'hi' }], datasets: [] }), {}, 'nb.json'),
   }),
   sharedModelCheck: (w) => ({ params: { token: w.shareToken, cellId: w.nbw.modelCell } }),
+  sharedNotebookEvents: (w) => ({ params: { token: w.shareToken }, query: 'once=1' }),
   sharedCellRuns: (w) => ({ params: { token: w.shareToken, cellId: w.nbw.fitCell } }),
   sharedRunDraws: (w) => ({ params: { token: w.shareToken, runId: w.nbw.doneRun } }),
   sharedDataset: (w) => ({ params: { token: w.shareToken, datasetId: w.nbw.dataset } }),
@@ -284,7 +289,7 @@ describe('role matrix', () => {
         const c = await clientFor(caller, w);
         const res = req.form
           ? await c.raw(routePath(name, req.params), { method: def.method, body: req.form() })
-          : await c.request(def.method, routePath(name, req.params), req.body);
+          : await c.request(def.method, routePath(name, req.params) + (req.query ? `?${req.query}` : ''), req.body);
         actual[caller] = res.status;
         if (res.status >= 400) expect(apiErrorSchema.safeParse(res.body).success, `${caller}: ${res.text}`).toBe(true);
         else if (res.status !== 204 && 'response' in def) expect(def.response.safeParse(res.body).success).toBe(true);
