@@ -12,16 +12,23 @@ import { CellFrame } from './cell-frame';
 import { ConflictDialog } from './conflict-dialog';
 import { CommentsPanel } from './comments-panel';
 import { fitModelCell, QuantityLabelsContext, quantityLabels } from '../quantity-labels';
-import { CompareCellView, DataCellView, FitCellView, ModelCellView, NotesCellView, type CellViewProps } from './cell-views';
+import type { CellViewProps } from './cell-view-props';
+import { NotesCellView } from '../notes/notes-cell-view';
+import { DataCellView } from '../data/data-cell-view';
+import { ModelCellView } from '../model/model-cell-view';
+import { FitCellView } from '../fit/fit-cell';
+import { CompareCellView } from '../compare/compare-cell-view';
 import { useCellDraft, type SaveState } from '../use-cell-draft';
-import {
-  datasetQuery,
-  saveCell,
-  useCellMutations,
-  useCommentMutations,
-  useComments,
-  type NotebookAccess,
-} from '../api/notebook-api';
+import type { NotebookAccess } from '../api/access';
+import { datasetQuery } from '../api/get-dataset';
+import { saveCell } from '../api/save-cell';
+import { useCreateCell } from '../api/create-cell';
+import { useDeleteCell } from '../api/delete-cell';
+import { useMoveCell } from '../api/move-cell';
+import { useCollapseCell } from '../api/collapse-cell';
+import { useComments } from '../api/get-comments';
+import { useCreateComment } from '../api/create-comment';
+import { useResolveComment } from '../api/resolve-comment';
 import { nbKeys } from '../api/keys';
 import { preloadCharts } from './plot-frame';
 import '../notebook.css';
@@ -55,10 +62,15 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
   const [actionError, setActionError] = useState<string | null>(null);
   const member = access.mode === 'member';
   const wsId = member ? access.workspaceId : '';
-  const mut = useCellMutations(wsId, access.notebookId);
+  const mut = {
+    add: useCreateCell(wsId, access.notebookId),
+    remove: useDeleteCell(wsId, access.notebookId),
+    move: useMoveCell(wsId, access.notebookId),
+    collapse: useCollapseCell(wsId, access.notebookId),
+  };
   // Every member reads the comments; reviewers and above write them.
   const comments = useComments(wsId, access.notebookId, member);
-  const commentMut = useCommentMutations(wsId, access.notebookId);
+  const commentMut = { create: useCreateComment(wsId, access.notebookId), resolve: useResolveComment(wsId, access.notebookId) };
 
   // Tables bound by the data cells, for the model editor's completion and checks.
   const dataIds = cells

@@ -1,5 +1,7 @@
 import { lazy, Suspense, Component, type ReactNode } from 'react';
-import type { Spec } from '@/lib/plot/specs';
+
+/** A Vega-Lite specification, as the views build them. */
+export type Spec = Record<string, unknown>;
 
 /**
  * Charts render through react-vega's VegaEmbed, loaded with a dynamic import() so vega stays out

@@ -4,11 +4,11 @@ import { cleanup, fireEvent, render, screen, within } from '@testing-library/rea
 import { useState } from 'react';
 import { CellColumn, isRunKey, moveKey } from '../../../../src/features/notebook/components/cell-column';
 import { CellFrame } from '../../../../src/features/notebook/components/cell-frame';
-import { DataPreview, sortRows } from '../../../../src/features/notebook/components/data-preview';
-import { FitSettingsForm, parseFitDraft } from '../../../../src/features/notebook/components/fit-settings-form';
-import { VerdictBanner } from '../../../../src/features/notebook/components/verdict-banner';
-import { QuantityRows } from '../../../../src/features/notebook/components/quantity-rows';
-import { ChainProgress, runStateMessage } from '../../../../src/features/notebook/components/chain-progress';
+import { DataPreview, sortRows } from '../../../../src/features/notebook/data/data-preview';
+import { FitSettingsForm, parseFitDraft } from '../../../../src/features/notebook/fit/fit-settings-form';
+import { VerdictBanner } from '../../../../src/features/notebook/fit/verdict-banner';
+import { QuantityRows } from '../../../../src/features/notebook/fit/quantity-rows';
+import { ChainProgress, runStateMessage } from '../../../../src/features/notebook/fit/chain-progress';
 import { ConflictDialog } from '../../../../src/features/notebook/components/conflict-dialog';
 import { CommentsPanel, threadComments } from '../../../../src/features/notebook/components/comments-panel';
 import type { Comment, Dataset } from '../../../../shared/api/notebook';
@@ -331,9 +331,9 @@ describe('comments', () => {
   });
 });
 
-import { ModelSidePanel } from '../../../../src/features/notebook/components/model-side-panel';
-import { CompareCell } from '../../../../src/features/notebook/components/compare-cell';
-import { DataUpload, tableNameFromFile } from '../../../../src/features/notebook/components/data-upload';
+import { ModelSidePanel } from '../../../../src/features/notebook/model/model-side-panel';
+import { CompareCell } from '../../../../src/features/notebook/compare/compare-cell';
+import { DataUpload, tableNameFromFile } from '../../../../src/features/notebook/data/data-upload';
 
 describe('model side panel', () => {
   it('lists unknowns with shapes, constraint counts and the region status', () => {

@@ -5,7 +5,7 @@
  */
 import { cleanup, render, screen } from '@testing-library/react';
 import { afterEach, describe, expect, it } from 'vitest';
-import { QuantityRows } from '@/features/notebook/components/quantity-rows';
+import { QuantityRows } from '@/features/notebook/fit/quantity-rows';
 import { fitModelCell, QuantityLabelsContext, quantityLabels } from '@/features/notebook/quantity-labels';
 import type { NbCell } from '@shared/api/notebook';
 import type { QuantitySummary } from '@shared/fit';

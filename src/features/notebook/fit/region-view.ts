@@ -6,7 +6,7 @@
  */
 import type { RegionProjection, RegionSystem, RunDraws } from '@shared/api/notebook';
 import { boxAround, type Box, type Point } from './region';
-import { thinIndices } from './thin';
+import { thinIndices } from '@/lib/plot/thin';
 
 export interface RegionView {
   box: Box;

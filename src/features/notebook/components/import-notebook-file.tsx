@@ -5,7 +5,7 @@ import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
 import { errorMessage } from '@/lib/api-client';
 import { queryKeys } from '@/lib/query-keys';
-import { importNotebookFile } from '@/features/notebook/api/notebook-api';
+import { importNotebookFile } from '../api/import-notebook';
 
 /**
  * On the notebook list: read a Slackline notebook file into a new notebook of this workspace, then

@@ -3,9 +3,8 @@
  * tested without a browser. Rendering happens in components/plot-frame.tsx through react-vega.
  */
 import type { Box, Point, Segment } from './region';
-import { CHAIN_COLOURS, FONT_MONO, FONT_UI, PALETTE } from './palette';
-
-export type Spec = Record<string, unknown>;
+import { CHAIN_COLOURS, FONT_MONO, FONT_UI, PALETTE } from '@/lib/plot/palette';
+import type { Spec } from '../components/plot-frame';
 
 const base = (width: number, height: number): Spec => ({
   $schema: 'https://vega.github.io/schema/vega-lite/v6.json',

@@ -1,7 +1,7 @@
 import { Fragment } from 'react';
 import type { QuantitySummary } from '@shared/fit';
 import { DIAGNOSTIC_THRESHOLDS, essFails, essNeeded, rhatFails } from '@shared/diagnostics';
-import { familyOf } from '@/lib/plot/mixing';
+import { familyOf } from './mixing';
 import { formatEss, formatEstimate, formatRhat } from '@/lib/estimates';
 import { useQuantityLabel } from '../quantity-labels';
 

@@ -2,7 +2,7 @@ import { useMemo } from 'react';
 import type { QuantitySummary } from '@shared/fit';
 import { rhatFails } from '@shared/diagnostics';
 import { CHAIN_COLOURS } from '@/lib/plot/palette';
-import { agreementStrip, chainWindows } from '@/lib/plot/mixing';
+import { agreementStrip, chainWindows } from './mixing';
 import { formatEstimate, formatRhat } from '@/lib/estimates';
 
 const W = 560;

@@ -1,11 +1,11 @@
 import { useMemo, useState } from 'react';
 import type { RunDraws } from '@shared/api/notebook';
 import type { QuantitySummary } from '@shared/fit';
-import { pairSpec } from '@/lib/plot/specs';
+import { pairSpec } from './pair-spec';
 import { thinIndices } from '@/lib/plot/thin';
-import { orderedChains } from '@/lib/plot/mixing';
-import { buildRegionView, buildTriangleView, shareTriples } from '@/lib/plot/region-view';
-import { PlotFrame } from './plot-frame';
+import { orderedChains } from './mixing';
+import { buildRegionView, buildTriangleView, shareTriples } from './region-view';
+import { PlotFrame } from '../components/plot-frame';
 import { RegionFigure, TriangleFigure } from './region-figure';
 import { MixingView } from './mixing-view';
 import { LadderView } from './ladder-view';

@@ -1,5 +1,5 @@
-import type { Box, Point } from '@/lib/plot/region';
-import { TRIANGLE } from '@/lib/plot/region-view';
+import type { Box, Point } from './region';
+import { TRIANGLE } from './region-view';
 import { formatEstimate } from '@/lib/estimates';
 
 /**
