@@ -15,8 +15,8 @@ export function CompareCell({ models, selected, readOnly, onChange }: CompareCel
   return (
     <div className="flex flex-col gap-3 text-sm" data-testid="compare-cell">
       <fieldset>
-        <legend className="sl-cell-sub" style={{ marginBottom: '0.3rem' }}>Models to compare</legend>
-        {models.length === 0 && <p className="sl-cell-sub">This notebook has no model cells yet.</p>}
+        <legend className="truncate text-[0.8rem] text-ink-soft" style={{ marginBottom: '0.3rem' }}>Models to compare</legend>
+        {models.length === 0 && <p className="truncate text-[0.8rem] text-ink-soft">This notebook has no model cells yet.</p>}
         <div className="flex flex-wrap gap-3">
           {models.map((m) => (
             <label key={m.id} className="flex items-center gap-1.5">
@@ -26,7 +26,7 @@ export function CompareCell({ models, selected, readOnly, onChange }: CompareCel
           ))}
         </div>
       </fieldset>
-      <div className="sl-banner" role="status">
+      <div className="rounded-[3px] border border-rule-strong bg-sheet px-[0.9rem] py-[0.55rem] text-[0.85rem]" role="status">
         <strong>Evidence not available yet.</strong> Slackline will estimate each model’s evidence (log Z, by annealing
         from the constraint region’s volume to the posterior) and the Bayes factors between them. This build does not
         compute evidence, so no numbers are shown here.

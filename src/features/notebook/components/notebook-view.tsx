@@ -31,7 +31,7 @@ import { useCreateComment } from '../api/create-comment';
 import { useResolveComment } from '../api/resolve-comment';
 import { nbKeys } from '../api/keys';
 import { preloadCharts } from './plot-frame';
-import '../notebook.css';
+import { buttonClass } from '@/components/ui/button';
 
 export interface NotebookViewProps {
   access: NotebookAccess;
@@ -148,15 +148,15 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
   }, [commentList]);
 
   return (
-    <div className="sl-notebook flex flex-col gap-3">
+    <div className="text-ink flex flex-col gap-3">
       {member && <NotebookToolbar access={access} />}
       {!canEdit && member && (
-        <div className="sl-banner" role="status" data-testid="read-only-banner">
+        <div className="rounded-[3px] border border-rule-strong bg-sheet px-[0.9rem] py-[0.55rem] text-[0.85rem]" role="status" data-testid="read-only-banner">
           <strong>Read-only.</strong> Your role in this workspace lets you read{canComment ? ' and comment on' : ''} this notebook, not change it.
         </div>
       )}
       {actionError && (
-        <p className="sl-field-error" role="alert">
+        <p className="mt-[0.2rem] text-[0.75rem] font-semibold text-ink" role="alert">
           {actionError}
         </p>
       )}
@@ -204,7 +204,7 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
           />
         )}
       />
-      <p className="sl-hint" style={{ textAlign: 'center', marginTop: '1rem' }}>
+      <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft" style={{ textAlign: 'center', marginTop: '1rem' }}>
         Keyboard: {NOTEBOOK_KEYS.run.replace('Mod', 'Ctrl/⌘')} runs the current cell · {NOTEBOOK_KEYS.previous} and {NOTEBOOK_KEYS.next} move between cells
       </p>
     </div>
@@ -309,34 +309,34 @@ function CellItem(p: CellItemProps) {
         tools={
           <>
             {cell.kind === 'notes' && p.canEdit && (
-              <button type="button" className="sl-btn" onClick={() => p.setEditingNotes(!p.editingNotes)}>
+              <button type="button" className={buttonClass('quiet', 'xs')} onClick={() => p.setEditingNotes(!p.editingNotes)}>
                 {p.editingNotes ? 'done' : 'edit'}
               </button>
             )}
             {p.toggleComments && (
-              <button type="button" className="sl-btn" aria-pressed={p.commentsOpen} onClick={p.toggleComments} aria-label={`Comments on this ${label.toLowerCase()} cell`}>
+              <button type="button" className={buttonClass('quiet', 'xs')} aria-pressed={p.commentsOpen} onClick={p.toggleComments} aria-label={`Comments on this ${label.toLowerCase()} cell`}>
                 comments
               </button>
             )}
             {p.canEdit && (
               <>
-                <button type="button" className="sl-btn" disabled={p.index === 0} onClick={() => p.onMove('up')} aria-label={`Move ${label.toLowerCase()} cell up`}>
+                <button type="button" className={buttonClass('quiet', 'xs')} disabled={p.index === 0} onClick={() => p.onMove('up')} aria-label={`Move ${label.toLowerCase()} cell up`}>
                   ↑
                 </button>
-                <button type="button" className="sl-btn" disabled={p.index === p.count - 1} onClick={() => p.onMove('down')} aria-label={`Move ${label.toLowerCase()} cell down`}>
+                <button type="button" className={buttonClass('quiet', 'xs')} disabled={p.index === p.count - 1} onClick={() => p.onMove('down')} aria-label={`Move ${label.toLowerCase()} cell down`}>
                   ↓
                 </button>
                 {confirmDelete ? (
                   <>
-                    <button type="button" className="sl-btn sl-btn-outline" onClick={p.onDelete}>
+                    <button type="button" className={buttonClass('secondary', 'xs')} onClick={p.onDelete}>
                       delete for good
                     </button>
-                    <button type="button" className="sl-btn" onClick={() => setConfirmDelete(false)}>
+                    <button type="button" className={buttonClass('quiet', 'xs')} onClick={() => setConfirmDelete(false)}>
                       keep
                     </button>
                   </>
                 ) : (
-                  <button type="button" className="sl-btn" onClick={() => setConfirmDelete(true)} aria-label={`Delete ${label.toLowerCase()} cell`}>
+                  <button type="button" className={buttonClass('quiet', 'xs')} onClick={() => setConfirmDelete(true)} aria-label={`Delete ${label.toLowerCase()} cell`}>
                     delete
                   </button>
                 )}
@@ -351,9 +351,9 @@ function CellItem(p: CellItemProps) {
         {cell.kind === 'fit' && <FitCellWithLabels viewProps={viewProps} levels={p.levels} />}
         {cell.kind === 'compare' && <CompareCellView {...viewProps} />}
         {draft.state === 'error' && draft.error && (
-          <p className="sl-field-error" role="alert" style={{ marginTop: '0.5rem' }}>
+          <p className="mt-[0.2rem] text-[0.75rem] font-semibold text-ink" role="alert" style={{ marginTop: '0.5rem' }}>
             Not saved: {draft.error}{' '}
-            <button type="button" className="sl-btn sl-btn-outline" onClick={() => void draft.flush()}>
+            <button type="button" className={buttonClass('secondary', 'xs')} onClick={() => void draft.flush()}>
               try again
             </button>
           </p>
@@ -378,7 +378,7 @@ function NotebookToolbar({ access }: { access: Extract<NotebookAccess, { mode: '
   // Importing a notebook file creates a new notebook: it lives on the notebook list.
   return (
     <div className="flex flex-wrap items-center gap-2">
-      <a className="sl-btn sl-btn-outline" href={`/api/workspaces/${encodeURIComponent(access.workspaceId)}/notebooks/${encodeURIComponent(access.notebookId)}/export`} download>
+      <a className={buttonClass('secondary', 'xs')} href={`/api/workspaces/${encodeURIComponent(access.workspaceId)}/notebooks/${encodeURIComponent(access.notebookId)}/export`} download>
         Export notebook file
       </a>
     </div>

@@ -7,6 +7,7 @@ import { uploadDataset } from '../api/upload-dataset';
 import type { CellViewProps } from '../components/cell-view-props';
 import { DataPreview } from './data-preview';
 import { DataUpload } from './data-upload';
+import { buttonClass } from '@/components/ui/button';
 
 export function DataCellView(p: CellViewProps) {
   const content = dataContentSchema.safeParse(p.content);
@@ -36,11 +37,11 @@ export function DataCellView(p: CellViewProps) {
   return (
     <div className="flex flex-col gap-3">
       {datasetId === null ? (
-        p.readOnly ? <p className="sl-cell-sub">No table uploaded yet.</p> : <DataUpload busy={busy} error={error} onUpload={upload} />
+        p.readOnly ? <p className="truncate text-[0.8rem] text-ink-soft">No table uploaded yet.</p> : <DataUpload busy={busy} error={error} onUpload={upload} />
       ) : preview.isPending ? (
-        <p className="sl-cell-sub">Loading the table…</p>
+        <p className="truncate text-[0.8rem] text-ink-soft">Loading the table…</p>
       ) : preview.isError ? (
-        <p className="sl-field-error">Could not load the table: {errorMessage(preview.error)}</p>
+        <p className="mt-[0.2rem] text-[0.75rem] font-semibold text-ink">Could not load the table: {errorMessage(preview.error)}</p>
       ) : (
         <>
           <DataPreview dataset={preview.data.dataset} rows={preview.data.rows} />
@@ -49,7 +50,7 @@ export function DataCellView(p: CellViewProps) {
               <DataUpload busy={busy} error={error} onUpload={upload} />
             ) : (
               <div>
-                <button type="button" className="sl-btn sl-btn-outline" onClick={() => setReplacing(true)}>
+                <button type="button" className={buttonClass('secondary', 'xs')} onClick={() => setReplacing(true)}>
                   Replace the table
                 </button>
               </div>

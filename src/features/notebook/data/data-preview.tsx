@@ -45,30 +45,30 @@ export function DataPreview({ dataset, rows }: DataPreviewProps) {
   return (
     <div className="flex flex-col gap-2" data-testid="data-preview">
       <p className="text-sm">
-        Table <strong className="sl-mono">{dataset.name}</strong> · <span className="sl-num" data-testid="row-count">{dataset.rows}</span> rows ·{' '}
+        Table <strong className="font-mono tabular-nums">{dataset.name}</strong> · <span className="font-mono tabular-nums text-right whitespace-nowrap" data-testid="row-count">{dataset.rows}</span> rows ·{' '}
         {dataset.columns.length} columns ·{' '}
         {missingTotal === 0 ? 'no missing values' : <span data-testid="missing-report">{missingTotal} missing value{missingTotal === 1 ? '' : 's'} ({dataset.columns.filter((c) => c.missing > 0).map((c) => `${c.name}: ${c.missing}`).join(', ')})</span>}
       </p>
       {unusable.length > 0 && (
-        <ul className="sl-data-notes" role="status" data-testid="column-name-warnings">
+        <ul className="m-0 list-none border-l-[3px] border-ink-soft py-1 pl-3 text-sm" role="status" data-testid="column-name-warnings">
           {unusable.map((c) => (
             <li key={c.name}>{columnNameWarning(c.name)}</li>
           ))}
         </ul>
       )}
       <div className="overflow-auto" style={{ maxHeight: '22rem' }}>
-        <table className="sl-table">
+        <table className="w-full border-collapse text-[0.82rem] [&_th]:border-b [&_th]:border-rule-strong [&_th]:px-[0.6rem] [&_th]:py-[0.3rem] [&_th]:text-right [&_th]:font-medium [&_th]:whitespace-nowrap [&_th]:text-ink-soft [&_td]:border-b [&_td]:border-rule [&_td]:px-[0.6rem] [&_td]:py-1 [&_th:first-child]:text-left [&_td:first-child]:text-left [&_tbody_tr:hover_td]:bg-slack/5">
           <thead>
             <tr>
               {dataset.columns.map((c, i) => {
                 const active = sort?.col === i;
                 return (
                   <th key={c.name} scope="col" aria-sort={active ? (sort!.dir === 'asc' ? 'ascending' : 'descending') : 'none'} style={{ textAlign: c.type === 'category' ? 'left' : 'right' }}>
-                    <button type="button" className="sl-sort" onClick={() => toggle(i)} title={`Sort by ${c.name}`}>
-                      <span className="sl-mono" style={{ color: 'var(--sl-ink)' }}>{c.name}</span>
+                    <button type="button" className="cursor-pointer border-0 bg-transparent p-0 [font:inherit] text-inherit" onClick={() => toggle(i)} title={`Sort by ${c.name}`}>
+                      <span className="font-mono tabular-nums" style={{ color: 'var(--color-ink)' }}>{c.name}</span>
                       <span aria-hidden>{active ? (sort!.dir === 'asc' ? ' ↑' : ' ↓') : ''}</span>
                     </button>
-                    <div className="sl-type" title={c.levels ? `levels: ${c.levels.join(', ')}` : undefined}>
+                    <div data-testid="column-type" className="text-[0.65rem] font-medium tracking-[0.08em] text-ink-soft uppercase" title={c.levels ? `levels: ${c.levels.join(', ')}` : undefined}>
                       {TYPE_WORDS[c.type]}
                       {c.type === 'category' && c.levels ? ` · ${c.levels.length}` : ''}
                       {c.missing > 0 ? ` · ${c.missing} missing` : ''}
@@ -84,8 +84,8 @@ export function DataPreview({ dataset, rows }: DataPreviewProps) {
                 {r.map((v, j) => {
                   const col = dataset.columns[j];
                   return (
-                    <td key={j} className={col?.type === 'category' ? 'sl-mono' : 'sl-num'} style={col?.type === 'category' ? { textAlign: 'left' } : undefined}>
-                      {v === null ? <span style={{ color: 'var(--sl-ink-soft)' }}>·</span> : typeof v === 'number' ? (col?.type === 'integer' ? String(v) : formatDataValue(v, 4)) : v}
+                    <td key={j} className={col?.type === 'category' ? 'font-mono tabular-nums' : 'font-mono tabular-nums text-right whitespace-nowrap'} style={col?.type === 'category' ? { textAlign: 'left' } : undefined}>
+                      {v === null ? <span style={{ color: 'var(--color-ink-soft)' }}>·</span> : typeof v === 'number' ? (col?.type === 'integer' ? String(v) : formatDataValue(v, 4)) : v}
                     </td>
                   );
                 })}
@@ -95,7 +95,7 @@ export function DataPreview({ dataset, rows }: DataPreviewProps) {
         </table>
       </div>
       {rows.length < dataset.rows && (
-        <p className="sl-hint">
+        <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">
           Showing the first {rows.length} of {dataset.rows} rows{sort ? ' (sorting applies to the rows shown)' : ''}.
         </p>
       )}

@@ -1,5 +1,8 @@
 import { useId, useRef, useState, type FormEvent } from 'react';
 import { DATASET_MAX_BYTES, tableNameSchema } from '@shared/api/notebook';
+import { buttonClass } from '@/components/ui/button';
+import { compactControlClass } from '@/components/ui/input';
+import { Field } from '@/components/ui/field';
 
 /** Suggest a table name from a file name: "Orchard plots 2026.csv" → "Orchard_plots_2026". */
 export function tableNameFromFile(fileName: string): string {
@@ -37,8 +40,7 @@ export function DataUpload({ busy, error, onUpload }: DataUploadProps) {
   return (
     <form onSubmit={submit} className="flex flex-col gap-2" aria-label="Upload a CSV file">
       <div className="flex flex-wrap items-end gap-3">
-        <div className="sl-field">
-          <label htmlFor={`${uid}-file`}>CSV file (header row first, up to {DATASET_MAX_BYTES / 1048576} MB)</label>
+        <Field htmlFor={`${uid}-file`} label={`CSV file (header row first, up to ${DATASET_MAX_BYTES / 1048576} MB)`}>
           <input
             id={`${uid}-file`}
             data-testid="csv-file"
@@ -52,21 +54,20 @@ export function DataUpload({ busy, error, onUpload }: DataUploadProps) {
               if (f && !name) setName(tableNameFromFile(f.name));
             }}
           />
-        </div>
-        <div className="sl-field">
-          <label htmlFor={`${uid}-name`}>Table name</label>
-          <input id={`${uid}-name`} className="sl-input" style={{ width: '12rem' }} value={name} onChange={(e) => setName(e.target.value)} />
-        </div>
-        <button type="submit" className="sl-btn sl-btn-primary" disabled={busy}>
+        </Field>
+        <Field htmlFor={`${uid}-name`} label="Table name">
+          <input id={`${uid}-name`} className={compactControlClass} style={{ width: '12rem' }} value={name} onChange={(e) => setName(e.target.value)} />
+        </Field>
+        <button type="submit" className={buttonClass('slack', 'xs')} disabled={busy}>
           {busy ? 'Reading…' : 'Upload'}
         </button>
       </div>
       {shown && (
-        <p className="sl-field-error" role="alert" data-testid="upload-error">
+        <p className="mt-[0.2rem] text-[0.75rem] font-semibold text-ink" role="alert" data-testid="upload-error">
           {shown}
         </p>
       )}
-      <p className="sl-hint">Models bind this table with <span className="sl-mono">table {name || 'name'}</span>.</p>
+      <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">Models bind this table with <span className="font-mono tabular-nums">table {name || 'name'}</span>.</p>
     </form>
   );
 }

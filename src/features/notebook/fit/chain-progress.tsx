@@ -41,7 +41,7 @@ export function ChainProgress({
   return (
     <div className="flex flex-col gap-2" data-testid="chain-progress" data-stale={warning ? 'true' : undefined} style={warning ? { opacity: 0.75 } : undefined}>
       {queuedMessage && (
-        <p className={warning ? 'sl-banner' : 'sl-cell-sub'} role="status">
+        <p className={warning ? 'rounded-[3px] border border-rule-strong bg-sheet px-[0.9rem] py-[0.55rem] text-[0.85rem]' : 'truncate text-[0.8rem] text-ink-soft'} role="status">
           {queuedMessage}
         </p>
       )}
@@ -50,18 +50,18 @@ export function ChainProgress({
         const frac = p ? (p.phase === 'done' ? 1 : Math.min(1, p.total > 0 ? p.iteration / p.total : 0)) : 0;
         return (
           <div key={k} className="grid items-center gap-3" style={{ gridTemplateColumns: '4.2rem 1fr 13rem' }}>
-            <span className="sl-cell-sub">chain {k + 1}</span>
+            <span className="truncate text-[0.8rem] text-ink-soft">chain {k + 1}</span>
             <div
-              className="sl-progress-track"
+              className="h-1.5 overflow-hidden rounded-[3px] bg-rule"
               role="progressbar"
               aria-label={`chain ${k + 1}`}
               aria-valuemin={0}
               aria-valuemax={100}
               aria-valuenow={Math.round(frac * 100)}
             >
-              <div className="sl-progress-fill" data-phase={p?.phase ?? 'warmup'} style={{ width: `${frac * 100}%` }} />
+              <div className="h-full bg-slack transition-[width] duration-300 ease-linear data-[phase=warmup]:bg-[repeating-linear-gradient(135deg,var(--color-slack)_0_6px,#2f8f77_6px_12px)] data-[phase=warmup]:opacity-70" data-phase={p?.phase ?? 'warmup'} style={{ width: `${frac * 100}%` }} />
             </div>
-            <span className="sl-num text-xs" style={{ color: 'var(--sl-ink-soft)' }}>
+            <span className="font-mono tabular-nums text-right whitespace-nowrap text-xs" style={{ color: 'var(--color-ink-soft)' }}>
               {p ? `${PHASE_WORDS[p.phase]} · ${p.iteration}/${p.total} · ${Math.round(p.itersPerSecond)} it/s` : 'waiting'}
             </span>
           </div>

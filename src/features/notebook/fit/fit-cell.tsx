@@ -18,6 +18,7 @@ import { FitSettingsForm } from './fit-settings-form';
 import { ChainProgress, runStateMessage } from './chain-progress';
 import { FitResults } from './fit-results';
 import { RunsList } from './runs-list';
+import { compactControlClass } from '@/components/ui/input';
 
 export function FitCellView(p: CellViewProps) {
   const parsed = fitContentSchema.safeParse(p.content);
@@ -60,12 +61,12 @@ export function FitCellView(p: CellViewProps) {
   return (
     <div className="flex flex-col gap-4">
       <div className="flex flex-wrap items-center gap-2 text-sm">
-        <label htmlFor={`fit-model-${p.cell.id}`} className="sl-cell-sub">
+        <label htmlFor={`fit-model-${p.cell.id}`} className="truncate text-[0.8rem] text-ink-soft">
           Fits
         </label>
         <select
           id={`fit-model-${p.cell.id}`}
-          className="sl-input"
+          className={compactControlClass}
           style={{ width: 'auto', fontFamily: 'inherit' }}
           value={modelId ?? ''}
           disabled={p.readOnly}
@@ -88,7 +89,7 @@ export function FitCellView(p: CellViewProps) {
         onCancel={active && mut ? () => mut.cancel.mutate(active.id) : undefined}
       />
       {runError && (
-        <p className="sl-field-error" role="alert">
+        <p className="mt-[0.2rem] text-[0.75rem] font-semibold text-ink" role="alert">
           <MessageText text={runError} />
         </p>
       )}
@@ -101,13 +102,13 @@ export function FitCellView(p: CellViewProps) {
         />
       )}
       {latest && latest.status === 'failed' && (!shown || latest.createdAt > shown.createdAt) && (
-        <p className="sl-banner" role="alert">
+        <p className="rounded-[3px] border border-rule-strong bg-sheet px-[0.9rem] py-[0.55rem] text-[0.85rem]" role="alert">
           <strong>The last fit failed.</strong> <MessageText text={latest.error ?? ''} />
         </p>
       )}
-      {latest && latest.status === 'cancelled' && (!shown || latest.createdAt > shown.createdAt) && <p className="sl-cell-sub">The last fit was cancelled.</p>}
+      {latest && latest.status === 'cancelled' && (!shown || latest.createdAt > shown.createdAt) && <p className="truncate text-[0.8rem] text-ink-soft">The last fit was cancelled.</p>}
       {shown?.partial && (
-        <p className="sl-banner" role="note">
+        <p className="rounded-[3px] border border-rule-strong bg-sheet px-[0.9rem] py-[0.55rem] text-[0.85rem]" role="note">
           <strong>Partial fit.</strong> It reached the time limit with {shown.summary?.settings.chains ?? 'some'} of {shown.settings.chains} chains
           finished; the summary, diagnostics and draws cover those chains.
         </p>

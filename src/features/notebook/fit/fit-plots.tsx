@@ -9,6 +9,7 @@ import { PlotFrame } from '../components/plot-frame';
 import { RegionFigure, TriangleFigure } from './region-figure';
 import { MixingView } from './mixing-view';
 import { LadderView } from './ladder-view';
+import { compactControlClass } from '@/components/ui/input';
 
 export const PLOT_KINDS = ['region', 'mixing', 'ladder', 'pair'] as const;
 export type PlotKind = (typeof PLOT_KINDS)[number];
@@ -78,9 +79,9 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
 
   return (
     <div className="flex flex-col gap-3" data-testid="fit-plots">
-      <div className="sl-tabs" role="tablist" aria-label="Plots">
+      <div className="flex flex-wrap gap-[0.2rem] border-b border-rule" role="tablist" aria-label="Plots">
         {kinds.map((k) => (
-          <button key={k} type="button" role="tab" className="sl-tab" aria-selected={k === kind} onClick={() => setKind(k)}>
+          <button key={k} type="button" role="tab" className="cursor-pointer border-0 border-b-2 border-transparent bg-transparent px-[0.7rem] py-[0.4rem] text-[0.8rem] text-ink-soft aria-selected:border-slack aria-selected:text-ink" aria-selected={k === kind} onClick={() => setKind(k)}>
             {PLOT_WORDS[k]}
           </button>
         ))}
@@ -88,8 +89,8 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
       <div className="flex flex-wrap items-end gap-3 text-sm">
         {kind === 'region' && triples.length > 0 && (
           <label className="flex items-center gap-2">
-            <span className="sl-cell-sub">view</span>
-            <select className="sl-input" style={{ width: 'auto' }} value={regionMode} onChange={(e) => setRegionMode(Number(e.target.value))} aria-label="Region view">
+            <span className="truncate text-[0.8rem] text-ink-soft">view</span>
+            <select className={compactControlClass} style={{ width: 'auto' }} value={regionMode} onChange={(e) => setRegionMode(Number(e.target.value))} aria-label="Region view">
               {triples.map((t, k) => (
                 <option key={k} value={k}>{t.members.map((m) => draws.names[m]).join(' + ')} (triangle)</option>
               ))}
@@ -100,14 +101,14 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
         {(kind === 'pair' || (kind === 'region' && !triangle)) && (
           <>
             <label className="flex items-center gap-2">
-              <span className="sl-cell-sub">across</span>
-              <select className="sl-input" style={{ width: 'auto' }} value={pair[0]} onChange={(e) => setPair([Number(e.target.value), pair[1]])} aria-label="Horizontal quantity">
+              <span className="truncate text-[0.8rem] text-ink-soft">across</span>
+              <select className={compactControlClass} style={{ width: 'auto' }} value={pair[0]} onChange={(e) => setPair([Number(e.target.value), pair[1]])} aria-label="Horizontal quantity">
                 {pairChoices.map((n, k) => <option key={n} value={k}>{n}</option>)}
               </select>
             </label>
             <label className="flex items-center gap-2">
-              <span className="sl-cell-sub">up</span>
-              <select className="sl-input" style={{ width: 'auto' }} value={pair[1]} onChange={(e) => setPair([pair[0], Number(e.target.value)])} aria-label="Vertical quantity">
+              <span className="truncate text-[0.8rem] text-ink-soft">up</span>
+              <select className={compactControlClass} style={{ width: 'auto' }} value={pair[1]} onChange={(e) => setPair([pair[0], Number(e.target.value)])} aria-label="Vertical quantity">
                 {pairChoices.map((n, k) => <option key={n} value={k}>{n}</option>)}
               </select>
             </label>
@@ -115,23 +116,23 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
         )}
         {kind === 'mixing' && (
           <label className="flex items-center gap-2">
-            <span className="sl-cell-sub">quantity</span>
-            <select className="sl-input" style={{ width: 'auto' }} value={q} onChange={(e) => setQ(Number(e.target.value))} aria-label="Quantity">
+            <span className="truncate text-[0.8rem] text-ink-soft">quantity</span>
+            <select className={compactControlClass} style={{ width: 'auto' }} value={q} onChange={(e) => setQ(Number(e.target.value))} aria-label="Quantity">
               {draws.names.map((n, k) => <option key={n} value={k}>{n}</option>)}
             </select>
           </label>
         )}
         {kind === 'ladder' && ladderRungs.length > 1 && (
           <label className="flex items-center gap-2">
-            <span className="sl-cell-sub">order</span>
-            <select className="sl-input" style={{ width: 'auto' }} value={ladder} onChange={(e) => setLadder(Number(e.target.value))} aria-label="Ordering">
+            <span className="truncate text-[0.8rem] text-ink-soft">order</span>
+            <select className={compactControlClass} style={{ width: 'auto' }} value={ladder} onChange={(e) => setLadder(Number(e.target.value))} aria-label="Ordering">
               {ladderRungs.map((r, k) => <option key={k} value={k}>{r.map((x) => x.name).join(' ≤ ')}</option>)}
             </select>
           </label>
         )}
       </div>
       {kind === 'region' && (
-        <p className="sl-hint" style={{ maxWidth: '44rem' }}>
+        <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft" style={{ maxWidth: '44rem' }}>
           {triangle
             ? `Each corner is one share taking the whole ${triangle.total === 1 ? 'total' : `total of ${triangle.total}`}; the tinted shape is every mix the constraints allow, and every draw lies in it.`
             : 'The tinted shape is every pair of values the constraints allow once the other unknowns are free to move (the region seen from these two axes); every draw lies in it.'}
@@ -139,18 +140,18 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
         </p>
       )}
       {figure === null ? (
-        <p className="sl-cell-sub">{kind === 'region' ? 'Choose two different unknowns.' : 'Choose two different quantities.'}</p>
+        <p className="truncate text-[0.8rem] text-ink-soft">{kind === 'region' ? 'Choose two different unknowns.' : 'Choose two different quantities.'}</p>
       ) : kind === 'region' ? (
         <figure aria-label="Feasible region plot" data-testid="plot" style={{ margin: 0 }}>
           {figure.node}
-          {!figure.available && <figcaption className="sl-hint">No outline for this pair: the region is outlined for pairs among the first twelve unknowns.</figcaption>}
+          {!figure.available && <figcaption className="mt-[0.2rem] text-[0.72rem] text-ink-soft">No outline for this pair: the region is outlined for pairs among the first twelve unknowns.</figcaption>}
         </figure>
       ) : (
         figure.node
       )}
-      {draws.thin > 1 && <p className="sl-hint">Drawn from every {draws.thin}th draw; the figures in the rows above use them all.</p>}
+      {draws.thin > 1 && <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">Drawn from every {draws.thin}th draw; the figures in the rows above use them all.</p>}
       {kind === 'pair' && (draws.chains[0]?.values[0]?.length ?? 0) * chains > MAX_CLOUD_POINTS && (
-        <p className="sl-hint">The cloud shows about {MAX_CLOUD_POINTS.toLocaleString('en')} evenly spaced draws and every divergent one (in the warning colour).</p>
+        <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">The cloud shows about {MAX_CLOUD_POINTS.toLocaleString('en')} evenly spaced draws and every divergent one (in the warning colour).</p>
       )}
     </div>
   );

@@ -3,6 +3,7 @@ import { formatEstimate, formatSeconds } from '@/lib/estimates';
 import { VerdictBanner } from './verdict-banner';
 import { QuantityRows } from './quantity-rows';
 import { FitPlots } from './fit-plots';
+import { buttonClass } from '@/components/ui/button';
 
 export interface FitResultsProps {
   run: Run;
@@ -21,9 +22,9 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
     <div className="flex flex-col gap-4" data-testid="fit-results">
       <VerdictBanner verdict={s.verdict} />
       <QuantityRows quantities={s.quantities} chains={s.settings.chains} draws={s.settings.draws} />
-      <p className="sl-hint" data-testid="run-diagnostics">
+      <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft" data-testid="run-diagnostics">
         {s.settings.chains} chains × {s.settings.draws} draws after {s.settings.warmup} warm-up · sampler {d.samplerUsed} ({d.samplerReason}) ·
-        divergences <span className={d.divergences > 0 ? 'sl-fail' : ''}>{d.divergences}</span>
+        divergences <span className={d.divergences > 0 ? 'bg-alarm-soft font-bold text-alarm' : ''}>{d.divergences}</span>
         {d.rejectedSteps !== undefined ? ` · rejected steps ${d.rejectedSteps}` : ''} · acceptance {formatEstimate(d.acceptance, 2)} · step size{' '}
         {formatEstimate(d.stepSize, 2)}
         {d.efmi && d.efmi.length > 0 ? ` · E-FMI ${d.efmi.map((x) => formatEstimate(x, 2)).join(', ')}` : ''}
@@ -31,15 +32,15 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
       </p>
       {exports && (
         <div className="flex flex-wrap gap-2">
-          <a className="sl-btn sl-btn-outline" href={exports.draws} download>
+          <a className={buttonClass('secondary', 'xs')} href={exports.draws} download>
             Draws CSV
           </a>
-          <a className="sl-btn sl-btn-outline" href={exports.summary} download>
+          <a className={buttonClass('secondary', 'xs')} href={exports.summary} download>
             Summary CSV
           </a>
         </div>
       )}
-      {draws ? <FitPlots draws={draws} quantities={s.quantities} /> : drawsError ? <p className="sl-cell-sub">Plots unavailable: {drawsError}</p> : <p className="sl-cell-sub" style={{ minHeight: 300 }}>Loading draws for the plots…</p>}
+      {draws ? <FitPlots draws={draws} quantities={s.quantities} /> : drawsError ? <p className="truncate text-[0.8rem] text-ink-soft">Plots unavailable: {drawsError}</p> : <p className="truncate text-[0.8rem] text-ink-soft" style={{ minHeight: 300 }}>Loading draws for the plots…</p>}
     </div>
   );
 }

@@ -1,5 +1,8 @@
 import { useEffect, useId, useState, type FormEvent } from 'react';
 import { FIT_LIMITS, SAMPLERS, fitSettingsSchema, type FitSettings } from '@shared/fit';
+import { buttonClass } from '@/components/ui/button';
+import { compactControlClass } from '@/components/ui/input';
+import { Field } from '@/components/ui/field';
 
 const DEFAULTS: FitSettings = fitSettingsSchema.parse({});
 
@@ -116,11 +119,21 @@ export function FitSettingsForm({ value, readOnly, running, onChange, onRun, onC
     <form onSubmit={submit} className="flex flex-col gap-3" aria-label="Fit settings" noValidate>
       <div className="grid gap-3" style={{ gridTemplateColumns: 'repeat(auto-fit, minmax(9rem, 1fr))' }}>
         {FIELDS.map((f) => (
-          <div className="sl-field" key={f.key}>
-            <label htmlFor={`${uid}-${f.key}`}>{f.label}</label>
+          <Field
+            key={f.key}
+            htmlFor={`${uid}-${f.key}`}
+            label={f.label}
+            error={errors[f.key]}
+            hintId={`${uid}-${f.key}-hint`}
+            hint={
+              <>
+                {f.limits.min}–{f.limits.max.toLocaleString('en')}, default {DEFAULTS[f.key]} · {f.hint}
+              </>
+            }
+          >
             <input
               id={`${uid}-${f.key}`}
-              className="sl-input"
+              className={compactControlClass}
               inputMode="numeric"
               value={draft[f.key]}
               disabled={disabled}
@@ -128,51 +141,40 @@ export function FitSettingsForm({ value, readOnly, running, onChange, onRun, onC
               aria-describedby={`${uid}-${f.key}-hint`}
               onChange={(e) => update({ [f.key]: e.target.value } as Partial<Draft>)}
             />
-            {errors[f.key] ? (
-              <div className="sl-field-error" role="alert">{errors[f.key]}</div>
-            ) : (
-              <div className="sl-hint" id={`${uid}-${f.key}-hint`}>
-                {f.limits.min}–{f.limits.max.toLocaleString('en')}, default {DEFAULTS[f.key]} · {f.hint}
-              </div>
-            )}
-          </div>
+          </Field>
         ))}
-        <div className="sl-field">
-          <label htmlFor={`${uid}-seed`}>Seed</label>
+        <Field htmlFor={`${uid}-seed`} label="Seed" error={errors.seed} hint="same seed, same draws">
           <input
             id={`${uid}-seed`}
-            className="sl-input"
+            className={compactControlClass}
             inputMode="numeric"
             value={draft.seed}
             disabled={disabled}
             aria-invalid={errors.seed ? true : undefined}
             onChange={(e) => update({ seed: e.target.value })}
           />
-          {errors.seed ? <div className="sl-field-error" role="alert">{errors.seed}</div> : <div className="sl-hint">same seed, same draws</div>}
-        </div>
+        </Field>
       </div>
-      <div className="sl-field">
-        <label htmlFor={`${uid}-sampler`}>Sampler</label>
-        <select id={`${uid}-sampler`} className="sl-input" style={{ fontFamily: 'inherit' }} value={draft.sampler} disabled={disabled} onChange={(e) => update({ sampler: e.target.value as Draft['sampler'] })}>
+      <Field htmlFor={`${uid}-sampler`} label="Sampler" hint={SAMPLER_SENTENCES[draft.sampler]}>
+        <select id={`${uid}-sampler`} className={compactControlClass} style={{ fontFamily: 'inherit' }} value={draft.sampler} disabled={disabled} onChange={(e) => update({ sampler: e.target.value as Draft['sampler'] })}>
           {SAMPLERS.map((s) => (
             <option key={s} value={s}>
               {SAMPLER_WORDS[s]}
             </option>
           ))}
         </select>
-        <div className="sl-hint">{SAMPLER_SENTENCES[draft.sampler]}</div>
-      </div>
+      </Field>
       {!readOnly && (
         <div className="flex items-center gap-2">
-          <button type="submit" className="sl-btn sl-btn-primary" disabled={running || Object.keys(errors).length > 0}>
+          <button type="submit" className={buttonClass('slack', 'xs')} disabled={running || Object.keys(errors).length > 0}>
             Run fit
           </button>
           {running && onCancel && (
-            <button type="button" className="sl-btn sl-btn-outline" onClick={onCancel}>
+            <button type="button" className={buttonClass('secondary', 'xs')} onClick={onCancel}>
               Cancel
             </button>
           )}
-          <span className="sl-hint">Ctrl/⌘-Enter runs the current cell</span>
+          <span className="mt-[0.2rem] text-[0.72rem] text-ink-soft">Ctrl/⌘-Enter runs the current cell</span>
         </div>
       )}
     </form>

@@ -22,28 +22,28 @@ export function LadderView({ rungs }: { rungs: QuantitySummary[] }) {
   const order = rungs.map((q, i) => `${i ? 'L' : 'M'}${x(q.q50).toFixed(1)},${y(i).toFixed(1)}`).join(' ');
   return (
     <figure style={{ margin: 0 }} aria-label="Ordered quantities" data-testid="plot">
-      <svg viewBox={`0 0 ${W} ${H}`} className="sl-mixing-svg" role="img" aria-label={`Ladder of ${rungs.map((q) => q.name).join(' ≤ ')}`} data-testid="ladder-view">
+      <svg viewBox={`0 0 ${W} ${H}`} className="block h-auto w-full max-w-[40rem]" role="img" aria-label={`Ladder of ${rungs.map((q) => q.name).join(' ≤ ')}`} data-testid="ladder-view">
         {rungs.map((q, i) => (
           <g key={q.name} data-testid="ladder-rung">
-            <line x1={PAD.l} x2={W - PAD.r} y1={y(i)} y2={y(i)} stroke="var(--sl-rule)" />
-            <text x={PAD.l - 8} y={y(i) + 4} textAnchor="end" className="sl-svg-label">{q.name}</text>
-            <line x1={x(q.q5)} x2={x(q.q95)} y1={y(i)} y2={y(i)} stroke="var(--sl-ink-soft)" strokeWidth="6" strokeLinecap="round" opacity="0.5" />
+            <line x1={PAD.l} x2={W - PAD.r} y1={y(i)} y2={y(i)} stroke="var(--color-rule)" />
+            <text x={PAD.l - 8} y={y(i) + 4} textAnchor="end" className="fill-ink font-mono text-[11px]">{q.name}</text>
+            <line x1={x(q.q5)} x2={x(q.q95)} y1={y(i)} y2={y(i)} stroke="var(--color-ink-soft)" strokeWidth="6" strokeLinecap="round" opacity="0.5" />
             {i > 0 && (
-              <text x={PAD.l - 8} y={y(i) + ROW / 2 + 4} textAnchor="end" className="sl-svg-num" style={{ fill: 'var(--sl-accent)' }}>
+              <text x={PAD.l - 8} y={y(i) + ROW / 2 + 4} textAnchor="end" className="fill-ink-soft font-mono text-[10px] tabular-nums" style={{ fill: 'var(--color-slack)' }}>
                 ≤
               </text>
             )}
           </g>
         ))}
-        <path d={order} fill="none" stroke="var(--sl-accent)" strokeWidth="1.6" strokeLinejoin="round" data-testid="ladder-order" />
+        <path d={order} fill="none" stroke="var(--color-slack)" strokeWidth="1.6" strokeLinejoin="round" data-testid="ladder-order" />
         {rungs.map((q, i) => (
-          <line key={q.name} x1={x(q.q50)} x2={x(q.q50)} y1={y(i) - 7} y2={y(i) + 7} stroke="var(--sl-ink)" strokeWidth="2.2" />
+          <line key={q.name} x1={x(q.q50)} x2={x(q.q50)} y1={y(i) - 7} y2={y(i) + 7} stroke="var(--color-ink)" strokeWidth="2.2" />
         ))}
         {[lo + pad, (lo + hi) / 2, hi - pad].map((t) => (
-          <text key={t} x={x(t)} y={H - 8} textAnchor="middle" className="sl-svg-num">{formatEstimate(t)}</text>
+          <text key={t} x={x(t)} y={H - 8} textAnchor="middle" className="fill-ink-soft font-mono text-[10px] tabular-nums">{formatEstimate(t)}</text>
         ))}
       </svg>
-      <figcaption className="sl-hint" style={{ maxWidth: '44rem' }}>
+      <figcaption className="mt-[0.2rem] text-[0.72rem] text-ink-soft" style={{ maxWidth: '44rem' }}>
         The constraints put these in order, lowest at the bottom. Bars: 90 % of the posterior; ticks: medians, joined by the order line. Where neighbouring bars
         overlap, the data leave the size of that step open; the order itself always holds.
       </figcaption>

@@ -41,11 +41,11 @@ export function MixingView({ name, chains, thin, summary }: { name: string; chai
   const cellW = (W - PAD.l - PAD.r) / Math.max(1, k);
   return (
     <figure style={{ margin: 0 }} aria-label={`Chain agreement for ${name}`} data-testid="plot">
-      <svg viewBox={`0 0 ${W} ${H}`} className="sl-mixing-svg" role="img" aria-label={`Middle half of each chain's draws of ${name} over the run`} data-testid="mixing-view">
+      <svg viewBox={`0 0 ${W} ${H}`} className="block h-auto w-full max-w-[40rem]" role="img" aria-label={`Middle half of each chain's draws of ${name} over the run`} data-testid="mixing-view">
         {[data.lo + (data.hi - data.lo) * 0.12, (data.lo + data.hi) / 2, data.hi - (data.hi - data.lo) * 0.12].map((t) => (
           <g key={t}>
-            <line x1={PAD.l} x2={W - PAD.r} y1={y(t)} y2={y(t)} stroke="var(--sl-rule)" />
-            <text x={PAD.l - 6} y={y(t) + 3} textAnchor="end" className="sl-svg-num">{formatEstimate(t)}</text>
+            <line x1={PAD.l} x2={W - PAD.r} y1={y(t)} y2={y(t)} stroke="var(--color-rule)" />
+            <text x={PAD.l - 6} y={y(t) + 3} textAnchor="end" className="fill-ink-soft font-mono text-[10px] tabular-nums">{formatEstimate(t)}</text>
           </g>
         ))}
         {data.windows.map((c, ci) => {
@@ -60,7 +60,7 @@ export function MixingView({ name, chains, thin, summary }: { name: string; chai
             </g>
           );
         })}
-        <text x={PAD.l - 6} y={stripY + STRIP_H - 4} textAnchor="end" className="sl-svg-label" style={{ fill: failing ? 'var(--sl-warning)' : undefined }}>
+        <text x={PAD.l - 6} y={stripY + STRIP_H - 4} textAnchor="end" className="fill-ink font-mono text-[11px]" style={{ fill: failing ? 'var(--color-alarm)' : undefined }}>
           apart
         </text>
         {data.strip.map((a, i) => (
@@ -70,22 +70,22 @@ export function MixingView({ name, chains, thin, summary }: { name: string; chai
             y={stripY}
             width={Math.max(0.5, cellW - 1)}
             height={STRIP_H}
-            fill="var(--sl-ink)"
+            fill="var(--color-ink)"
             fillOpacity={Math.min(1, Math.max(0, (a - 1) / 2)) * 0.85 + 0.05}
             data-testid="agreement-cell"
           >
             <title>{`iterations ${data.windows[0][i].from}–${data.windows[0][i].to}: the chains' medians lie ${formatEstimate(a, 2)} times as far apart as their own wobble leads one to expect`}</title>
           </rect>
         ))}
-        <text x={PAD.l} y={H - 8} className="sl-svg-num">iteration 1</text>
-        <text x={W - PAD.r} y={H - 8} textAnchor="end" className="sl-svg-num">{lastIter.toLocaleString('en')}</text>
+        <text x={PAD.l} y={H - 8} className="fill-ink-soft font-mono text-[10px] tabular-nums">iteration 1</text>
+        <text x={W - PAD.r} y={H - 8} textAnchor="end" className="fill-ink-soft font-mono text-[10px] tabular-nums">{lastIter.toLocaleString('en')}</text>
       </svg>
-      <figcaption className="sl-hint" style={{ maxWidth: '44rem' }}>
+      <figcaption className="mt-[0.2rem] text-[0.72rem] text-ink-soft" style={{ maxWidth: '44rem' }}>
         Each colour is one chain: its band holds the middle half of its draws in that stretch of the run, its line the median. The strip below is pale where
         the chains' medians differ no more than each chain's own medians wobble from stretch to stretch, and dark where they lie two or three times as far apart.
         {summary && (
           <>
-            {' '}For {name}, R̂ is <span className={failing ? 'sl-fail' : undefined}>{formatRhat(summary.rhat)}</span>
+            {' '}For {name}, R̂ is <span className={failing ? 'bg-alarm-soft font-bold text-alarm' : undefined}>{formatRhat(summary.rhat)}</span>
             {failing ? ': the chains have not yet settled on the same distribution.' : '.'}
           </>
         )}

@@ -45,12 +45,12 @@ function IntervalMark({ q, axis }: { q: QuantitySummary; axis: [number, number] 
   const x = (v: number) => 4 + ((v - lo) / (hi - lo || 1)) * (W - 8);
   const zero = lo < 0 && hi > 0 ? x(0) : null;
   return (
-    <svg viewBox={`0 0 ${W} ${H}`} className="sl-interval" role="img" aria-label={`90 % interval ${formatEstimate(q.q5)} to ${formatEstimate(q.q95)}, median ${formatEstimate(q.q50)}`}>
-      <line x1={4} x2={W - 4} y1={H / 2} y2={H / 2} stroke="var(--sl-rule)" />
-      {zero !== null && <line x1={zero} x2={zero} y1={3} y2={H - 3} stroke="var(--sl-rule-strong)" strokeDasharray="2 2" />}
-      <line x1={x(q.q5)} x2={x(q.q95)} y1={H / 2} y2={H / 2} stroke="var(--sl-ink-soft)" strokeWidth="5" strokeLinecap="round" opacity="0.55" />
-      <line x1={x(q.q50)} x2={x(q.q50)} y1={3} y2={H - 3} stroke="var(--sl-ink)" strokeWidth="2.2" />
-      <circle cx={x(q.mean)} cy={H / 2} r="2.6" fill="var(--sl-sheet)" stroke="var(--sl-ink)" strokeWidth="1" />
+    <svg viewBox={`0 0 ${W} ${H}`} className="block h-[22px] w-full" role="img" aria-label={`90 % interval ${formatEstimate(q.q5)} to ${formatEstimate(q.q95)}, median ${formatEstimate(q.q50)}`}>
+      <line x1={4} x2={W - 4} y1={H / 2} y2={H / 2} stroke="var(--color-rule)" />
+      {zero !== null && <line x1={zero} x2={zero} y1={3} y2={H - 3} stroke="var(--color-rule-strong)" strokeDasharray="2 2" />}
+      <line x1={x(q.q5)} x2={x(q.q95)} y1={H / 2} y2={H / 2} stroke="var(--color-ink-soft)" strokeWidth="5" strokeLinecap="round" opacity="0.55" />
+      <line x1={x(q.q50)} x2={x(q.q50)} y1={3} y2={H - 3} stroke="var(--color-ink)" strokeWidth="2.2" />
+      <circle cx={x(q.mean)} cy={H / 2} r="2.6" fill="var(--color-sheet)" stroke="var(--color-ink)" strokeWidth="1" />
     </svg>
   );
 }
@@ -74,36 +74,36 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
   const essNote = (e: number) => (e >= cap * (1 - 1e-9) ? '‡' : e > total ? '†' : '');
   return (
     <div className="flex flex-col gap-2" data-testid="summary-table">
-      <div className="sl-qrow sl-qrow-head" aria-hidden>
+      <div className="grid grid-cols-[1.4rem_minmax(5rem,9rem)_minmax(8rem,1fr)_minmax(7rem,12rem)] items-center gap-[0.6rem] border-b border-rule py-[0.15rem] text-[0.85rem] max-[520px]:grid-cols-[1.4rem_minmax(0,1fr)_minmax(0,1fr)] max-[520px]:gap-y-[0.1rem] max-[520px]:[grid-template-areas:'mark_name_nums'_'fig_fig_fig'] max-[520px]:[&>:nth-child(1)]:[grid-area:mark] max-[520px]:[&>:nth-child(2)]:[grid-area:name] max-[520px]:[&>:nth-child(3)]:[grid-area:fig] max-[520px]:[&>:nth-child(4)]:[grid-area:nums] text-[0.68rem] text-ink-soft border-b-rule-strong" aria-hidden>
         <span />
         <span>quantity</span>
-        <span className="sl-q-fig">90 % of the posterior · median │ · mean ○</span>
-        <span className="sl-q-nums">median · 90 % interval</span>
+        <span >90 % of the posterior · median │ · mean ○</span>
+        <span className="flex flex-wrap justify-end gap-x-[0.6rem] tabular-nums">median · 90 % interval</span>
       </div>
       {groups.map(([label, list]) =>
         list.length === 0 ? null : (
           <Fragment key={label}>
-            {label === 'derived' && <div className="sl-type" style={{ paddingTop: '0.3rem' }}>derived</div>}
+            {label === 'derived' && <div className="text-[0.65rem] font-medium tracking-[0.08em] text-ink-soft uppercase" style={{ paddingTop: '0.3rem' }}>derived</div>}
             {list.map((q) => {
               const problems = mixingProblems(q, chains);
               const ok = problems.length === 0;
               return (
-                <div key={q.name} className="sl-qrow" data-testid="quantity-row" data-failing={ok ? undefined : true}>
+                <div key={q.name} className="grid grid-cols-[1.4rem_minmax(5rem,9rem)_minmax(8rem,1fr)_minmax(7rem,12rem)] items-center gap-[0.6rem] border-b border-rule py-[0.15rem] text-[0.85rem] max-[520px]:grid-cols-[1.4rem_minmax(0,1fr)_minmax(0,1fr)] max-[520px]:gap-y-[0.1rem] max-[520px]:[grid-template-areas:'mark_name_nums'_'fig_fig_fig'] max-[520px]:[&>:nth-child(1)]:[grid-area:mark] max-[520px]:[&>:nth-child(2)]:[grid-area:name] max-[520px]:[&>:nth-child(3)]:[grid-area:fig] max-[520px]:[&>:nth-child(4)]:[grid-area:nums]" data-testid="quantity-row" data-failing={ok ? undefined : true}>
                   <span
-                    className={ok ? 'sl-trust' : 'sl-trust sl-trust-fail'}
+                    className={ok ? 'inline-grid size-[1.1rem] place-items-center rounded-full border border-rule-strong text-[0.7rem] text-ink-soft' : 'inline-grid size-[1.1rem] place-items-center rounded-full border border-rule-strong text-[0.7rem] text-ink-soft border-alarm bg-alarm font-bold text-white'}
                     role="img"
                     aria-label={ok ? 'mixed well: the chains agree and there are enough independent draws' : `not settled: ${problems.join('; ')}`}
                     title={ok ? 'Chains agree and there are enough independent draws for this quantity.' : `Not settled: ${problems.join('; ')}.`}
                   >
                     {ok ? '✓' : '!'}
                   </span>
-                  <span className="sl-mono sl-q-name" title={nameLabel(q.name)}>{nameLabel(q.name)}</span>
-                  <span className="sl-q-fig">
+                  <span data-testid="quantity-name" className="font-mono tabular-nums truncate" title={nameLabel(q.name)}>{nameLabel(q.name)}</span>
+                  <span >
                     <IntervalMark q={q} axis={axes.get(`${q.kind}:${familyOf(q.name)}`)!} />
                   </span>
-                  <span className="sl-q-nums sl-mono">
+                  <span className="flex flex-wrap justify-end gap-x-[0.6rem] tabular-nums font-mono tabular-nums">
                     <strong>{formatEstimate(q.q50)}</strong>
-                    <span className="sl-q-range">
+                    <span className="text-ink-soft">
                       {formatEstimate(q.q5)} to {formatEstimate(q.q95)}
                     </span>
                   </span>
@@ -113,10 +113,10 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
           </Fragment>
         ),
       )}
-      <details className="sl-fold" data-testid="mixing-figures">
+      <details className="[&>summary]:cursor-pointer [&>summary]:py-[0.3rem] [&>summary]:text-[0.8rem] [&>summary]:text-ink-soft" data-testid="mixing-figures">
         <summary>How well the chains mixed, quantity by quantity</summary>
         <div className="overflow-x-auto">
-          <table className="sl-table" style={{ marginTop: '0.4rem' }}>
+          <table className="w-full border-collapse text-[0.82rem] [&_th]:border-b [&_th]:border-rule-strong [&_th]:px-[0.6rem] [&_th]:py-[0.3rem] [&_th]:text-right [&_th]:font-medium [&_th]:whitespace-nowrap [&_th]:text-ink-soft [&_td]:border-b [&_td]:border-rule [&_td]:px-[0.6rem] [&_td]:py-1 [&_th:first-child]:text-left [&_td:first-child]:text-left [&_tbody_tr:hover_td]:bg-slack/5" style={{ marginTop: '0.4rem' }}>
             <thead>
               <tr>
                 <th scope="col">quantity</th>
@@ -135,31 +135,31 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
                 const tf = essFails(q.essTail, chains);
                 return (
                   <tr key={q.name}>
-                    <th scope="row" className="sl-mono" style={{ textAlign: 'left', fontWeight: 500 }}>{nameLabel(q.name)}</th>
-                    <td className={`sl-num${rf ? ' sl-fail' : ''}`}>{formatRhat(q.rhat)}</td>
-                    <td className={`sl-num${bf ? ' sl-fail' : ''}`}>{formatEss(q.essBulk)}{essNote(q.essBulk)}</td>
-                    <td className={`sl-num${tf ? ' sl-fail' : ''}`}>{formatEss(q.essTail)}{essNote(q.essTail)}</td>
-                    <td className="sl-num">{formatEstimate(q.mcseMean, 2)}</td>
-                    <td className="sl-num">{formatEstimate(q.mean)}</td>
-                    <td className="sl-num">{formatEstimate(q.sd)}</td>
+                    <th scope="row" className="font-mono tabular-nums" style={{ textAlign: 'left', fontWeight: 500 }}>{nameLabel(q.name)}</th>
+                    <td className={`font-mono tabular-nums text-right whitespace-nowrap${rf ? ' bg-alarm-soft font-bold text-alarm' : ''}`}>{formatRhat(q.rhat)}</td>
+                    <td className={`font-mono tabular-nums text-right whitespace-nowrap${bf ? ' bg-alarm-soft font-bold text-alarm' : ''}`}>{formatEss(q.essBulk)}{essNote(q.essBulk)}</td>
+                    <td className={`font-mono tabular-nums text-right whitespace-nowrap${tf ? ' bg-alarm-soft font-bold text-alarm' : ''}`}>{formatEss(q.essTail)}{essNote(q.essTail)}</td>
+                    <td className="font-mono tabular-nums text-right whitespace-nowrap">{formatEstimate(q.mcseMean, 2)}</td>
+                    <td className="font-mono tabular-nums text-right whitespace-nowrap">{formatEstimate(q.mean)}</td>
+                    <td className="font-mono tabular-nums text-right whitespace-nowrap">{formatEstimate(q.sd)}</td>
                   </tr>
                 );
               })}
             </tbody>
           </table>
         </div>
-        <p className="sl-hint" data-testid="mixing-words">
+        <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft" data-testid="mixing-words">
           A quantity passes when its chains agree (R̂ at most {DIAGNOSTIC_THRESHOLDS.rhatRunLonger}) and its draws are worth at least{' '}
           {DIAGNOSTIC_THRESHOLDS.essPerChain} independent ones per chain ({essNeeded(chains)} here) both in the middle and in the tails.
         </p>
         {anyAbove && (
-          <p className="sl-hint" data-testid="ess-note-above">
+          <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft" data-testid="ess-note-above">
             † More independent draws than draws ({total.toLocaleString('en')}): successive draws swing to opposite sides of the mean, so averages settle faster than
             with independent draws. This is real, not an error.
           </p>
         )}
         {anyCapped && (
-          <p className="sl-hint" data-testid="ess-note-capped">
+          <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft" data-testid="ess-note-capped">
             ‡ At the ceiling of {formatEss(cap)} (draws × log₁₀ draws): the estimate is held there so that a few strongly alternating draws cannot claim
             unlimited precision; the true figure may be higher.
           </p>

@@ -17,7 +17,7 @@ export function ModelCellView(p: CellViewProps) {
   const sharedCheck = useSharedModelCheck(p.access.mode === 'share' ? p.access.token : '', p.cell.id, p.cell.source, p.access.mode === 'share');
   const check = member ? memberCheck : sharedCheck;
   return (
-    <div className="sl-model-grid">
+    <div className="grid grid-cols-[minmax(0,1fr)_minmax(12rem,16rem)] gap-4 max-[720px]:grid-cols-[minmax(0,1fr)]">
       <div style={{ minWidth: 0 }}>
         <ModelEditor value={p.source} onChange={p.setSource} schema={p.schema} readOnly={p.readOnly} label="Model program" onRun={() => p.onRun?.()} />
       </div>

@@ -1,9 +1,10 @@
 import { Markdown } from '@/components/markdown';
+import { compactControlClass } from '@/components/ui/input';
 
 /** Notes through the one markdown renderer (raw HTML shown as text; see components/markdown). */
 export function NotesView({ text }: { text: string }) {
-  if (!text.trim()) return <p className="sl-cell-sub italic">Empty notes.</p>;
-  return <Markdown source={text} className="sl-prose" testId="notes-view" />;
+  if (!text.trim()) return <p className="truncate text-[0.8rem] text-ink-soft italic">Empty notes.</p>;
+  return <Markdown source={text} className="prose-slackline text-[0.95rem] leading-[1.6]" testId="notes-view" />;
 }
 
 export interface NotesCellProps {
@@ -20,7 +21,7 @@ export function NotesCell({ text, editing, readOnly, onChange, onEditingChange }
     return (
       <div className="grid gap-3 md:grid-cols-2">
         <textarea
-          className="sl-input"
+          className={compactControlClass}
           style={{ minHeight: '9rem', fontSize: '0.85rem', resize: 'vertical' }}
           aria-label="Notes text (markdown)"
           value={text}
@@ -30,7 +31,7 @@ export function NotesCell({ text, editing, readOnly, onChange, onEditingChange }
             if (e.key === 'Escape') onEditingChange(false);
           }}
         />
-        <div className="border-l pl-3" style={{ borderColor: 'var(--sl-rule)' }}>
+        <div className="border-l pl-3" style={{ borderColor: 'var(--color-rule)' }}>
           <NotesView text={text} />
         </div>
       </div>
