@@ -5,7 +5,7 @@
  */
 import { z } from 'zod';
 import { fitProgressSchema, fitSettingsSchema, fitSummarySchema } from '../fit';
-import { idSchema, isoDateSchema } from './common';
+import { idSchema, isoDateSchema, issuesToFields } from './common';
 import { CELL_KINDS, cellKindSchema, cellSchema } from './notebooks';
 import { ACTIVE_RUN_STATUSES, RUN_STATUSES } from '../terms';
 
@@ -90,12 +90,7 @@ export function checkCellContent(
 ): { ok: true; content: CellContent } | { ok: false; fields: Record<string, string> } {
   const r = cellContentSchemas[kind].safeParse(content);
   if (r.success) return { ok: true, content: r.data };
-  const fields: Record<string, string> = {};
-  for (const issue of r.error.issues) {
-    const path = ['content', ...issue.path.map(String)].join('.');
-    if (!(path in fields)) fields[path] = issue.message;
-  }
-  return { ok: false, fields };
+  return { ok: false, fields: issuesToFields(r.error.issues.map((issue) => ({ ...issue, path: ['content', ...issue.path] }))) };
 }
 
 /** A cell as the notebook page sees it. */

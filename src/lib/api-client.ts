@@ -8,7 +8,7 @@
  *   answer against the route's response schema.
  */
 import type { z } from 'zod';
-import { apiErrorSchema, routePath, routes, type RouteName } from '@shared/api';
+import { apiErrorSchema, issuesToFields as sharedIssuesToFields, routePath, routes, type RouteName } from '@shared/api';
 
 /** Codes the client adds on top of the server's (`ERROR_CODES` in shared/api/common.ts). */
 export type ClientErrorCode = 'network' | 'bad_response';
@@ -66,18 +66,8 @@ export function toApiError(status: number, body: unknown): ApiError {
   return new ApiError(status, code, message, {}, body);
 }
 
-/**
- * Turns zod issues into the same `fields` map the server sends: dotted path → first message.
- * Issues without a path go under `''`.
- */
-export function issuesToFields(issues: ReadonlyArray<{ path: ReadonlyArray<PropertyKey>; message: string }>): Record<string, string> {
-  const fields: Record<string, string> = {};
-  for (const issue of issues) {
-    const key = issue.path.map(String).join('.');
-    if (!(key in fields)) fields[key] = issue.message;
-  }
-  return fields;
-}
+/** Zod issues as the server's `fields` map (shared/api/common.ts); a whole-value problem goes under `''`. */
+export const issuesToFields = (issues: Parameters<typeof sharedIssuesToFields>[0]) => sharedIssuesToFields(issues, '');
 
 export type ApiFetchOptions = {
   method?: 'GET' | 'POST' | 'PATCH' | 'DELETE';
