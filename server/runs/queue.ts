@@ -21,6 +21,7 @@ import { runChains, runs, runSummaries } from '../db/schema';
 import { newId } from '../lib/ids';
 import type { ChainResult } from '../engine/types';
 import { decodeDraws, decodeFlags, decodeFloats, encodeChain, type DrawNames, type EncodedChain } from './draws-codec';
+import { ACTIVE_RUN_STATUSES } from '../../shared/terms';
 
 export type RunRow = typeof runs.$inferSelect;
 
@@ -228,7 +229,7 @@ export async function cancelRun(db: Db, workspaceId: string, runId: string, now:
     const [res] = await tx
       .update(runs)
       .set({ status: 'cancelled', finishedAt: now, leaseOwner: null, leaseExpiresAt: null })
-      .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId), inArray(runs.status, ['queued', 'running'])));
+      .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId), inArray(runs.status, [...ACTIVE_RUN_STATUSES])));
     if (res.affectedRows !== 1) return false;
     // Chains a worker stored before the cancel (its later writes are fenced out).
     await tx.delete(runChains).where(and(eq(runChains.workspaceId, workspaceId), eq(runChains.runId, runId)));
@@ -241,6 +242,6 @@ export async function activeRunCount(db: Pick<Db, 'select'>, workspaceId: string
   const [row] = await db
     .select({ n: sql<number>`count(*)` })
     .from(runs)
-    .where(and(eq(runs.workspaceId, workspaceId), inArray(runs.status, ['queued', 'running'])));
+    .where(and(eq(runs.workspaceId, workspaceId), inArray(runs.status, [...ACTIVE_RUN_STATUSES])));
   return Number(row?.n ?? 0);
 }
