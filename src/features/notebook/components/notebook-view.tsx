@@ -5,7 +5,7 @@
 import { useEffect, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import { useQueries, useQueryClient } from '@tanstack/react-query';
 import { CELL_KIND_LABELS, dataContentSchema, type NbCell, type NbCellKind } from '@shared/api/notebook';
-import type { DataSchema } from '@shared/lang';
+import { dataSchemaOf, type DataSchema, type SchemaSourceTable } from '@shared/lang';
 import { errorMessage } from '@/lib/api-client';
 import { CellColumn, NOTEBOOK_KEYS } from './cell-column';
 import { CellFrame } from './cell-frame';
@@ -81,18 +81,16 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
     })
     .filter((x): x is string => !!x);
   const datasets = useQueries({ queries: dataIds.map((id) => datasetQuery(access, id)) });
-  const schema: DataSchema = {};
+  const tables: Record<string, SchemaSourceTable> = {};
   // Level names of category columns, for labelling the elements of unknowns they gather.
   const levels: Record<string, Record<string, readonly string[]>> = {};
   for (const q of datasets) {
     if (!q.data) continue;
     const d = q.data.dataset;
     levels[d.name] = Object.fromEntries(d.columns.filter((c) => c.levels).map((c) => [c.name, c.levels!]));
-    schema[d.name] = {
-      rows: d.rows,
-      columns: Object.fromEntries(d.columns.map((c) => [c.name, c.type === 'category' ? { type: c.type, levels: c.levels?.length ?? 0 } : { type: c.type }])),
-    };
+    tables[d.name] = { rows: d.rows, columns: Object.fromEntries(d.columns.map((c) => [c.name, c])) };
   }
+  const schema = dataSchemaOf(tables);
 
   const add = (kind: NbCellKind, position: number) => {
     setActionError(null);
