@@ -4,7 +4,7 @@
  * chain, and executed by the function registered here for its kind. The worker holds the unit's
  * lease and heartbeat while it runs, and stores what it returns as the run's summary.
  */
-import type { FitProgress } from '../../shared/fit';
+import type { FitProgress, FitSummary } from '../../shared/fit';
 import type { Db } from '../db/client';
 import type { RunRow } from './queue';
 
@@ -19,8 +19,8 @@ export interface WholeRunJobContext {
 }
 
 export interface WholeRunJobResult {
-  /** Stored in run_summaries as the run's summary. */
-  summary: unknown;
+  /** Stored in run_summaries as the run's summary (that column holds a FitSummary). */
+  summary: FitSummary;
   partial?: boolean;
 }
 

@@ -22,7 +22,7 @@
  */
 import { and, asc, eq, inArray, isNull, sql } from 'drizzle-orm';
 import { RUN_LIMITS } from '../../shared/api/notebook';
-import type { FitProgress } from '../../shared/fit';
+import type { FitProgress, FitSummary } from '../../shared/fit';
 import type { Db } from '../db/client';
 import { runChains, runs, runSummaries, runUnits } from '../db/schema';
 import type { ChainResult } from '../engine/types';
@@ -226,7 +226,7 @@ export async function finishUnitRun(
   db: Db,
   claim: Claim,
   workerId: string,
-  out: { summary: unknown; chainsDone: number; total: number },
+  out: { summary: FitSummary; chainsDone: number; total: number },
   now: Date,
   timings: Record<string, number>,
   partial: boolean,

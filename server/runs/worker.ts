@@ -28,7 +28,7 @@ import type { Clock } from '../lib/clock';
 import { systemClock } from '../lib/clock';
 import { newId } from '../lib/ids';
 import { datasetMetaColumns, loadDataTables } from '../notebook/datasets';
-import { storedChains, type DrawNames, type EncodedChain, type RunRow, type RunSpec } from './queue';
+import { storedChains, type DrawNames, type EncodedChain, type RunRow } from './queue';
 import { claimUnit, endChainUnit, failUnitRun, finishUnitRun, heartbeatUnit, storePlan, writeUnitProgress, type Claim } from './units';
 import { wholeRunJobs } from './jobs';
 import { computePool } from '../compute/pool';
@@ -245,7 +245,8 @@ export class RunWorker {
 
   /** The model and data a run fits, loaded as the run's spec froze them. */
   private async targetOf(run: RunRow): Promise<TargetSpec> {
-    const spec = run.spec as RunSpec;
+    const spec = run.spec;
+    if (!spec) throw new Error(`Run ${run.id} was queued without its model and data`);
     const ids = Object.values(spec.tables);
     const rows = ids.length
       ? await this.write(`loading the data of run ${run.id}`, () => this.db.select(datasetMetaColumns).from(datasets).where(and(eq(datasets.workspaceId, run.workspaceId), inArray(datasets.id, ids))))

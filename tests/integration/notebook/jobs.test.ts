@@ -128,8 +128,8 @@ describe('chains stored as they finish; a lost chain runs again alone', () => {
     return id;
   }
   const chainsOf = (id: string) => w.server.db.db.select().from(runChains).where(eq(runChains.runId, id)).orderBy(asc(runChains.chainIndex));
-  const summaryOf = async (id: string) => (await w.server.db.db.select().from(runSummaries).where(eq(runSummaries.runId, id)))[0].summary as {
-    quantities: unknown; diagnostics: unknown; verdict: unknown; sampler: unknown;
+  const summaryOf = async (id: string) => (await w.server.db.db.select().from(runSummaries).where(eq(runSummaries.runId, id)))[0].summary as unknown as {
+    quantities: unknown; diagnostics: unknown; verdict: unknown;
   };
   const finishedNumbers = (logs: string[]) => logs.map((m) => /chain (\d+) finished$/.exec(m)?.[1]).filter((x) => x !== undefined).map(Number);
 
@@ -176,7 +176,6 @@ describe('chains stored as they finish; a lost chain runs again alone', () => {
     expect(sRes.quantities).toEqual(sRef.quantities);
     expect(sRes.diagnostics).toEqual(sRef.diagnostics);
     expect(sRes.verdict).toEqual(sRef.verdict);
-    expect(sRes.sampler).toEqual(sRef.sampler);
     expect((done.progress as { phase: string }[]).map((p) => p.phase)).toEqual(['done', 'done', 'done']);
     const [csvRef, csvRes] = await Promise.all([ref, id].map((r) => w.viewer.get(`/api/workspaces/${w.ws}/runs/${r}/draws.csv`)));
     expect(csvRes.status).toBe(200);
