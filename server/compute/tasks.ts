@@ -134,11 +134,15 @@ export interface PilotFitOutput {
 
 /**
  * A short timed pilot of a fit: its engine (the automatic choice by pilots when asked), then one
- * chain of that engine lengthened ×4 until it takes at least 100 ms (or 6,400 iterations).
+ * untimed short chain, then one chain of that engine lengthened ×4 until it takes at least 100 ms
+ * (or 6,400 iterations).
  */
 const pilotFit: Task<{ source: string; tables: DataTables; settings: FitSettings }, PilotFitOutput> = async ({ source, tables, settings }) => {
   const spec: TargetSpec = { kind: 'program', source, tables };
   const plan = await planFit(spec, settings, { parallel: false });
+  // One untimed short chain first: building the target and the first iterations (compilation in
+  // this thread) cost once, not per iteration.
+  await runFitChain(spec, { ...settings, chains: 1, warmup: 50, draws: 50 }, 0, plan, { parallel: false });
   let half = 50;
   for (;;) {
     const t0 = performance.now();

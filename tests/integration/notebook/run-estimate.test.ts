@@ -40,7 +40,7 @@ describe('a fit estimated to outrun the time limit', () => {
     expect(await w.server.db.db.select().from(runs).where(eq(runs.cellId, big))).toHaveLength(0);
 
     // The suggested length (and less) is accepted and queued with its engine decided.
-    const small = await fitCell({ chains: 2, warmup: Math.max(50, Math.floor(fits / 4)), draws: Math.max(50, Math.floor(fits / 4)), seed: 5, sampler: 'hitrun' });
+    const small = await fitCell({ chains: 2, warmup: Math.max(50, Math.floor(fits / 8)), draws: Math.max(50, Math.floor(fits / 8)), seed: 5, sampler: 'hitrun' });
     const ok = await w.editor.post(`${w.base}/cells/${small}/runs`, {});
     expect(ok.status, ok.text).toBe(201);
     const [row] = await w.server.db.db.select().from(runs).where(eq(runs.id, ok.body.run.id));

@@ -1,6 +1,7 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { callRoute } from '@/lib/api-client';
 import { queryKeys } from '@/lib/query-keys';
+import { getNotebookPage } from './get-notebook-page';
 
 /** One notebook with its cells in order and the caller's role. */
 export function getNotebook(workspaceId: string, notebookId: string) {
@@ -10,7 +11,10 @@ export function getNotebook(workspaceId: string, notebookId: string) {
 export const notebookQueryOptions = (workspaceId: string, notebookId: string) =>
   queryOptions({
     queryKey: queryKeys.notebook(workspaceId, notebookId),
-    queryFn: () => getNotebook(workspaceId, notebookId),
+    // The first load brings the whole screen in one request (get-notebook-page.ts); later
+    // refreshes (after a cell is added, moved or removed) read the notebook alone.
+    queryFn: ({ client, queryKey }) =>
+      client.getQueryData(queryKey) === undefined ? getNotebookPage(client, workspaceId, notebookId) : getNotebook(workspaceId, notebookId),
   });
 
 export function useNotebook(workspaceId: string, notebookId: string) {

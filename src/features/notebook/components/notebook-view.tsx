@@ -19,6 +19,7 @@ import { ModelCellView } from '../model/model-cell-view';
 import { FitCellView } from '../fit/fit-cell';
 import { CompareCellView } from '../compare/compare-cell-view';
 import { useCellDraft, type SaveState } from '../use-cell-draft';
+import { useRunEvents } from '../api/use-run-events';
 import type { NotebookAccess } from '../api/access';
 import { datasetQuery } from '../api/get-dataset';
 import { saveCell } from '../api/save-cell';
@@ -62,6 +63,7 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
   const [actionError, setActionError] = useState<string | null>(null);
   const member = access.mode === 'member';
   const wsId = member ? access.workspaceId : '';
+  useRunEvents(access);
   const mut = {
     add: useCreateCell(wsId, access.notebookId),
     remove: useDeleteCell(wsId, access.notebookId),

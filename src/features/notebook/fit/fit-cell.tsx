@@ -8,6 +8,8 @@ import { fitSettingsSchema, type FitSettings } from '@shared/fit';
 import { errorMessage } from '@/lib/api-client';
 import { MessageText } from '@/components/message-text';
 import { useCellRuns } from '../api/get-cell-runs';
+import { useNearViewport } from '../components/use-near-viewport';
+import { PreviousResultsNote } from './previous-results-note';
 import { useRunDraws } from '../api/get-run-draws';
 import { useQueueRun } from '../api/queue-run';
 import { useCancelRun } from '../api/cancel-run';
@@ -34,7 +36,9 @@ export function FitCellView(p: CellViewProps) {
   const latest = list[0] ?? null;
   const shown = (openId ? list.find((r) => r.id === openId) : null) ?? list.find((r) => r.status === 'done') ?? null;
   const active = latest && (latest.status === 'queued' || latest.status === 'running') ? latest : null;
-  const draws = useRunDraws(p.access, shown?.status === 'done' ? shown.id : null);
+  // Draws for the plots load when the cell comes near the viewport (the summary is already here).
+  const [rootRef, nearView] = useNearViewport<HTMLDivElement>();
+  const draws = useRunDraws(p.access, shown?.status === 'done' && nearView ? shown.id : null);
   const member = p.access.mode === 'member';
   const wsId = p.access.mode === 'member' ? p.access.workspaceId : '';
   const queue = useQueueRun(wsId, p.access.notebookId, p.cell.id);
@@ -59,7 +63,7 @@ export function FitCellView(p: CellViewProps) {
   }, [p.runSignal]); // eslint-disable-line react-hooks/exhaustive-deps
 
   return (
-    <div className="flex flex-col gap-4">
+    <div ref={rootRef} className="flex flex-col gap-4">
       <div className="flex flex-wrap items-center gap-2 text-sm">
         <label htmlFor={`fit-model-${p.cell.id}`} className="truncate text-[0.8rem] text-ink-soft">
           Fits
@@ -113,6 +117,7 @@ export function FitCellView(p: CellViewProps) {
           finished; the summary, diagnostics and draws cover those chains.
         </p>
       )}
+      <PreviousResultsNote shown={shown} active={active} />
       {shown && (
         <FitResults
           run={shown}
