@@ -27,7 +27,8 @@ export interface ThrowawayDb {
 
 export async function startThrowawayMariaDb(name = 'slackline_bench'): Promise<ThrowawayDb> {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'slackline-bench.'));
-  const port = await freePort();
+  // BENCH_DB_PORT pins the port (e.g. on a shared machine where ports are handed out); else any free one.
+  const port = process.env.BENCH_DB_PORT ? Number(process.env.BENCH_DB_PORT) : await freePort();
   try {
     // Durability is pointless for a throwaway database; skip the fsyncs (as npm test does).
     sh(

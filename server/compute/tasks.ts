@@ -117,6 +117,15 @@ const drawsCsv: Task<{ names: string[]; chains: StoredChainInput[] }, Uint8Array
   return { output: bytes, transfer: [bytes.buffer as ArrayBuffer] };
 };
 
+/** One chain's rows of the draws export (no header), for writing the file chain by chain. */
+const drawsCsvChain: Task<{ chain: StoredChainInput }, Uint8Array> = ({ chain: c }) => {
+  const draws = decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension);
+  const parts: string[] = [];
+  for (const row of drawsCsvRows(c.chain, draws, c.dimension, new Float64Array(0), 0)) parts.push(row + '\n');
+  const bytes = new TextEncoder().encode(parts.join(''));
+  return { output: bytes, transfer: [bytes.buffer as ArrayBuffer] };
+};
+
 /** A finished chain encoded for storage (its draws arrive back as a Uint8Array: see encodedChain). */
 const encode: Task<{ names: DrawNames; chain: ChainResult }, EncodedChain> = ({ names, chain }) => {
   const enc = encodeChain(names, chain);
@@ -153,7 +162,7 @@ const pilotFit: Task<{ source: string; tables: DataTables; settings: FitSettings
   }
 };
 
-export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, encodeChain: encode, projections, pilotFit };
+export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, drawsCsvChain, encodeChain: encode, projections, pilotFit };
 export type TaskName = keyof typeof TASKS;
 export type TaskInput<K extends TaskName> = Parameters<(typeof TASKS)[K]>[0];
 export type TaskOutput<K extends TaskName> = Awaited<ReturnType<(typeof TASKS)[K]>>['output'];

@@ -10,7 +10,8 @@ import type { AppContext } from '../context';
 import { mount } from '../http/route';
 import { notFound } from '../http/errors';
 import { findCell } from '../notebook/cells';
-import { cellRuns, findRun, runDraws, runDrawsCsv } from '../runs/read';
+import { cellRuns, findRun, runDraws, streamRunDrawsCsv } from '../runs/read';
+import { computeFailure } from '../notebook/datasets';
 import { cancelQueuedOrRunning, queueRun } from '../runs/create';
 import { RunEventHub } from '../runs/events';
 import { findNotebook } from './notebooks';
@@ -56,9 +57,31 @@ export function runsRouter(ctx: AppContext): Router {
     const ws = req.workspace!;
     const run = await findRun(db, ws.id, params.runId, clock.now());
     if (run.status !== 'done') throw notFound('This run has no draws yet');
-    const csv = await runDrawsCsv(db, ws.id, run.id);
-    sendCsv(res, `draws-${run.id}.csv`);
-    res.status(200).end(Buffer.from(csv.buffer, csv.byteOffset, csv.byteLength));
+    // Streamed chain by chain (read.ts streamRunDrawsCsv); a failure after the first bytes can
+    // only cut the file short, so the connection is closed without a trailing chunk.
+    let started = false;
+    try {
+      await streamRunDrawsCsv(
+        db,
+        ws.id,
+        run.id,
+        () => {
+          started = true;
+          sendCsv(res, `draws-${run.id}.csv`);
+          res.status(200);
+        },
+        (bytes) =>
+          new Promise<void>((resolve, reject) => {
+            if (res.destroyed) return reject(new Error('the client went away'));
+            if (res.write(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength))) resolve();
+            else res.once('drain', resolve);
+          }),
+      );
+      res.end();
+    } catch (e) {
+      if (!started) throw computeFailure(e, 'Writing the draws file');
+      res.destroy();
+    }
   });
 
   mount(r, ctx, routes.exportRunSummary, async ({ params }, req, res) => {

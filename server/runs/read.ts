@@ -1,6 +1,6 @@
 /** Reading runs: rows to API objects, draws for plots and CSV, the region of a run's model. */
 import { and, asc, desc, eq, inArray } from 'drizzle-orm';
-import { type FitProgress, fitSummarySchema, type FitSummary } from '../../shared/fit';
+import { type ChainStats, type FitProgress, fitSummarySchema, type FitSummary } from '../../shared/fit';
 import { RUN_HEARTBEAT, type Run, type RunDraws } from '../../shared/api/notebook';
 import { runChains, runs, runSummaries, users, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
@@ -10,6 +10,7 @@ import { queuePositions, type RunRow } from './queue';
 import { computeFailure, datasetMetaColumns, loadDataTables } from '../notebook/datasets';
 import { checkModelOffThread } from '../notebook/checks';
 import { computePool } from '../compute/pool';
+import { drawsCsvHeader } from '../../shared/export-csv';
 import { cachedRegionProjections } from '../notebook/projections';
 import type { StoredChainInput } from '../compute/tasks';
 
@@ -155,6 +156,41 @@ export async function runDraws(exec: Exec, run: RunRow, max: number): Promise<Ru
       )
     : [];
   return { names: loaded.names, unknownCount: loaded.unknownNames.length, thin: thinned.thin, chains: thinned.chains, region, projections };
+}
+
+/**
+ * The draws export streamed: the header, then each chain's rows as a compute thread writes them
+ * (one stored chain is read and held at a time, so the whole file is never in memory). Throws
+ * before anything is written when the run has no draws; `write` resolves when the bytes are sent.
+ */
+export async function streamRunDrawsCsv(
+  exec: Exec,
+  workspaceId: string,
+  runId: string,
+  start: () => void,
+  write: (bytes: Uint8Array) => Promise<void>,
+): Promise<void> {
+  const index = await exec
+    .select({ id: runChains.id, stats: runChains.stats })
+    .from(runChains)
+    .where(and(eq(runChains.workspaceId, workspaceId), eq(runChains.runId, runId)))
+    .orderBy(asc(runChains.chainIndex));
+  if (index.length === 0) throw new DomainError('not_found', 'This run has no stored draws');
+  const stats = index[0].stats as ChainStats;
+  start();
+  await write(new TextEncoder().encode(drawsCsvHeader([...stats.unknownNames, ...stats.derivedNames]) + '\n'));
+  for (const { id } of index) {
+    const [r] = await exec.select().from(runChains).where(and(eq(runChains.workspaceId, workspaceId), eq(runChains.id, id)));
+    if (!r) continue;
+    const input = {
+      chain: r.chainIndex + 1,
+      draws: new Uint8Array(r.draws.buffer, r.draws.byteOffset, r.draws.byteLength),
+      drawCount: r.drawCount,
+      dimension: r.dimension,
+      divergent: (r.stats as ChainStats).divergent,
+    };
+    await write(await computePool().run('drawsCsvChain', { chain: input }));
+  }
 }
 
 /** The draws export (header and every draw of every chain) as UTF-8 CSV, built on a compute thread. */

@@ -145,8 +145,14 @@ async function flow() {
     await signInAs(rv.email, TEST_PASSWORD);
     await page.goto(notebookUrl);
     await page.getByTestId('read-only-banner').waitFor();
-    // Let every fit's plot finish drawing before pointing at anything below them.
-    await expect.poll(() => page.locator('[data-testid="plot"] svg').count(), { timeout: 30_000 }).toBe(3);
+    // Plots load as their fit cells come into view: bring each into view and let its plot finish
+    // drawing before pointing at anything below them.
+    const fits = page.locator('section[data-kind="fit"]');
+    for (let k = 0; k < (await fits.count()); k++) {
+      await fits.nth(k).scrollIntoViewIfNeeded();
+      await fits.nth(k).getByTestId('plot').locator('svg').first().waitFor({ timeout: 30_000 });
+    }
+    expect(await page.locator('[data-testid="plot"] svg').count()).toBeGreaterThanOrEqual(3);
     const reviewedFit = page.locator('section[data-kind="fit"]').last();
     await reviewedFit.getByRole('button', { name: /^Comments on this fit cell/ }).click();
     await page.getByLabel('Comment on this cell…').fill('Is a spread prior of 2 too wide for this panel?');
