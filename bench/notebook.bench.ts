@@ -402,20 +402,31 @@ export async function run(): Promise<Record<string, number | string>> {
     await bigSection.getByTestId('plot').locator('svg').first().waitFor({ timeout: 60_000 });
     const scrolledPlotMs = Date.now() - scrollStart;
     await page.locator(`section[data-cell-id="${seeded.bigFitCellId}"]`).scrollIntoViewIfNeeded();
-    const perTab: Record<string, number[]> = Object.fromEntries(PLOT_TABS.map((k) => [k, []]));
-    for (let r = 0; r < PLOT_ROUNDS; r++) {
-      for (const tab of PLOT_TABS) perTab[tab].push(await page.evaluate(timeSwitch, { bigCell: seeded.bigFitCellId, tab }));
+    // The plot views the fit cell offers now (the tabs it shows; the list above names the usual ones).
+    const offered = await page.evaluate(
+      (bigCell) => [...document.querySelectorAll(`section[data-cell-id="${bigCell}"] [role="tab"]`)].map((b) => b.textContent?.trim() ?? '').filter(Boolean),
+      seeded.bigFitCellId,
+    );
+    const tabs = offered.length ? offered : [...PLOT_TABS];
+    const perTab: Record<string, number[]> = Object.fromEntries(tabs.map((k) => [k, []]));
+    if (offered.length) {
+      for (let r = 0; r < PLOT_ROUNDS; r++) {
+        for (const tab of tabs) perTab[tab].push(await page.evaluate(timeSwitch, { bigCell: seeded.bigFitCellId, tab }));
+      }
     }
-    // Trace of every quantity in turn (the 20 quantities of the run).
-    await page.evaluate(timeSwitch, { bigCell: seeded.bigFitCellId, tab: 'Trace' });
+    // Trace of every quantity in turn (the 20 quantities of the run), when the cell has a trace view.
     const traceEach: number[] = [];
-    for (let q = 1; q < 20; q++) traceEach.push(await page.evaluate(timeSwitch, { bigCell: seeded.bigFitCellId, quantity: q }));
-    traceEach.push(await page.evaluate(timeSwitch, { bigCell: seeded.bigFitCellId, quantity: 0 }));
+    const hasQuantityChoice = await page.evaluate((bigCell) => !!document.querySelector(`section[data-cell-id="${bigCell}"] select[aria-label="Quantity"]`), seeded.bigFitCellId);
+    if (tabs.includes('Trace') && hasQuantityChoice) {
+      await page.evaluate(timeSwitch, { bigCell: seeded.bigFitCellId, tab: 'Trace' });
+      for (let q = 1; q < 20; q++) traceEach.push(await page.evaluate(timeSwitch, { bigCell: seeded.bigFitCellId, quantity: q }));
+      traceEach.push(await page.evaluate(timeSwitch, { bigCell: seeded.bigFitCellId, quantity: 0 }));
+    }
     const svgMarks = await page.evaluate((bigCell) => document.querySelector(`section[data-cell-id="${bigCell}"] [data-testid="plot"] svg`)?.querySelectorAll('path, circle').length ?? 0, seeded.bigFitCellId);
     const browserCores = await page.evaluate(() => navigator.hardwareConcurrency);
 
-    const tabMedian = Object.fromEntries(PLOT_TABS.map((k) => [k, median(perTab[k])]));
-    const slowestView = Math.max(...Object.values(tabMedian));
+    const tabMedian = Object.fromEntries(tabs.filter((k) => perTab[k].length).map((k) => [k, median(perTab[k])]));
+    const slowestView = Object.keys(tabMedian).length ? Math.max(...Object.values(tabMedian)) : NaN;
     const openMs = median(warm.map((m) => m.content));
     const plotInitial = median(bigPlotAfterDrawsMs);
 
@@ -450,7 +461,7 @@ export async function run(): Promise<Record<string, number | string>> {
       'plots.draws_response_kib': Math.round(drawsKiB),
       'plots.panel_after_draws_ms': round1(plotInitial),
     };
-    for (const k of PLOT_TABS) out[`plots.view_${k.toLowerCase().replace(/\s+/g, '_')}_ms`] = round1(tabMedian[k]);
+    for (const k of Object.keys(tabMedian)) out[`plots.view_${k.toLowerCase().replace(/\s+/g, '_')}_ms`] = round1(tabMedian[k]);
     out['plots.slowest_view_ms'] = round1(slowestView);
     out['plots.five_views_total_ms'] = round1(Object.values(tabMedian).reduce((s, x) => s + x, 0));
     out['plots.trace_per_quantity_median_ms'] = round1(median(traceEach));

@@ -9,6 +9,7 @@ import type { CompileResponse, DatasetColumn, RegionSystem } from '../../shared/
 import type { DataTables, TargetSpec } from '../engine/types';
 import { planFit, runFitChain, type FitPlan } from '../engine/fit';
 import type { FitSettings } from '../../shared/fit';
+import { encodeDrawsBinary, type DrawsBinaryHeader } from '../../shared/api/draws-binary';
 import { decodeDraws, decodeFlags, encodeChain, type DrawNames, type EncodedChain } from '../runs/draws-codec';
 import type { ChainResult } from '../engine/types';
 import { checkModel, regionSystem } from '../notebook/model';
@@ -117,6 +118,25 @@ const drawsCsv: Task<{ names: string[]; chains: StoredChainInput[] }, Uint8Array
   return { output: bytes, transfer: [bytes.buffer as ArrayBuffer] };
 };
 
+/** The draws for plots as the columnar binary of shared/api/draws-binary.ts, thinned like thinDraws. */
+const drawsBinary: Task<{ chains: StoredChainInput[]; max: number; header: Omit<DrawsBinaryHeader, 'chains' | 'thin'> }, Uint8Array> = ({ chains, max, header }) => {
+  const n = chains[0]?.drawCount ?? 0;
+  const thin = Math.max(1, Math.ceil(n / Math.max(1, max)));
+  const idx: number[] = [];
+  for (let t = 0; t < n; t += thin) idx.push(t);
+  const q = header.names.length;
+  const columns = chains.map((c) => {
+    const draws = decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension);
+    return Array.from({ length: q }, (_, k) => Float32Array.from(idx, (t) => draws[t * c.dimension + k]));
+  });
+  const meta = chains.map((c) => {
+    const flags = decodeFlags(c.divergent, c.drawCount);
+    return { chain: c.chain, n: idx.length, divergent: idx.flatMap((t, i) => (flags[t] ? [i] : [])) };
+  });
+  const bytes = encodeDrawsBinary({ ...header, thin, chains: meta }, columns);
+  return { output: bytes, transfer: [bytes.buffer as ArrayBuffer] };
+};
+
 /** One chain's rows of the draws export (no header), for writing the file chain by chain. */
 const drawsCsvChain: Task<{ chain: StoredChainInput }, Uint8Array> = ({ chain: c }) => {
   const draws = decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension);
@@ -162,7 +182,7 @@ const pilotFit: Task<{ source: string; tables: DataTables; settings: FitSettings
   }
 };
 
-export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, drawsCsvChain, encodeChain: encode, projections, pilotFit };
+export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, drawsCsvChain, drawsBinary, encodeChain: encode, projections, pilotFit };
 export type TaskName = keyof typeof TASKS;
 export type TaskInput<K extends TaskName> = Parameters<(typeof TASKS)[K]>[0];
 export type TaskOutput<K extends TaskName> = Awaited<ReturnType<(typeof TASKS)[K]>>['output'];

@@ -10,7 +10,7 @@ import type { AppContext } from '../context';
 import { mount } from '../http/route';
 import { notFound } from '../http/errors';
 import { findCell } from '../notebook/cells';
-import { cellRuns, findRun, runDraws, streamRunDrawsCsv } from '../runs/read';
+import { cellRuns, findRun, runDraws, runDrawsBinary, streamRunDrawsCsv } from '../runs/read';
 import { computeFailure } from '../notebook/datasets';
 import { cancelQueuedOrRunning, queueRun } from '../runs/create';
 import { RunEventHub } from '../runs/events';
@@ -51,6 +51,16 @@ export function runsRouter(ctx: AppContext): Router {
     const run = await findRun(db, req.workspace!.id, params.runId, clock.now());
     if (run.status !== 'done') throw notFound('This run has no draws yet');
     return runDraws(db, run.row, query.max ?? DEFAULT_PLOT_DRAWS);
+  });
+
+  mount(r, ctx, routes.getRunDrawsBinary, async ({ params, query }, req, res) => {
+    const run = await findRun(db, req.workspace!.id, params.runId, clock.now());
+    if (run.status !== 'done') throw notFound('This run has no draws yet');
+    const bytes = await runDrawsBinary(db, run.row, query.max ?? DEFAULT_PLOT_DRAWS);
+    res.setHeader('Content-Type', 'application/octet-stream');
+    // A finished run's draws never change.
+    res.setHeader('Cache-Control', 'private, max-age=86400, immutable');
+    res.status(200).end(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
   });
 
   mount(r, ctx, routes.exportRunDraws, async ({ params }, req, res) => {

@@ -193,6 +193,26 @@ export async function streamRunDrawsCsv(
   }
 }
 
+/** The draws for plots as columnar Float32 binary (shared/api/draws-binary.ts), built on a compute thread. */
+export async function runDrawsBinary(exec: Exec, run: RunRow, max: number): Promise<Uint8Array> {
+  const loaded = await storedChainInputs(exec, run.workspaceId, run.id);
+  const region = await runRegion(exec, run, loaded.unknownNames);
+  const projections = region
+    ? await cachedRegionProjections(run.id, () =>
+        computePool()
+          .run('projections', { region, chains: loaded.chains })
+          .catch((e: unknown) => {
+            throw computeFailure(e, 'Drawing the region');
+          }),
+      )
+    : [];
+  return computePool()
+    .run('drawsBinary', { chains: loaded.chains, max, header: { names: loaded.names, unknownCount: loaded.unknownNames.length, region, projections } })
+    .catch((e: unknown) => {
+      throw computeFailure(e, 'Reading the draws');
+    });
+}
+
 /** The draws export (header and every draw of every chain) as UTF-8 CSV, built on a compute thread. */
 export async function runDrawsCsv(exec: Exec, workspaceId: string, runId: string): Promise<Uint8Array> {
   const loaded = await storedChainInputs(exec, workspaceId, runId);

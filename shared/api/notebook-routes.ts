@@ -109,6 +109,11 @@ export const notebookRoutes = {
     purpose: 'Draws per chain for plotting (evenly thinned to `max`), with the constraint system',
     params: nb.runParams, query: nb.runDrawsQuery, response: nb.runDrawsResponse,
   },
+  getRunDrawsBinary: {
+    method: 'GET', path: '/api/workspaces/:workspaceId/runs/:runId/draws.bin', access: 'viewer', status: 200,
+    purpose: 'The draws for plotting as Float32 columns with a small JSON header (shared/api/draws-binary.ts), thinned to `max` on the server',
+    params: nb.runParams, query: nb.runDrawsQuery,
+  },
   exportRunDraws: {
     method: 'GET', path: '/api/workspaces/:workspaceId/runs/:runId/draws.csv', access: 'viewer', status: 200,
     purpose: 'Every kept draw as CSV: chain, iteration, one column per quantity',
