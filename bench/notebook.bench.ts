@@ -297,7 +297,9 @@ async function timeSwitch(arg: { bigCell: string; tab?: string; quantity?: numbe
   await new Promise<void>((resolve, reject) => {
     const tick = () => {
       const svg = fig()?.querySelector('svg');
-      if (svg && !svg.hasAttribute('data-bench-old') && svg.querySelector('.role-mark')) return resolve();
+      // A new chart: a fresh SVG in the figure (Vega views draw .role-mark elements; the ladder and
+      // chain-agreement views are SVG of their own).
+      if (svg && !svg.hasAttribute('data-bench-old') && svg.querySelector('.role-mark, path, rect, circle, line')) return resolve();
       if (performance.now() - t0 > 30_000) return reject(new Error('the chart did not appear within 30 s'));
       requestAnimationFrame(tick);
     };
@@ -411,7 +413,10 @@ export async function run(): Promise<Record<string, number | string>> {
     const perTab: Record<string, number[]> = Object.fromEntries(tabs.map((k) => [k, []]));
     if (offered.length) {
       for (let r = 0; r < PLOT_ROUNDS; r++) {
-        for (const tab of tabs) perTab[tab].push(await page.evaluate(timeSwitch, { bigCell: seeded.bigFitCellId, tab }));
+        for (const tab of tabs) {
+          // A view that never draws a new chart counts as missing (NaN), not as a failed bench.
+          perTab[tab].push(await page.evaluate(timeSwitch, { bigCell: seeded.bigFitCellId, tab }).catch(() => NaN));
+        }
       }
     }
     // Trace of every quantity in turn (the 20 quantities of the run), when the cell has a trace view.
@@ -425,7 +430,7 @@ export async function run(): Promise<Record<string, number | string>> {
     const svgMarks = await page.evaluate((bigCell) => document.querySelector(`section[data-cell-id="${bigCell}"] [data-testid="plot"] svg`)?.querySelectorAll('path, circle').length ?? 0, seeded.bigFitCellId);
     const browserCores = await page.evaluate(() => navigator.hardwareConcurrency);
 
-    const tabMedian = Object.fromEntries(tabs.filter((k) => perTab[k].length).map((k) => [k, median(perTab[k])]));
+    const tabMedian = Object.fromEntries(tabs.filter((k) => perTab[k].some(Number.isFinite)).map((k) => [k, median(perTab[k].filter(Number.isFinite))]));
     const slowestView = Object.keys(tabMedian).length ? Math.max(...Object.values(tabMedian)) : NaN;
     const openMs = median(warm.map((m) => m.content));
     const plotInitial = median(bigPlotAfterDrawsMs);

@@ -201,6 +201,8 @@ describe('on a phone (390 px wide)', () => {
         await page.goto(notebookUrl);
         const fit = page.locator('section[data-kind="fit"]').first();
         await fit.getByTestId('fit-results').waitFor();
+        // Plots load as their fit cell comes into view.
+        await fit.scrollIntoViewIfNeeded();
         await fit.getByTestId('plot').first().waitFor();
         await page.waitForTimeout(500);
         // No horizontal scroll of the page itself.
