@@ -472,13 +472,13 @@ export async function run(): Promise<Record<string, number | string>> {
     out['plots.trace_per_quantity_median_ms'] = round1(median(traceEach));
     out['plots.trace_all_20_quantities_ms'] = round1(traceEach.reduce((s, x) => s + x, 0));
     out['plots.last_chart_svg_elements'] = svgMarks;
-    appendNotebookMd(out);
     out['page_errors'] = pageErrors.length ? pageErrors.join(' | ').slice(0, 300) : 'none';
     const requests = median(apiLoads.slice(1).map((a) => a.count));
     out['goal.open'] = '50 cells open in < 1000 ms (open.content_ms) with <= 5 API requests (open.api_requests; the run event stream is one more, open until the page closes)';
     out['goal.open_met'] = openMs < 1000 && requests <= 5 ? 'yes' : `NO (${Math.round(openMs)} ms, ${requests} requests)`;
     out['goal.plots'] = '4x1000x20 run: each plot view in < 500 ms (plots.slowest_view_ms, plots.panel_after_draws_ms)';
     out['goal.plots_met'] = Math.max(slowestView, plotInitial) < 500 ? 'yes' : `NO (${Math.round(Math.max(slowestView, plotInitial) - 500)} ms over)`;
+    appendNotebookMd(out);
     return out;
   } finally {
     for (const c of cleanups) {
