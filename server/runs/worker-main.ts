@@ -24,7 +24,7 @@ function msFromEnv(name: string): number | undefined {
   if (!Number.isInteger(n) || n < 1) throw new Error(`${name} must be a whole number of milliseconds (got "${raw}")`);
   return n;
 }
-const worker = new RunWorker({ db: handle.db, slots, leaseMs: msFromEnv('RUN_LEASE_MS'), heartbeatMs: msFromEnv('RUN_HEARTBEAT_MS'), pollMs: msFromEnv('RUN_POLL_MS'), ...(process.env.RUN_CHAIN_SECONDS ? { wallSeconds: Number(process.env.RUN_CHAIN_SECONDS) } : {}) });
+const worker = new RunWorker({ db: handle.db, slots, leaseMs: msFromEnv('RUN_LEASE_MS'), heartbeatMs: msFromEnv('RUN_HEARTBEAT_MS'), pollMs: msFromEnv('RUN_POLL_MS'), progressMs: msFromEnv('RUN_PROGRESS_MS'), ...(process.env.RUN_CHAIN_SECONDS ? { wallSeconds: Number(process.env.RUN_CHAIN_SECONDS) } : {}) });
 worker.start();
 console.log(`[slackline] run worker ${worker.id} polling the queue with ${slots} fit slot(s)`);
 

@@ -255,6 +255,8 @@ describe('the results in our own figures (desktop)', () => {
       await page.goto(notebookUrl);
       const mix = page.locator('section[data-kind="fit"]').first();
       await mix.getByTestId('quantity-row').first().waitFor();
+      // Plots load as their fit cell comes into view.
+      await mix.scrollIntoViewIfNeeded();
       // Three shares summing to one open in their triangle, with every draw inside the tinted region.
       await mix.getByTestId('triangle-figure').waitFor();
       await mix.screenshot({ path: await screenshotPath('desktop-mixing-fit.png') });
@@ -262,6 +264,7 @@ describe('the results in our own figures (desktop)', () => {
       await mix.getByTestId('mixing-view').waitFor();
       await mix.screenshot({ path: await screenshotPath('desktop-chain-agreement.png') });
       const dose = page.locator('section[data-kind="fit"]').nth(1);
+      await dose.scrollIntoViewIfNeeded();
       await dose.getByRole('tab', { name: 'Order' }).click();
       await dose.getByTestId('ladder-view').waitFor();
       expect(await dose.getByTestId('ladder-rung').count()).toBeGreaterThanOrEqual(3);

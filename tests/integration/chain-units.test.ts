@@ -53,10 +53,10 @@ function startWorker(name: string, env: Record<string, string> = {}): ChildProce
 }
 const allOutput = () => outputs.join('\n----\n');
 
-async function fitCell(ws: string, nb: string, chains: number): Promise<string> {
+async function fitCell(ws: string, nb: string, chains: number, settings: typeof LONG = LONG): Promise<string> {
   const base = `/api/workspaces/${ws}/notebooks/${nb}`;
   const model = (await w.owner.post(`${base}/cells`, { kind: 'model', source: SOURCE })).body.cell;
-  const fit = (await w.owner.post(`${base}/cells`, { kind: 'fit', content: { modelCellId: model.id, settings: { ...LONG, chains } } })).body.cell;
+  const fit = (await w.owner.post(`${base}/cells`, { kind: 'fit', content: { modelCellId: model.id, settings: { ...settings, chains } } })).body.cell;
   return fit.id as string;
 }
 async function queue(ws: string, nb: string, cellId: string): Promise<string> {
@@ -108,7 +108,8 @@ describe('chains are the unit of work across worker processes', () => {
 
   it('a worker killed mid-chain: another process runs only that chain again, with identical draws', async () => {
     const db = w.server.db.db;
-    const cell = await fitCell(w.ws, w.nb, 3);
+    // Longer chains, and progress written every 100 ms, so the kill lands inside a chain.
+    const cell = await fitCell(w.ws, w.nb, 3, { ...LONG, warmup: 20_000, draws: 20_000 });
     // Reference: the same fit (same settings and seed) run to its end by one worker in this process.
     const ref = await queue(w.ws, w.nb, cell);
     const inProcess = new RunWorker({ db, parallel: false, log: () => {} });
@@ -118,7 +119,7 @@ describe('chains are the unit of work across worker processes', () => {
     expect(await statusOf(ref)).toBe('done');
     const refChains = await db.select().from(runChains).where(eq(runChains.runId, ref)).orderBy(asc(runChains.chainIndex));
 
-    const env = { RUN_LEASE_MS: '3000', RUN_HEARTBEAT_MS: '500' };
+    const env = { RUN_LEASE_MS: '3000', RUN_HEARTBEAT_MS: '500', RUN_PROGRESS_MS: '100' };
     const p1 = startWorker('victim', env);
     const id = await queue(w.ws, w.nb, cell);
     // Chain 2 in the middle of its iterations (its progress written, not finished).
