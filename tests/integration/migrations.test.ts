@@ -52,7 +52,7 @@ describe('migrations', () => {
     expect(tables.map((r) => r.t).sort()).toEqual(
       [
         '__drizzle_migrations', 'audit_log', 'cells', 'comments', 'datasets', 'invitations', 'mail_outbox', 'memberships',
-        'notebooks', 'password_resets', 'pending_sign_ups', 'run_chains', 'run_summaries', 'runs', 'sessions', 'share_links', 'users', 'workspaces',
+        'notebooks', 'password_resets', 'pending_sign_ups', 'run_chains', 'run_summaries', 'run_units', 'runs', 'sessions', 'share_links', 'users', 'workspaces',
       ].sort(),
     );
     for (const r of tables) expect(r.c, r.t).toMatch(/^utf8mb4_/);
@@ -64,7 +64,7 @@ describe('migrations', () => {
       [fresh],
     );
     expect((rows as { t: string }[]).map((r) => r.t).sort()).toEqual(
-      ['audit_log', 'cells', 'comments', 'datasets', 'invitations', 'memberships', 'notebooks', 'run_chains', 'run_summaries', 'runs', 'share_links'].sort(),
+      ['audit_log', 'cells', 'comments', 'datasets', 'invitations', 'memberships', 'notebooks', 'run_chains', 'run_summaries', 'run_units', 'runs', 'share_links'].sort(),
     );
   });
 
