@@ -1,7 +1,8 @@
 /**
  * The demo notebook's content, in the invented Alder Creek sediment survey: a mixing-proportions
  * model (shares of three sediment sources on a simplex) and a monotone dose–response (sediment
- * load per storm rising with rain class), each with notes, data, a model and a finished fit.
+ * load per storm rising with rain class), each with notes, data, a model and a finished fit, and
+ * a deliberately misspecified twin of the dose–response model whose model checks fail.
  * The fits are computed by the real engine when the demo is seeded, and stored like any run.
  * Idempotent: it only fills a demo notebook that has no model cell yet.
  */
@@ -13,6 +14,7 @@ import { newId } from '../lib/ids';
 import { readUpload } from '../notebook/datasets';
 import { runFit } from '../engine/fit';
 import { finishRun, type RunSpec } from '../runs/queue';
+import { computeRunChecks } from '../runs/checks';
 import { parseCsv } from '../../shared/data';
 import type { FitSettings } from '../../shared/fit';
 
@@ -93,6 +95,18 @@ term ld_normal(load, 3, 5) + ld_halfnormal(sd, 3)
 constrain load[1] <= load[2] <= load[3] <= load[4] <= load[5]
 constrain sd >= 0.01
 derive heavy_minus_light = load[5] - load[1]
+replicate load_new = ld_normal(load_t, load[rain_class], sd)
+`;
+
+/** The same storms with the scatter fixed far too small: a deliberately wrong model whose checks fail. */
+export const DEMO_TWIN_MODEL = `# Twin: the same storms, scatter fixed at 0.25 t/km² (deliberately wrong)
+table storms
+const sd_fixed = 0.25
+unknown load[5]
+term ld_normal(load_t, load[rain_class], sd_fixed)
+term ld_normal(load, 3, 5)
+constrain load[1] <= load[2] <= load[3] <= load[4] <= load[5]
+replicate load_new = ld_normal(load_t, load[rain_class], sd_fixed)
 `;
 
 export const DEMO_MIXING_NOTES = `## Reading the shares
@@ -116,9 +130,27 @@ reporting a dip that is most likely noise.
 
 Conclusions depend on the model's assumptions (normal scatter with one spread for all classes,
 ordered means). Decisions with regulatory or safety consequences need a qualified statistician.
+
+The model's last line, \`replicate load_new = …\`, asks the fit for *checks against the data*:
+it simulates new storm loads from the fitted model, many times over, and the fit shows whether
+the real loads look like those simulated ones (their spread, extremes and class by class).
 `;
 
-const DEMO_SETTINGS: FitSettings = { chains: 4, warmup: 500, draws: 500, seed: 20261201, sampler: 'auto' };
+export const DEMO_TWIN_NOTES = `## A twin that is wrong on purpose
+
+The model below fits the same storms but pretends to know that a storm's load strays only
+**0.25 t/km²** from its class mean — as if every storm of a class carried almost the same load.
+The data say otherwise: within a class, loads differ by a tonne or more.
+
+The fit itself runs fine, and its class means look reasonable. The mistake shows only when the
+model is asked to reproduce the data: open its *Checks against the data*. Data simulated from
+this model are far too tidy, so the observed spread, smallest and largest loads fall outside
+what the model produces, and those statistics are marked **extreme**. Leave-one-out names the
+storms the model cannot account for. Compare with the checks of the fit above, where the spread
+is an unknown learnt from the data.
+`;
+
+const DEMO_SETTINGS: FitSettings = { chains: 4, warmup: 500, draws: 500, seed: 20261201, sampler: 'auto', replicates: 200, checkStat: 'iqr' };
 
 export interface DemoNotebookTarget {
   userId: string;
@@ -169,7 +201,13 @@ export async function seedDemoNotebook(db: Db, t: DemoNotebookTarget, now: Date 
     });
     const started = performance.now();
     const result = await runFit({ kind: 'program', source, tables: parsed }, settings, {});
-    await finishRun(db, { workspaceId: t.workspaceId, id: runId }, 'demo-seed', result, now, { fit: Math.round(performance.now() - started) });
+    const tFit = performance.now();
+    const checks = await computeRunChecks(source, parsed, result, settings);
+    const summary = { ...result.summary, checks };
+    await finishRun(db, { workspaceId: t.workspaceId, id: runId }, 'demo-seed', { ...result, summary }, now, {
+      fit: Math.round(tFit - started),
+      checks: Math.round(performance.now() - tFit),
+    });
     return result.summary.verdict.level;
   };
 
@@ -188,5 +226,11 @@ export async function seedDemoNotebook(db: Db, t: DemoNotebookTarget, now: Date 
   const monoModel = await addCell('model', DEMO_MONOTONE_MODEL, null);
   const monoFit = await addCell('fit', '', { modelCellId: monoModel, settings });
   created.push(`dose–response fit (${await addFinishedFit(monoFit, DEMO_MONOTONE_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } })})`);
+
+  // Part 3: the dose–response model's deliberately misspecified twin, on the same table.
+  await addCell('notes', DEMO_TWIN_NOTES, null);
+  const twinModel = await addCell('model', DEMO_TWIN_MODEL, null);
+  const twinFit = await addCell('fit', '', { modelCellId: twinModel, settings });
+  created.push(`misspecified twin fit (${await addFinishedFit(twinFit, DEMO_TWIN_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } })})`);
   return created;
 }
