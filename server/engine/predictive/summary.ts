@@ -55,13 +55,19 @@ export function overlayEdges(observed: ArrayLike<number>, replicates: ArrayLike<
     hi = Math.max(hi, quantile(sorted, 0.995));
   }
   if (!Number.isFinite(lo) || !Number.isFinite(hi)) return null;
-  if (whole && hi - lo <= 60) return Array.from({ length: hi - lo + 2 }, (_, k) => lo - 0.5 + k);
+  if (whole) {
+    lo = Math.floor(lo);
+    hi = Math.ceil(hi);
+    if (hi - lo <= 60) return Array.from({ length: hi - lo + 2 }, (_, k) => lo - 0.5 + k);
+  }
   if (hi === lo) {
     lo -= 0.5;
     hi += 0.5;
   }
   const bins = Math.min(40, Math.max(8, Math.ceil(2 * Math.cbrt(L))));
-  return Array.from({ length: bins + 1 }, (_, k) => lo + ((hi - lo) * k) / bins);
+  const edges = Array.from({ length: bins + 1 }, (_, k) => lo + ((hi - lo) * k) / bins);
+  edges[bins] = hi; // exactly, so the largest value is inside
+  return edges;
 }
 
 /** Shares of the values in each bin; values outside the edges are counted in `out.clipped`. */
@@ -75,9 +81,13 @@ function shares(values: ArrayLike<number>, edges: number[], out: { clipped: numb
     const v = values[i];
     if (!Number.isFinite(v)) continue;
     n++;
-    const b = v === edges[bins] ? bins - 1 : Math.floor((v - lo) / width);
-    if (b < 0 || b >= bins) out.clipped++;
-    else counts[b]++;
+    if (v < lo || v > edges[bins]) {
+      out.clipped++;
+      continue;
+    }
+    // Rounding can put a value at an edge one bin off: keep it inside the range.
+    const b = Math.min(bins - 1, Math.max(0, Math.floor((v - lo) / width)));
+    counts[b]++;
   }
   return counts.map((c) => (n ? c / n : 0));
 }
@@ -100,7 +110,7 @@ export function overlayOf(observed: ArrayLike<number>, replicates: ArrayLike<num
     });
   const m = Math.min(OVERLAY_SAMPLE, per.length);
   const sample = Array.from({ length: m }, (_, j) => per[Math.floor((j * per.length) / m)].map(r4));
-  return { edges: edges.map(r4), observed: obs.map(r4), q05: q(0.05), q25: q(0.25), q50: q(0.5), q75: q(0.75), q95: q(0.95), sample, clipped: clip.clipped };
+  return { edges, observed: obs.map(r4), q05: q(0.05), q25: q(0.25), q50: q(0.5), q75: q(0.75), q95: q(0.95), sample, clipped: clip.clipped };
 }
 
 function looSummary(l: NonNullable<ModelChecks['loo']>): LooSummary {
