@@ -3,6 +3,8 @@ import { formatEstimate, formatSeconds } from '@/lib/estimates';
 import { VerdictBanner } from './verdict-banner';
 import { QuantityRows } from './quantity-rows';
 import { FitPlots } from './fit-plots';
+import { ChecksView } from '../fit/checks-view';
+import { PriorRunHeading } from '../fit/prior-run-label';
 
 export interface FitResultsProps {
   run: Run;
@@ -19,6 +21,7 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
   const d = s.diagnostics;
   return (
     <div className="flex flex-col gap-4" data-testid="fit-results">
+      <PriorRunHeading run={run} />
       <VerdictBanner verdict={s.verdict} />
       <QuantityRows quantities={s.quantities} chains={s.settings.chains} draws={s.settings.draws} />
       <p className="sl-hint" data-testid="run-diagnostics">
@@ -40,6 +43,7 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
         </div>
       )}
       {draws ? <FitPlots draws={draws} quantities={s.quantities} /> : drawsError ? <p className="sl-cell-sub">Plots unavailable: {drawsError}</p> : <p className="sl-cell-sub" style={{ minHeight: 300 }}>Loading draws for the plots…</p>}
+      {s.checks && <ChecksView checks={s.checks} />}
     </div>
   );
 }

@@ -1,6 +1,7 @@
 import type { Run } from '@shared/api/notebook';
 import { formatSeconds } from '@/lib/estimates';
 import { formatDateTime } from '@/lib/format';
+import { PriorRunBadge, isPriorRun } from '../fit/prior-run-label';
 
 const STATUS_WORDS: Record<Run['status'], string> = {
   queued: 'waiting',
@@ -28,6 +29,7 @@ export function RunsList({ runs, openId, onOpen }: { runs: Run[]; openId: string
               </button>
               <span className="sl-num">{formatDateTime(r.createdAt)}</span>
               <span>{STATUS_WORDS[r.status]}</span>
+              {isPriorRun(r) && <PriorRunBadge />}
               <span className="sl-cell-sub">
                 {r.settings.chains}×{r.settings.draws} draws · seed {r.settings.seed}
                 {r.summary ? ` · ${formatSeconds(r.summary.seconds)}` : ''}
