@@ -142,7 +142,8 @@ The model below fits the same storms but pretends to know that a storm's load st
 **0.25 t/km²** from its class mean — as if every storm of a class carried almost the same load.
 The data say otherwise: within a class, loads differ by a tonne or more.
 
-The fit itself runs fine, and its class means look reasonable. The mistake shows only when the
+The fit itself runs fine (its settings use the sampler on transformed coordinates, which handles
+this sharply peaked posterior well), and its class means look reasonable. The mistake shows only when the
 model is asked to reproduce the data: open its *Checks against the data*. Data simulated from
 this model are far too tidy, so the observed spread, smallest and largest loads fall outside
 what the model produces, and those statistics are marked **extreme**. Leave-one-out names the
@@ -186,11 +187,12 @@ export function notebookWriter(db: Db, t: DemoNotebookTarget, startPosition: num
 
 /** Fill the demo notebook (after its first notes cell) and compute both fits. */
 export async function seedDemoNotebook(db: Db, t: DemoNotebookTarget, now: Date = new Date(), settings: FitSettings = DEMO_SETTINGS): Promise<string[]> {
+  const defaultSettings = settings;
   const existing = await db.select().from(cells).where(and(eq(cells.workspaceId, t.workspaceId), eq(cells.notebookId, t.notebookId)));
   if (existing.some((c) => c.kind === 'model')) return [];
   const created: string[] = [];
   const { addDataset, addCell } = notebookWriter(db, t, existing.length, now);
-  const addFinishedFit = async (fitCellId: string, source: string, tables: Record<string, { id: string; csv: string }>) => {
+  const addFinishedFit = async (fitCellId: string, source: string, tables: Record<string, { id: string; csv: string }>, settings: FitSettings = defaultSettings) => {
     const spec: RunSpec = { source, tables: Object.fromEntries(Object.entries(tables).map(([k, v]) => [k, v.id])) };
     const parsed = Object.fromEntries(Object.entries(tables).map(([k, v]) => [k, parseCsv(v.csv).table!]));
     const runId = newId();
@@ -230,7 +232,10 @@ export async function seedDemoNotebook(db: Db, t: DemoNotebookTarget, now: Date 
   // Part 3: the dose–response model's deliberately misspecified twin, on the same table.
   await addCell('notes', DEMO_TWIN_NOTES, null);
   const twinModel = await addCell('model', DEMO_TWIN_MODEL, null);
-  const twinFit = await addCell('fit', '', { modelCellId: twinModel, settings });
-  created.push(`misspecified twin fit (${await addFinishedFit(twinFit, DEMO_TWIN_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } })})`);
+  // Its posterior is sharply peaked against the ordering: the sampler on transformed coordinates
+  // mixes it well where the automatic choice would ask to run longer.
+  const twinSettings: FitSettings = { ...settings, sampler: 'transform-hmc' };
+  const twinFit = await addCell('fit', '', { modelCellId: twinModel, settings: twinSettings });
+  created.push(`misspecified twin fit (${await addFinishedFit(twinFit, DEMO_TWIN_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } }, twinSettings)})`);
   return created;
 }

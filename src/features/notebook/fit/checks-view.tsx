@@ -122,7 +122,7 @@ function GroupViews({ item, statistics }: { item: ReplicateCheck; statistics: st
       <p className="sl-hint">
         {extremeCount === 0
           ? 'No group statistic is extreme.'
-          : `${extremeCount} of ${groups.length * statistics.length} group statistics are extreme. With this many, one or two extreme marks are expected by chance alone; several in one group or one statistic point at a feature the model misses.`}
+          : `${extremeCount} of ${groups.length * statistics.length} group statistics are extreme. With this many, a few extreme marks can arise by chance alone; several in one group or one statistic point at a feature the model misses.`}
       </p>
     </div>
   );
