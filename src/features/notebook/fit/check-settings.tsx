@@ -74,19 +74,19 @@ export function CheckSettingsFields({ draft, errors, disabled, onChange }: Check
   const needsArg = draft.statKind === 'q' || draft.statKind === 'above' || draft.statKind === 'below';
   const preview = checkCandidate(draft).checkStat;
   return (
-    <fieldset className="flex flex-col gap-3" data-testid="check-settings" disabled={disabled}>
+    <fieldset className="flex min-w-0 flex-col gap-3" data-testid="check-settings" disabled={disabled}>
       <legend className="sl-cell-sub" style={{ marginBottom: '0.4rem' }}>
         Checks against the data
       </legend>
-      <label className="flex items-start gap-2 text-sm">
-        <input type="checkbox" checked={draft.priorOnly} onChange={(e) => set({ priorOnly: e.target.checked })} style={{ marginTop: '0.2rem' }} />
-        <span>
+      <div className="min-w-0">
+        <label className="flex items-center gap-2 text-sm">
+          <input type="checkbox" checked={draft.priorOnly} onChange={(e) => set({ priorOnly: e.target.checked })} />
           <span className="font-semibold">Before the data: priors and constraints only</span>
-          <span className="sl-hint" style={{ display: 'block' }}>
-            Leaves out every term line that reads a data column, to see what the model expects before seeing the data. The run is labelled as a prior run.
-          </span>
-        </span>
-      </label>
+        </label>
+        <p className="sl-hint whitespace-normal">
+          Leaves out every term line that reads a data column, to see what the model expects before seeing the data. The run is labelled as a prior run.
+        </p>
+      </div>
       <div className="grid gap-3" style={{ gridTemplateColumns: 'repeat(auto-fit, minmax(12rem, 1fr))' }}>
         <div className="sl-field">
           <label htmlFor={`${uid}-reps`}>Replicated data sets</label>

@@ -6,6 +6,16 @@ import { Table, TBody, THead, Td, Th, Tr } from '@/components/ui/table';
 import { formatDataValue, formatEstimate } from '@/lib/estimates';
 import { PlotFrame } from '../components/plot-frame';
 import { groupSpec, overlaySpec, paretoKSpec, pReading, type GroupRow } from './checks-specs';
+import type { Spec } from '@/lib/plot/specs';
+
+/** A chart that scrolls sideways inside its cell on narrow screens instead of widening the page. */
+function Figure({ spec, label }: { spec: Spec; label: string }) {
+  return (
+    <div className="max-w-full min-w-0 overflow-x-auto">
+      <PlotFrame spec={spec} label={label} />
+    </div>
+  );
+}
 
 const num = (x: number | null) => (x === null ? '—' : formatDataValue(x));
 const pText = (p: number) => (p < 0.001 ? '< 0.001' : p > 0.999 ? '> 0.999' : p.toFixed(3));
@@ -67,7 +77,7 @@ function GroupViews({ item, statistics }: { item: ReplicateCheck; statistics: st
   const spec = useMemo(() => groupSpec(rows, describeStat(stat)), [JSON.stringify(rows), stat]); // eslint-disable-line react-hooks/exhaustive-deps
   const extremeCount = groups.reduce((n, g) => n + g.stats.filter((s) => isExtremeP(s.p)).length, 0);
   return (
-    <div className="flex flex-col gap-2" data-testid="checks-groups">
+    <div className="flex min-w-0 flex-col gap-2" data-testid="checks-groups">
       <div className="flex flex-wrap items-end gap-3 text-sm">
         <span className="font-semibold">Group by group</span>
         {columns.length > 1 && (
@@ -91,7 +101,7 @@ function GroupViews({ item, statistics }: { item: ReplicateCheck; statistics: st
           </select>
         </label>
       </div>
-      <PlotFrame spec={spec} label={`${describeStat(stat)} per ${column}: data against replicated 90% range`} />
+      <Figure spec={spec} label={`${describeStat(stat)} per ${column}: data against replicated 90% range`} />
       <Table caption={`p-values per ${column}`}>
         <THead>
           <tr>
@@ -133,7 +143,7 @@ function ItemView({ item, statistics, prior }: { item: ReplicateCheck; statistic
   const spec = useMemo(() => (item.overlay ? overlaySpec(item.overlay, valueTitle) : null), [item, valueTitle]);
   const failing = item.stats.filter((s) => isExtremeP(s.p));
   return (
-    <div className="flex flex-col gap-3" data-testid="checks-item">
+    <div className="flex min-w-0 flex-col gap-3" data-testid="checks-item">
       <p className="text-sm">
         <code>{item.name}</code> replicates {item.rows} value{item.rows === 1 ? '' : 's'} (line {item.line}, <code>{item.density}</code>).{' '}
         {failing.length > 0 ? (
@@ -147,7 +157,7 @@ function ItemView({ item, statistics, prior }: { item: ReplicateCheck; statistic
       </p>
       {spec && item.overlay && (
         <div className="flex flex-col gap-1">
-          <PlotFrame spec={spec} label={`Distribution of ${item.name}: data against replicated data sets`} />
+          <Figure spec={spec} label={`Distribution of ${item.name}: data against replicated data sets`} />
           <p className="sl-hint">
             Each bin: the pale bar spans 90% of the replicated data sets' shares, the dark core the middle half, the stroke their median; the small dots
             are single replicated data sets. The black lid and dot are the data's own share — red where it leaves the pale bar.
@@ -169,7 +179,7 @@ function LooView({ checks }: { checks: RunChecks }) {
   const spec = l.k ? paretoKSpec(l) : null;
   const named = l.highK.map((h) => `${h.table} row ${h.row} (k ${h.k === null ? '∞' : formatEstimate(h.k, 2)})`);
   return (
-    <div className="flex flex-col gap-2" data-testid="checks-loo">
+    <div className="flex min-w-0 flex-col gap-2" data-testid="checks-loo">
       <p className="text-sm">
         <span className="font-semibold">Leave-one-out</span> (PSIS): expected log predictive density <span className="num">{formatEstimate(l.elpd, 4)}</span> (se{' '}
         <span className="num">{formatEstimate(l.se, 3)}</span>, Monte Carlo error <span className="num">{formatEstimate(l.mcse, 2)}</span>) · effective number of
@@ -186,7 +196,7 @@ function LooView({ checks }: { checks: RunChecks }) {
       ) : (
         <p className="sl-hint">Every row has Pareto k at or below {l.kThreshold}: the leave-one-out estimate is reliable row by row.</p>
       )}
-      {spec && <PlotFrame spec={spec} label="Pareto k per data row" />}
+      {spec && <Figure spec={spec} label="Pareto k per data row" />}
     </div>
   );
 }
@@ -199,7 +209,7 @@ function LooView({ checks }: { checks: RunChecks }) {
 export function ChecksView({ checks }: { checks: RunChecks }) {
   const prior = checks.kind === 'prior';
   return (
-    <section className="flex flex-col gap-4 border-t border-rule pt-4" aria-label="Checks against the data" data-testid="checks-view" data-kind={checks.kind}>
+    <section className="flex min-w-0 flex-col gap-4 border-t border-rule pt-4" aria-label="Checks against the data" data-testid="checks-view" data-kind={checks.kind}>
       <div className="flex flex-col gap-1">
         <h3 className="text-base font-semibold">{prior ? 'Checks against the data, before the data (prior predictive)' : 'Checks against the data'}</h3>
         {checks.items.length > 0 && (
