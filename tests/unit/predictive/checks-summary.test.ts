@@ -163,3 +163,30 @@ describe('the user statistic', () => {
     expect(fitSettingsSchema.parse({ chains: 2, warmup: 100, draws: 100, seed: 1, sampler: 'auto' })).toEqual({ chains: 2, warmup: 100, draws: 100, seed: 1, sampler: 'auto' });
   });
 });
+
+describe('the notebook file carries the check settings', () => {
+  const file = (settings: Record<string, unknown>) => ({
+    slackline_notebook: 2,
+    title: 'Storms',
+    blocks: [
+      { ref: 'b1', role: 'model', folded: false, text: 'unknown a\nterm ld_normal(a, 0, 1)' },
+      { ref: 'b2', role: 'fit', folded: false, text: '', model_ref: 'b1', settings },
+    ],
+    tables: [],
+  });
+  const base = { chains: 2, warmup: 100, draws: 100, seed: 1, sampler: 'auto' };
+
+  it('reads prior-only, the replicate count and the statistic, and still reads files without them', async () => {
+    const { buildNotebookFile, readNotebookFile } = await import('../../../shared/notebook-file');
+    const withChecks = { ...base, priorOnly: true, replicates: 300, checkStat: 'q0.9' };
+    const r = readNotebookFile(file(withChecks));
+    expect(r.ok && r.file.cells[1].content).toEqual({ modelCellId: 'b1', settings: withChecks });
+    const old = readNotebookFile(file(base));
+    expect(old.ok && old.file.cells[1].content).toEqual({ modelCellId: 'b1', settings: base });
+    const bad = readNotebookFile(file({ ...base, checkStat: 'x = 1' }));
+    expect(bad.ok).toBe(false);
+    // Export writes them back as they are stored.
+    const out = buildNotebookFile('Storms', [{ id: 'm', kind: 'model', source: 'unknown a', collapsed: false, content: null }, { id: 'f', kind: 'fit', source: '', collapsed: false, content: { modelCellId: 'm', settings: withChecks } }], [], new Date(0));
+    expect(out.blocks[1]).toMatchObject({ role: 'fit', settings: withChecks });
+  });
+});
