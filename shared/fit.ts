@@ -135,3 +135,30 @@ export const fitProgressSchema = z.object({
   itersPerSecond: z.number(),
 });
 export type FitProgress = z.infer<typeof fitProgressSchema>;
+
+// ---- what a run stores beside its rows (typed JSON columns of server/db/schema.ts) ----
+
+/** What a run needs, frozen when it is queued. */
+export interface RunSpec {
+  source: string;
+  /** Table name → dataset id. */
+  tables: Record<string, string>;
+}
+
+/** Stored with every chain: names of the columns of its draws, and per-draw flags. */
+export interface ChainStats {
+  unknownNames: string[];
+  derivedNames: string[];
+  divergent: [number, number][];
+  /** Draws whose transition was rejected (a step could not be completed); absent in older rows = none. */
+  rejected?: [number, number][];
+  stepSize: number | null;
+  meanAcceptStat: number;
+  factorizationsPerStep?: number;
+  /** Per-draw acceptance statistic and energy (encodeFloats), so a resumed fit summarises exactly. */
+  acceptStat?: string;
+  energy?: string;
+}
+
+/** Phase durations of a run in milliseconds, e.g. { compile, warmup, sampling, diagnostics }. */
+export type RunTimings = Record<string, number>;

@@ -33,6 +33,7 @@ import {
   NOTEBOOK_FILE_VERSION,
   notebookFileSchema,
   tableNameSchema,
+  type CellContent,
   type NbCellKind,
 } from './api/notebook';
 import { fitSettingsSchema, type FitSettings } from './fit';
@@ -61,7 +62,7 @@ export function remapContent(
   content: unknown,
   cellRef: (id: string) => string | undefined,
   datasetRef: (id: string) => string | undefined,
-): unknown {
+): CellContent {
   const c = (content ?? {}) as Record<string, unknown>;
   switch (kind) {
     case 'data': {
@@ -70,7 +71,7 @@ export function remapContent(
     }
     case 'fit': {
       const id = typeof c.modelCellId === 'string' ? cellRef(c.modelCellId) : undefined;
-      return { modelCellId: id ?? null, settings: c.settings };
+      return { modelCellId: id ?? null, settings: c.settings as FitSettings };
     }
     case 'compare': {
       const ids = Array.isArray(c.modelCellIds) ? c.modelCellIds : [];

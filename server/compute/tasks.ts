@@ -14,8 +14,7 @@ import { columnsOf, describeCsvErrors } from '../notebook/tables';
 import { PROJECTION_MAX_UNKNOWNS, regionProjections } from '../notebook/projections';
 import type { RegionProjection, RunDraws } from '../../shared/api/notebook';
 import { BUILTIN_CHECK_STATS, type RunChecks } from '../../shared/checks';
-import { checkProgram } from '../../shared/lang/index';
-import { schemaOf } from '../engine/compile/index';
+import { checkProgram, dataSchemaOf } from '../../shared/lang/index';
 import { runModelChecks } from '../engine/predictive/checks';
 import { summariseChecks } from '../engine/predictive/summary';
 import type { ModelChecksInput } from '../runs/checks';
@@ -130,7 +129,7 @@ const encode: Task<{ names: DrawNames; chain: ChainResult }, EncodedChain> = ({ 
 
 /** A fit's model checks (server/runs/checks.ts): replicates, statistics, leave-one-out, in their stored form. */
 const modelChecks: Task<ModelChecksInput, RunChecks> = (x) => {
-  const check = checkProgram(x.source, schemaOf(x.tables));
+  const check = checkProgram(x.source, dataSchemaOf(x.tables));
   if (!check.ok) throw new Error(`the model no longer checks: ${check.messages[0]?.message ?? 'unknown problem'}`);
   const c = runModelChecks(check, x.tables, { unknownNames: x.unknownNames, chains: x.chains }, {
     seed: x.seed,

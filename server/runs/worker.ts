@@ -25,7 +25,7 @@ import type { Clock } from '../lib/clock';
 import { systemClock } from '../lib/clock';
 import { newId } from '../lib/ids';
 import { datasetMetaColumns, loadDataTables } from '../notebook/datasets';
-import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type EncodedChain, type RunRow, type RunSpec } from './queue';
+import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type EncodedChain, type RunRow } from './queue';
 import { computePool } from '../compute/pool';
 import { describe, isTransientDbError, retryDb } from './retry';
 import { computeRunChecks } from './checks';
@@ -222,7 +222,8 @@ export class RunWorker {
     let names: DrawNames | null = null;
 
     try {
-      const spec = run.spec as RunSpec;
+      const spec = run.spec;
+      if (!spec) throw new Error(`Run ${run.id} was queued without its model and data`);
       settings = fitSettingsSchema.parse(run.settings);
       const ids = Object.values(spec.tables);
       const rows = ids.length

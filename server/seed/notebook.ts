@@ -10,6 +10,7 @@ import { createHash } from 'node:crypto';
 import { and, eq } from 'drizzle-orm';
 import type { Db } from '../db/client';
 import { cells, datasets, runs } from '../db/schema';
+import type { CellContent } from '../../shared/api/notebook';
 import { newId } from '../lib/ids';
 import { readUpload } from '../notebook/datasets';
 import { runFit } from '../engine/fit';
@@ -177,7 +178,7 @@ export function notebookWriter(db: Db, t: DemoNotebookTarget, startPosition: num
       await db.insert(datasets).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId: null, name, columns, rowCount: rows, bytes: bytes.length, content: bytes, createdBy: t.userId, createdAt: now });
       return id;
     },
-    async addCell(kind: 'notes' | 'data' | 'model' | 'fit', source: string, content: unknown): Promise<string> {
+    async addCell(kind: 'notes' | 'data' | 'model' | 'fit', source: string, content: CellContent): Promise<string> {
       const id = newId();
       await db.insert(cells).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, kind, position: position++, source, content, version: 1, collapsed: false, createdBy: t.userId, updatedBy: t.userId, createdAt: now, updatedAt: now });
       return id;

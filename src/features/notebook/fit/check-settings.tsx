@@ -1,5 +1,7 @@
 import { useId } from 'react';
 import { CHECK_LIMITS, describeStat } from '@shared/checks';
+import { Field } from '@/components/ui/field';
+import { compactControlClass } from '@/components/ui/input';
 import type { FitSettings } from '@shared/fit';
 
 /** The user's own statistic, chosen from a short list (a name, never an expression). */
@@ -75,43 +77,46 @@ export function CheckSettingsFields({ draft, errors, disabled, onChange }: Check
   const preview = checkCandidate(draft).checkStat;
   return (
     <fieldset className="flex min-w-0 flex-col gap-3" data-testid="check-settings" disabled={disabled}>
-      <legend className="sl-cell-sub" style={{ marginBottom: '0.4rem' }}>
-        Checks against the data
-      </legend>
+      <legend className="mb-[0.4rem] text-[0.8rem] text-ink-soft">Checks against the data</legend>
       <div className="min-w-0">
         <label className="flex items-center gap-2 text-sm">
           <input type="checkbox" checked={draft.priorOnly} onChange={(e) => set({ priorOnly: e.target.checked })} />
           <span className="font-semibold">Before the data: priors and constraints only</span>
         </label>
-        <p className="sl-hint whitespace-normal">
+        <p className="mt-[0.2rem] text-[0.72rem] whitespace-normal text-ink-soft">
           Leaves out every term line that reads a data column, to see what the model expects before seeing the data. The run is labelled as a prior run.
         </p>
       </div>
       <div className="grid gap-3" style={{ gridTemplateColumns: 'repeat(auto-fit, minmax(12rem, 1fr))' }}>
-        <div className="sl-field">
-          <label htmlFor={`${uid}-reps`}>Replicated data sets</label>
+        <Field
+          htmlFor={`${uid}-reps`}
+          label="Replicated data sets"
+          error={errors.replicates}
+          hint={
+            <>
+              {CHECK_LIMITS.replicates.min}–{CHECK_LIMITS.replicates.max}, default {CHECK_LIMITS.replicates.default} · for models with a replicate line
+            </>
+          }
+        >
           <input
             id={`${uid}-reps`}
-            className="sl-input"
+            className={compactControlClass}
             inputMode="numeric"
             value={draft.replicates}
             aria-invalid={errors.replicates ? true : undefined}
             onChange={(e) => set({ replicates: e.target.value })}
           />
-          {errors.replicates ? (
-            <div className="sl-field-error" role="alert">{errors.replicates}</div>
-          ) : (
-            <div className="sl-hint">
-              {CHECK_LIMITS.replicates.min}–{CHECK_LIMITS.replicates.max}, default {CHECK_LIMITS.replicates.default} · for models with a replicate line
-            </div>
-          )}
-        </div>
-        <div className="sl-field">
-          <label htmlFor={`${uid}-stat`}>Your own statistic</label>
+        </Field>
+        <Field
+          htmlFor={`${uid}-stat`}
+          label="Your own statistic"
+          error={errors.checkStat}
+          hint={preview ? `also checks the ${describeStat(preview)}, overall and per group` : 'beside mean, sd, smallest, largest and share of zeros'}
+        >
           <div className="flex gap-2">
             <select
               id={`${uid}-stat`}
-              className="sl-input"
+              className={compactControlClass}
               style={{ fontFamily: 'inherit' }}
               value={draft.statKind}
               onChange={(e) => set({ statKind: e.target.value as StatKind, statArg: e.target.value === 'q' && draft.statKind !== 'q' ? '0.9' : draft.statArg })}
@@ -124,7 +129,7 @@ export function CheckSettingsFields({ draft, errors, disabled, onChange }: Check
             </select>
             {needsArg && (
               <input
-                className="sl-input"
+                className={compactControlClass}
                 style={{ width: '6rem' }}
                 inputMode="decimal"
                 aria-label={draft.statKind === 'q' ? 'Quantile (between 0 and 1)' : 'Number'}
@@ -134,12 +139,7 @@ export function CheckSettingsFields({ draft, errors, disabled, onChange }: Check
               />
             )}
           </div>
-          {errors.checkStat ? (
-            <div className="sl-field-error" role="alert">{errors.checkStat}</div>
-          ) : (
-            <div className="sl-hint">{preview ? `also checks the ${describeStat(preview)}, overall and per group` : 'beside mean, sd, smallest, largest and share of zeros'}</div>
-          )}
-        </div>
+        </Field>
       </div>
     </fieldset>
   );

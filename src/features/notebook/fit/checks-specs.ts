@@ -10,7 +10,7 @@
  */
 import type { LooSummary, Overlay, StatCheckSummary } from '@shared/checks';
 import { FONT_MONO, FONT_UI, PALETTE } from '@/lib/plot/palette';
-import type { Spec } from '@/lib/plot/specs';
+import type { Spec } from '../components/plot-frame';
 
 const base = (width: number, height: number): Spec => ({
   $schema: 'https://vega.github.io/schema/vega-lite/v6.json',

@@ -3,10 +3,11 @@ import { EXTREME_P, describeStat, isExtremeP, type ReplicateCheck, type RunCheck
 import { Badge } from '@/components/ui/badge';
 import { Banner } from '@/components/ui/banner';
 import { Table, TBody, THead, Td, Th, Tr } from '@/components/ui/table';
+import { compactControlClass } from '@/components/ui/input';
 import { formatDataValue, formatEstimate } from '@/lib/estimates';
 import { PlotFrame } from '../components/plot-frame';
 import { groupSpec, overlaySpec, paretoKSpec, pReading, type GroupRow } from './checks-specs';
-import type { Spec } from '@/lib/plot/specs';
+import type { Spec } from '../components/plot-frame';
 
 /** A chart that scrolls sideways inside its cell on narrow screens instead of widening the page. */
 function Figure({ spec, label }: { spec: Spec; label: string }) {
@@ -82,8 +83,8 @@ function GroupViews({ item, statistics }: { item: ReplicateCheck; statistics: st
         <span className="font-semibold">Group by group</span>
         {columns.length > 1 && (
           <label className="flex items-center gap-2">
-            <span className="sl-cell-sub">column</span>
-            <select className="sl-input" style={{ width: 'auto' }} value={column} onChange={(e) => setColumn(e.target.value)} aria-label="Grouping column">
+            <span className="text-[0.8rem] text-ink-soft">column</span>
+            <select className={compactControlClass} style={{ width: 'auto', fontFamily: 'inherit' }} value={column} onChange={(e) => setColumn(e.target.value)} aria-label="Grouping column">
               {columns.map((c) => (
                 <option key={c}>{c}</option>
               ))}
@@ -91,8 +92,8 @@ function GroupViews({ item, statistics }: { item: ReplicateCheck; statistics: st
           </label>
         )}
         <label className="flex items-center gap-2">
-          <span className="sl-cell-sub">statistic drawn</span>
-          <select className="sl-input" style={{ width: 'auto' }} value={stat} onChange={(e) => setStat(e.target.value)} aria-label="Statistic per group">
+          <span className="text-[0.8rem] text-ink-soft">statistic drawn</span>
+          <select className={compactControlClass} style={{ width: 'auto', fontFamily: 'inherit' }} value={stat} onChange={(e) => setStat(e.target.value)} aria-label="Statistic per group">
             {statistics.map((s) => (
               <option key={s} value={s}>
                 {describeStat(s)}
@@ -129,7 +130,7 @@ function GroupViews({ item, statistics }: { item: ReplicateCheck; statistics: st
           ))}
         </TBody>
       </Table>
-      <p className="sl-hint">
+      <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">
         {extremeCount === 0
           ? 'No group statistic is extreme.'
           : `${extremeCount} of ${groups.length * statistics.length} group statistics are extreme. With this many, a few extreme marks can arise by chance alone; several in one group or one statistic point at a feature the model misses.`}
@@ -158,7 +159,7 @@ function ItemView({ item, statistics, prior }: { item: ReplicateCheck; statistic
       {spec && item.overlay && (
         <div className="flex flex-col gap-1">
           <Figure spec={spec} label={`Distribution of ${item.name}: data against replicated data sets`} />
-          <p className="sl-hint">
+          <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">
             Each bin: the pale bar spans 90% of the replicated data sets' shares, the dark core the middle half, the stroke their median; the small dots
             are single replicated data sets. The black lid and dot are the data's own share — red where it leaves the pale bar.
             {item.overlay.clipped > 0 ? ` ${item.overlay.clipped.toLocaleString('en')} replicated values in the far tails fall outside the drawn range.` : ''}
@@ -174,7 +175,7 @@ function ItemView({ item, statistics, prior }: { item: ReplicateCheck; statistic
 function LooView({ checks }: { checks: RunChecks }) {
   const l = checks.loo;
   if (!l) {
-    return checks.looUnavailable ? <p className="sl-hint">Leave-one-out: not computed — {checks.looUnavailable}.</p> : null;
+    return checks.looUnavailable ? <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">Leave-one-out: not computed — {checks.looUnavailable}.</p> : null;
   }
   const spec = l.k ? paretoKSpec(l) : null;
   const named = l.highK.map((h) => `${h.table} row ${h.row} (k ${h.k === null ? '∞' : formatEstimate(h.k, 2)})`);
@@ -194,7 +195,7 @@ function LooView({ checks }: { checks: RunChecks }) {
           Their leave-one-out estimates cannot be trusted: these rows are highly influential or poorly fitted, so the total above is optimistic.
         </Banner>
       ) : (
-        <p className="sl-hint">Every row has Pareto k at or below {l.kThreshold}: the leave-one-out estimate is reliable row by row.</p>
+        <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">Every row has Pareto k at or below {l.kThreshold}: the leave-one-out estimate is reliable row by row.</p>
       )}
       {spec && <Figure spec={spec} label="Pareto k per data row" />}
     </div>
@@ -213,14 +214,14 @@ export function ChecksView({ checks }: { checks: RunChecks }) {
       <div className="flex flex-col gap-1">
         <h3 className="text-base font-semibold">{prior ? 'Checks against the data, before the data (prior predictive)' : 'Checks against the data'}</h3>
         {checks.items.length > 0 && (
-          <p className="sl-hint">
+          <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">
             {checks.replicates} data sets replicated from {prior ? 'the priors and constraints alone' : 'the fitted model'} ({checks.draws} draws
             {checks.thin > 1 ? `, every ${checks.thin}th` : ''}). p is the share of replicated data sets whose statistic exceeds the data's (ties count half);
             below {EXTREME_P.low} or above {EXTREME_P.high} is marked extreme.
             {prior ? '' : ' A posterior p-value near 0.5 is usual; it is not a test.'}
           </p>
         )}
-        {checks.skipped && <p className="sl-hint">No predictive checks: {checks.skipped}.</p>}
+        {checks.skipped && <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">No predictive checks: {checks.skipped}.</p>}
       </div>
       {checks.items.map((item) => (
         <ItemView key={item.name} item={item} statistics={checks.statistics} prior={prior} />

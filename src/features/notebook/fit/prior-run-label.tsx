@@ -19,7 +19,7 @@ export function PriorRunHeading({ run }: { run: Pick<Run, 'settings'> }) {
   return (
     <div className="flex flex-wrap items-center gap-2 text-sm" data-testid="prior-run-heading">
       <PriorRunBadge />
-      <span className="sl-hint">
+      <span className="mt-[0.2rem] text-[0.72rem] text-ink-soft">
         Fitted with the likelihood terms left out: these are the priors and constraints alone, before the data. The checks below are prior predictive checks.
       </span>
     </div>

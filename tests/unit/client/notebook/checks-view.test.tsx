@@ -16,9 +16,9 @@ import { fitSettingsSchema } from '../../../../shared/fit';
 import { ChecksView } from '../../../../src/features/notebook/fit/checks-view';
 import { checkCandidate, toCheckDraft } from '../../../../src/features/notebook/fit/check-settings';
 import { groupSpec, overlayRows, paretoKSpec } from '../../../../src/features/notebook/fit/checks-specs';
-import { FitResults } from '../../../../src/features/notebook/components/fit-results';
-import { FitSettingsForm } from '../../../../src/features/notebook/components/fit-settings-form';
-import { RunsList } from '../../../../src/features/notebook/components/runs-list';
+import { FitResults } from '../../../../src/features/notebook/fit/fit-results';
+import { FitSettingsForm } from '../../../../src/features/notebook/fit/fit-settings-form';
+import { RunsList } from '../../../../src/features/notebook/fit/runs-list';
 
 afterEach(cleanup);
 
