@@ -128,7 +128,8 @@ function looSummary(l: NonNullable<ModelChecks['loo']>): LooSummary {
     kMax: l.rows.length ? (Number.isFinite(kMax) ? kMax : null) : null,
     highKCount: l.highK.length,
     highK: worst.slice(0, LOO_LISTED_ROWS).map((h) => ({ table: h.table, row: h.row, k: fin(h.k) })),
-    ...(l.rows.length <= LOO_PLOTTED_ROWS ? { k: l.rows.map((r) => (Number.isFinite(r.k) ? r.k : null)) } : {}),
+    // Per-row k to three decimals for the plot (the named rows keep their full value).
+    ...(l.rows.length <= LOO_PLOTTED_ROWS ? { k: l.rows.map((r) => (Number.isFinite(r.k) ? Math.round(r.k * 1000) / 1000 : null)) } : {}),
   };
 }
 
