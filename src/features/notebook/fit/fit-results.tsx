@@ -24,7 +24,7 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
     <div className="flex flex-col gap-4" data-testid="fit-results">
       <PriorRunHeading run={run} />
       <VerdictBanner verdict={s.verdict} />
-      <QuantityRows quantities={s.quantities} chains={s.settings.chains} draws={s.settings.draws} />
+      <QuantityRows quantities={s.quantities} chains={s.settings.chains} draws={s.settings.draws} distribution={run.settings.priorOnly ? 'prior' : 'posterior'} />
       <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft" data-testid="run-diagnostics">
         {s.settings.chains} chains × {s.settings.draws} draws after {s.settings.warmup} warm-up · sampler {d.samplerUsed} ({d.samplerReason}) ·
         divergences <span className={d.divergences > 0 ? 'bg-alarm-soft font-bold text-alarm' : ''}>{d.divergences}</span>

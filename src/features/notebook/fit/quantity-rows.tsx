@@ -10,6 +10,8 @@ export interface QuantityRowsProps {
   chains: number;
   /** Kept draws per chain. */
   draws: number;
+  /** 'prior' for a run with the likelihood left out: the rows then describe the prior. */
+  distribution?: 'posterior' | 'prior';
 }
 
 /** Why a quantity's own mixing figures fail, in words (empty when they pass). */
@@ -60,7 +62,7 @@ function IntervalMark({ q, axis }: { q: QuantitySummary; axis: [number, number] 
  * the numbers, and a trust mark from that quantity's own R̂ and ESS (the shared thresholds). The
  * mixing figures themselves sit behind a fold.
  */
-export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
+export function QuantityRows({ quantities, chains, draws, distribution = 'posterior' }: QuantityRowsProps) {
   const axes = familyAxes(quantities);
   const nameLabel = useQuantityLabel();
   const total = chains * draws;
@@ -77,7 +79,7 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
       <div className="grid grid-cols-[1.4rem_minmax(5rem,9rem)_minmax(8rem,1fr)_minmax(7rem,12rem)] items-center gap-[0.6rem] border-b border-rule py-[0.15rem] text-[0.85rem] max-[520px]:grid-cols-[1.4rem_minmax(0,1fr)_minmax(0,1fr)] max-[520px]:gap-y-[0.1rem] max-[520px]:[grid-template-areas:'mark_name_nums'_'fig_fig_fig'] max-[520px]:[&>:nth-child(1)]:[grid-area:mark] max-[520px]:[&>:nth-child(2)]:[grid-area:name] max-[520px]:[&>:nth-child(3)]:[grid-area:fig] max-[520px]:[&>:nth-child(4)]:[grid-area:nums] text-[0.68rem] text-ink-soft border-b-rule-strong" aria-hidden>
         <span />
         <span>quantity</span>
-        <span className="max-[520px]:hidden">90 % of the posterior · median │ · mean ○</span>
+        <span className="max-[520px]:hidden">90 % of the {distribution} · median │ · mean ○</span>
         <span className="flex flex-wrap justify-end gap-x-[0.6rem] tabular-nums">median · 90 % interval</span>
       </div>
       {groups.map(([label, list]) =>

@@ -138,6 +138,7 @@ describe('prior runs are labelled', () => {
     render(<FitResults run={run(true)} draws={null} />);
     expect(screen.getByTestId('prior-run-heading').textContent).toMatch(/prior run · before the data/);
     expect(screen.getByTestId('checks-view').getAttribute('data-kind')).toBe('prior');
+    expect(screen.getByText(/90 % of the prior/)).toBeTruthy();
     cleanup();
     render(<FitResults run={run(false)} draws={null} />);
     expect(screen.queryByTestId('prior-run-heading')).toBeNull();
