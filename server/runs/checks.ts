@@ -99,12 +99,19 @@ export function checksInput(
  * The checks of a fit, on the compute pool. Never throws: a failure or the time limit is reported
  * in `skipped`, so the run keeps its draws and summary.
  */
-export async function computeRunChecks(source: string, tables: DataTables, fit: { unknownNames: string[]; chains: { draws: Float64Array }[] }, settings: FitSettings): Promise<RunChecks> {
+export async function computeRunChecks(
+  source: string,
+  tables: DataTables,
+  fit: { unknownNames: string[]; chains: { draws: Float64Array }[] },
+  settings: FitSettings,
+  opts: { timeoutMs?: number } = {},
+): Promise<RunChecks> {
+  const timeoutMs = opts.timeoutMs ?? CHECK_TIMEOUT_MS;
   const prep = checksInput(source, tables, fit, settings);
   if (!prep.ok) return skippedChecks(settings, prep.reason);
   try {
     return await computePool().run('modelChecks', prep.input, {
-      timeoutMs: CHECK_TIMEOUT_MS,
+      timeoutMs,
       transfer: prep.input.chains.map((c) => c.draws.buffer as ArrayBuffer),
     });
   } catch (e) {
@@ -112,7 +119,7 @@ export async function computeRunChecks(source: string, tables: DataTables, fit: 
     return skippedChecks(
       settings,
       e instanceof Error && e.name === 'ComputeTimeoutError'
-        ? `the checks took longer than ${CHECK_TIMEOUT_MS / 1000} s and were stopped; ask for fewer replicated data sets`
+        ? `the checks took longer than ${timeoutMs / 1000} s and were stopped; ask for fewer replicated data sets`
         : `the checks could not be computed: ${msg}`,
     );
   }

@@ -15,6 +15,9 @@
 import { createRequire } from 'node:module';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { RunWorker } from '../../../server/runs/worker';
+import { computeRunChecks } from '../../../server/runs/checks';
+import { parseCsv } from '../../../shared/data';
+import { fitSettingsSchema } from '../../../shared/fit';
 import { notebookWorld, postFile, type NotebookWorld } from './setup';
 
 type F = (...a: number[]) => number;
@@ -137,5 +140,19 @@ describe('model checks stored with a run', () => {
       const res = await w.editor.post(`${w.base}/cells/${fitCellId}/runs`, { settings: { ...settings, checkStat: bad } });
       expect(res.status).toBe(400);
     }
+  });
+
+  it('checks past their time limit are stopped on the compute pool and say why instead of throwing', async () => {
+    const tables = { tasting: parseCsv(CSV).table! };
+    const fit = { unknownNames: ['rate'], chains: [{ draws: Float64Array.from({ length: 400 }, (_, i) => 3 + (i % 7) / 7) }] };
+    const s = fitSettingsSchema.parse(settings);
+    const stopped = await computeRunChecks(MODEL, tables, fit, s, { timeoutMs: 1 });
+    expect(stopped.items).toEqual([]);
+    expect(stopped.skipped).toMatch(/took longer than 0.001 s and were stopped/);
+    // The same checks with the ordinary limit compute.
+    const done = await computeRunChecks(MODEL, tables, fit, s);
+    expect(done.skipped).toBeUndefined();
+    expect(done.items[0].stats).toHaveLength(6);
+    expect(done.draws).toBe(400);
   });
 });
