@@ -246,6 +246,80 @@ describe('on a phone (390 px wide)', () => {
     }));
 });
 
+describe('the other pages on a phone (390 px wide)', () => {
+  /** The page's own width does not exceed the screen: nothing scrolls sideways. */
+  async function expectNoSidewaysScroll(what: string) {
+    await page.waitForTimeout(300);
+    const w = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, client: document.documentElement.clientWidth }));
+    expect(w.scroll, `${what}: page width ${w.scroll} on a ${w.client} px screen`).toBeLessThanOrEqual(w.client);
+  }
+
+  it('the notebook list, the members page and the activity page do not scroll sideways', () =>
+    withShot('phone-pages', async () => {
+      await signInAs(DEMO_USER.email, DEMO_USER.password);
+      await page.setViewportSize({ width: 390, height: 844 });
+      try {
+        await page.goto(`${server.url}/w/${workspaceId}`);
+        await page.getByRole('link', { name: DEMO_NOTEBOOK }).waitFor();
+        await expectNoSidewaysScroll('notebook list');
+        // The list's own table does not hide its actions behind a sideways scroll either.
+        const table = page.getByRole('table', { name: 'Notebooks' });
+        const inner = await table.evaluate((t) => ({ scroll: t.parentElement!.scrollWidth, client: t.parentElement!.clientWidth }));
+        expect(inner.scroll).toBeLessThanOrEqual(inner.client);
+        for (const name of [`Rename ${DEMO_NOTEBOOK}`, `Delete ${DEMO_NOTEBOOK}`]) {
+          const box = await page.getByRole('button', { name, exact: true }).boundingBox();
+          expect(box).not.toBeNull();
+          expect(box!.x + box!.width, name).toBeLessThanOrEqual(390);
+        }
+        await page.screenshot({ path: await screenshotPath('phone-list.png'), fullPage: true });
+        await page.goto(`${server.url}/w/${workspaceId}/members`);
+        await page.getByRole('heading', { name: /Members/ }).first().waitFor();
+        await expectNoSidewaysScroll('members page');
+        await page.screenshot({ path: await screenshotPath('phone-members.png'), fullPage: true });
+        await page.goto(`${server.url}/w/${workspaceId}/activity`);
+        await page.getByRole('heading').first().waitFor();
+        await expectNoSidewaysScroll('activity page');
+        await page.goto(`${server.url}/`);
+        await page.getByRole('link', { name: /Alder Creek/ }).first().waitFor();
+        await expectNoSidewaysScroll('workspaces page');
+      } finally {
+        await page.setViewportSize({ width: 1280, height: 860 });
+      }
+    }));
+
+  it('a reviewer on a phone reads the model with its region, the results and the comments', () =>
+    withShot('phone-reviewer', async () => {
+      const c = server.client();
+      const person = await signUp(c, { name: 'Pia Phone' });
+      await server.db.db.insert(memberships).values({ workspaceId, userId: person.id, role: 'reviewer', createdAt: server.clock.now() });
+      await signInAs(person.email, TEST_PASSWORD);
+      await page.setViewportSize({ width: 390, height: 844 });
+      try {
+        await page.goto(notebookUrl);
+        const model = page.locator('section[data-kind="model"]').first();
+        const panel = model.getByTestId('model-side-panel');
+        await panel.getByTestId('region-status').filter({ hasText: 'interior found' }).waitFor();
+        expect(await panel.innerText()).toContain('share');
+        const fit = page.locator('section[data-kind="fit"]').first();
+        await fit.getByTestId('quantity-row').first().waitFor();
+        await fit.getByTestId('triangle-figure').waitFor();
+        await model.getByRole('button', { name: /^Comments on this model cell/ }).click();
+        await page.getByTestId('comment-thread').filter({ hasText: 'same lab' }).waitFor();
+        await expectNoSidewaysScroll('notebook with the comments open, as a reviewer');
+        // The side panel, the results and the comment box are on screen horizontally.
+        for (const el of [panel, fit.getByTestId('quantity-row').first(), page.getByLabel('Comment on this cell…')]) {
+          const box = await el.boundingBox();
+          expect(box).not.toBeNull();
+          expect(box!.x).toBeGreaterThanOrEqual(0);
+          expect(box!.x + box!.width).toBeLessThanOrEqual(390);
+        }
+        await page.screenshot({ path: await screenshotPath('phone-reviewer-comments.png') });
+      } finally {
+        await page.setViewportSize({ width: 1280, height: 860 });
+      }
+    }));
+});
+
 describe('the results in our own figures (desktop)', () => {
   it('rows with inline intervals, the triangle, the chain agreement and the ladder; screenshots', () =>
     withShot('results', async () => {
