@@ -275,6 +275,19 @@ describe('the other pages on a phone (390 px wide)', () => {
         await page.goto(`${server.url}/w/${workspaceId}/members`);
         await page.getByRole('heading', { name: /Members/ }).first().waitFor();
         await expectNoSidewaysScroll('members page');
+        // Every member's role picker and Remove, and every share link's Revoke, are on screen, not
+        // behind a table's own sideways scroll (the link made above is listed, so both tables are here).
+        await page.getByRole('table', { name: 'Share links' }).waitFor();
+        for (const name of ['Members', 'Share links']) {
+          const table = page.getByRole('table', { name });
+          const own = await table.evaluate((t) => ({ scroll: t.parentElement!.scrollWidth, client: t.parentElement!.clientWidth }));
+          expect(own.scroll, `${name} table`).toBeLessThanOrEqual(own.client);
+          for (const control of await table.locator('select, button').all()) {
+            const box = await control.boundingBox();
+            expect(box).not.toBeNull();
+            expect(box!.x + box!.width, `${name} table control`).toBeLessThanOrEqual(390);
+          }
+        }
         await page.screenshot({ path: await screenshotPath('phone-members.png'), fullPage: true });
         await page.goto(`${server.url}/w/${workspaceId}/activity`);
         await page.getByRole('heading').first().waitFor();
