@@ -175,6 +175,25 @@ describe('every draw lies inside the drawn region', () => {
     const fit = page.locator('section[data-kind="fit"]').nth(1);
     await openRegionTab(fit);
     await checkEveryPair(fit, 4, 'ordered');
+    // The same means as one monotone curve: the median line and every single-draw line never fall
+    // (the SVG's y axis points down, so y never grows from left to right).
+    await fit.getByRole('tab', { name: 'Curve' }).click();
+    const band = fit.getByTestId('band-view');
+    await band.waitFor();
+    const paths = await band.evaluate((el) =>
+      [...el.querySelectorAll('[data-testid="band-draw"], [data-testid="band-median"]')].map((p) =>
+        [...(p.getAttribute('d') ?? '').matchAll(/[ML]\s*(-?[\d.]+),(-?[\d.]+)/g)].map((m) => [Number(m[1]), Number(m[2])]),
+      ),
+    );
+    expect(paths.length).toBeGreaterThan(2);
+    for (const pts of paths) {
+      expect(pts).toHaveLength(4);
+      for (let k = 1; k < pts.length; k++) {
+        expect(pts[k][0]).toBeGreaterThan(pts[k - 1][0]);
+        expect(pts[k][1]).toBeLessThanOrEqual(pts[k - 1][1] + 0.05); // coordinates are written with one decimal
+      }
+    }
+    await fit.screenshot({ path: await screenshotPath('band-ordered.png') });
   });
 
   it('a random polytope in three unknowns: every pair', async () => {
