@@ -327,6 +327,19 @@ describe('the other pages on a phone (390 px wide)', () => {
           expect(box!.x + box!.width).toBeLessThanOrEqual(390);
         }
         await page.screenshot({ path: await screenshotPath('phone-reviewer-comments.png') });
+
+        // A share-link visitor on the same phone: the read-only side panel and the results, nothing sideways.
+        const owner = new TestClient(server.url);
+        await signIn(owner, DEMO_USER.email, DEMO_USER.password);
+        const link = await owner.post(`/api/workspaces/${workspaceId}/notebooks/${notebookId}/share-links`, {});
+        expect(link.status).toBe(201);
+        await page.context().clearCookies();
+        await page.goto(`${server.url}${link.body.path}`);
+        const sharedPanel = page.locator('section[data-kind="model"]').first().getByTestId('model-side-panel');
+        await sharedPanel.getByTestId('region-status').filter({ hasText: 'interior found' }).waitFor();
+        await page.locator('section[data-kind="fit"]').first().getByTestId('quantity-row').first().waitFor();
+        await expectNoSidewaysScroll('shared notebook');
+        await page.locator('section[data-kind="fit"]').first().screenshot({ path: await screenshotPath('phone-shared-fit.png') });
       } finally {
         await page.setViewportSize({ width: 1280, height: 860 });
       }
