@@ -234,6 +234,23 @@ describe('on a phone (390 px wide)', () => {
         });
         expect(cutoff).toBe(0);
         expect(await fit.getByTestId('quantity-row').count()).toBeGreaterThan(0);
+        // No quantity name is cut short (roads_minus_fields wraps instead of ending in an ellipsis).
+        const cutNames = await fit.evaluate((cell) =>
+          [...cell.querySelectorAll<HTMLElement>('[data-testid="quantity-name"]')].filter((n) => n.scrollWidth > n.clientWidth + 0.5).map((n) => n.textContent),
+        );
+        expect(cutNames).toEqual([]);
+        await fit.getByTestId('mixing-figures').locator('summary').click();
+        // The mixing figures behind the fold are all on screen: no column cut off or scrolled away.
+        const mixing = await fit.getByTestId('mixing-table').evaluate((t) => ({
+          scroll: t.parentElement!.scrollWidth,
+          client: t.parentElement!.clientWidth,
+          cells: t.querySelectorAll('tbody td').length,
+          offscreen: [...t.querySelectorAll('tbody td, tbody th')].filter((c) => c.getBoundingClientRect().right > 390 || c.getBoundingClientRect().width === 0).length,
+        }));
+        expect(mixing.scroll).toBeLessThanOrEqual(mixing.client);
+        expect(mixing.cells).toBeGreaterThan(0);
+        expect(mixing.offscreen).toBe(0);
+        await fit.getByTestId('mixing-figures').screenshot({ path: await screenshotPath('phone-mixing-figures.png') });
         await page.screenshot({ path: await screenshotPath('phone-notebook.png'), fullPage: true });
         await page.evaluate(() => window.scrollTo(0, 0));
         await page.screenshot({ path: await screenshotPath('phone-top.png') });
