@@ -2,6 +2,7 @@ import type { RunDraws } from '@shared/api/notebook';
 import { formatEstimate } from '@/lib/estimates';
 import { thinIndices } from '@/lib/plot/thin';
 import { quantileSorted } from './mixing';
+import { useQuantityLabel } from '../quantity-labels';
 
 /**
  * A monotone curve (θ₁ ≤ θ₂ ≤ … in the order the constraints impose) as a band: along the order,
@@ -48,6 +49,7 @@ export function buildBand(draws: RunDraws, path: readonly number[], maxCurves = 
 
 export function BandView({ band }: { band: Band }) {
   const { steps, curves } = band;
+  const label = useQuantityLabel();
   const W = 520;
   const H = 300;
   const PAD = { l: 56, r: 16, t: 14, b: 44 };
@@ -62,7 +64,7 @@ export function BandView({ band }: { band: Band }) {
   const area = (low: number[], high: number[]) => `${line(high)} ${low.map((v, i) => i).reverse().map((i) => `L${x(i).toFixed(1)},${y(low[i]).toFixed(1)}`).join(' ')} Z`;
   return (
     <figure style={{ margin: 0 }} aria-label="Monotone curve" data-testid="plot">
-      <svg viewBox={`0 0 ${W} ${H}`} className="block h-auto w-full max-w-[40rem]" role="img" aria-label={`Curve along ${steps.map((s) => s.name).join(' ≤ ')}`} data-testid="band-view">
+      <svg viewBox={`0 0 ${W} ${H}`} className="block h-auto w-full max-w-[40rem]" role="img" aria-label={`Curve along ${steps.map((s) => label(s.name)).join(' ≤ ')}`} data-testid="band-view">
         <rect x={PAD.l} y={PAD.t} width={W - PAD.l - PAD.r} height={H - PAD.t - PAD.b} fill="none" stroke="var(--color-rule)" />
         <path d={area(steps.map((s) => s.q5), steps.map((s) => s.q95))} fill="var(--color-slack-soft)" stroke="none" data-testid="band-outer" />
         <path d={area(steps.map((s) => s.q25), steps.map((s) => s.q75))} fill="var(--color-slack)" fillOpacity="0.22" stroke="none" />
@@ -73,7 +75,7 @@ export function BandView({ band }: { band: Band }) {
         {steps.map((s, i) => (
           <g key={s.name}>
             <line x1={x(i)} x2={x(i)} y1={H - PAD.b} y2={H - PAD.b + 4} stroke="var(--color-ink-soft)" />
-            <text x={x(i)} y={H - PAD.b + 16} textAnchor="middle" className="fill-ink font-mono text-[10px]">{s.name}</text>
+            <text x={x(i)} y={H - PAD.b + 16} textAnchor="middle" className="fill-ink font-mono text-[10px]">{label(s.name)}</text>
             {i > 0 && (
               <text x={(x(i) + x(i - 1)) / 2} y={H - PAD.b + 16} textAnchor="middle" className="font-mono text-[10px]" style={{ fill: 'var(--color-slack)' }}>≤</text>
             )}

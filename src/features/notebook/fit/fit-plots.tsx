@@ -11,6 +11,7 @@ import { MixingView } from './mixing-view';
 import { LadderView } from './ladder-view';
 import { BandView, buildBand } from './band-view';
 import { compactControlClass } from '@/components/ui/input';
+import { useQuantityLabel } from '../quantity-labels';
 
 export const PLOT_KINDS = ['region', 'mixing', 'ladder', 'band', 'pair'] as const;
 export type PlotKind = (typeof PLOT_KINDS)[number];
@@ -39,6 +40,8 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
   const [ladder, setLadder] = useState(0);
   const [pair, setPair] = useState<[number, number]>([0, Math.min(1, draws.names.length - 1)]);
   const chains = draws.chains.length;
+  // Figures name elements of unknowns gathered by a category column by their level, as the result rows do.
+  const label = useQuantityLabel();
   const triples = useMemo(() => shareTriples(draws.region), [draws.region]);
   /** Region view: -1 for two unknowns, otherwise the index of a triple of shares. */
   const [regionMode, setRegionMode] = useState(triples.length > 0 ? 0 : -1);
@@ -48,13 +51,13 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
     if (kind === 'region') {
       if (triangle) {
         const v = buildTriangleView(draws, triangle.members, triangle.total);
-        const names = triangle.members.map((k) => draws.names[k]) as [string, string, string];
+        const names = triangle.members.map((k) => label(draws.names[k])) as [string, string, string];
         return { available: v.available, clipped: v.clipped, node: <TriangleFigure names={names} polygon={v.polygon} draws={v.draws} point={v.point} /> };
       }
       const [i, j] = pair;
       if (i === j || i >= draws.unknownCount || j >= draws.unknownCount) return null;
       const v = buildRegionView(draws, i, j);
-      return { available: v.available, clipped: v.clipped, node: <RegionFigure xName={draws.names[i]} yName={draws.names[j]} box={v.box} polygon={v.polygon} draws={v.draws} point={v.point} /> };
+      return { available: v.available, clipped: v.clipped, node: <RegionFigure xName={label(draws.names[i])} yName={label(draws.names[j])} box={v.box} polygon={v.polygon} draws={v.draws} point={v.point} /> };
     }
     if (kind === 'mixing') {
       const series = draws.chains.map((c) => ({ chain: c.chain, values: c.values[q] ?? [] }));
@@ -79,7 +82,7 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
       return [...keep].sort((a, b) => a - b).map((t) => ({ x: c.values[i][t], y: c.values[j][t], chain: c.chain, divergent: c.divergent[t] ?? 0 }));
     });
     return { available: true, clipped: false, node: <PlotFrame spec={pairSpec(draws.names[i], draws.names[j], rows, chains)} label="Two quantities plot" /> };
-  }, [kind, triangle, pair, q, ladder, draws, chains, byName, ladders]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [kind, triangle, pair, q, ladder, draws, chains, byName, ladders, label]); // eslint-disable-line react-hooks/exhaustive-deps
 
   const pairChoices = kind === 'region' ? draws.names.slice(0, draws.unknownCount) : draws.names;
 

@@ -5,6 +5,7 @@ import { readFileSync } from 'node:fs';
 import { pairSpec } from '../../../../src/features/notebook/fit/pair-spec';
 import { PALETTE } from '../../../../src/lib/plot/palette';
 import { FitPlots } from '../../../../src/features/notebook/fit/fit-plots';
+import { QuantityLabelsContext } from '../../../../src/features/notebook/quantity-labels';
 import { buildBand } from '../../../../src/features/notebook/fit/band-view';
 import type { RunDraws } from '../../../../shared/api/notebook';
 
@@ -109,5 +110,30 @@ describe('band view of a monotone curve', () => {
     fireEvent.click(screen.getByRole('tab', { name: 'Curve' }));
     expect(screen.getByTestId('band-view')).toBeTruthy();
     expect(screen.getAllByTestId('band-draw').length).toBeGreaterThan(0);
+  });
+});
+
+describe('figures name category levels like the result rows', () => {
+  it('the triangle corners, the region axes, the ladder and the curve use the level labels', () => {
+    const label = (n: string) => (n === 'w[1]' ? 'w[1] (north)' : n === 'm[1]' ? 'm[1] (light)' : n);
+    const { unmount } = render(
+      <QuantityLabelsContext.Provider value={label}>
+        <FitPlots draws={draws} />
+      </QuantityLabelsContext.Provider>,
+    );
+    expect(screen.getByTestId('triangle-figure').textContent).toContain('w[1] (north)');
+    fireEvent.change(screen.getByLabelText('Region view'), { target: { value: '-1' } });
+    expect(screen.getByTestId('region-figure').textContent).toContain('w[1] (north)');
+    unmount();
+    const q = (name: string, q50: number) => ({ name, kind: 'unknown' as const, mean: q50, sd: 1, q5: q50 - 1, q50, q95: q50 + 1, rhat: 1, essBulk: 1000, essTail: 1000, mcseMean: 0.01, mcseSd: 0.01, mcseQ5: 0.01, mcseQ50: 0.01, mcseQ95: 0.01 });
+    render(
+      <QuantityLabelsContext.Provider value={label}>
+        <FitPlots draws={ordered} quantities={[q('m[1]', 5), q('m[2]', 7), q('m[3]', 12)]} />
+      </QuantityLabelsContext.Provider>,
+    );
+    fireEvent.click(screen.getByRole('tab', { name: 'Order' }));
+    expect(screen.getByTestId('ladder-view').textContent).toContain('m[1] (light)');
+    fireEvent.click(screen.getByRole('tab', { name: 'Curve' }));
+    expect(screen.getByTestId('band-view').textContent).toContain('m[1] (light)');
   });
 });
