@@ -1,6 +1,7 @@
 /**
- * The notebook's keyboard, each role's view of a model cell and its comments, and the page on a
- * phone-sized screen (390 px wide), in a real browser against the demo notebook.
+ * The notebook's keyboard, each role's view of a model cell and its comments, and the pages on a
+ * phone-sized screen (390 px wide: the notebook as owner, reviewer and share-link visitor, the
+ * notebook list, the members and activity pages), in a real browser against the demo notebook.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
