@@ -134,11 +134,12 @@ describe('data preview', () => {
     render(<DataPreview dataset={DATASET} rows={ROWS} />);
     const yieldCol = () => screen.getAllByRole('row').slice(1).map((r) => r.querySelectorAll('td')[2].textContent);
     fireEvent.click(screen.getByTitle('Sort by yield'));
-    expect(yieldCol()).toEqual(['1.25', '2', '3.5', '·']);
+    // One count of decimals for the whole column: 2.00 and 3.50 beside 1.25.
+    expect(yieldCol()).toEqual(['1.25', '2.00', '3.50', '·']);
     fireEvent.click(screen.getByTitle('Sort by yield'));
-    expect(yieldCol()).toEqual(['3.5', '2', '1.25', '·']);
+    expect(yieldCol()).toEqual(['3.50', '2.00', '1.25', '·']);
     fireEvent.click(screen.getByTitle('Sort by yield'));
-    expect(yieldCol()).toEqual(['3.5', '·', '1.25', '2']);
+    expect(yieldCol()).toEqual(['3.50', '·', '1.25', '2.00']);
   });
 
   it('warns about a column name a model cannot use, naming one it could, and still shows the table', () => {
