@@ -5,6 +5,7 @@
  */
 import { parseCsv, type ParsedTable } from '../../shared/data';
 import { drawsCsvHeader, drawsCsvRows } from '../../shared/export-csv';
+import { encodeDrawsBody } from '../../shared/draws-binary';
 import type { CompileResponse, DatasetColumn, RegionSystem } from '../../shared/api/notebook';
 import type { DataTables } from '../engine/types';
 import { decodeDraws, decodeFlags, encodeChain, type DrawNames, type EncodedChain } from '../runs/draws-codec';
@@ -48,7 +49,9 @@ export interface StoredChainInput {
 }
 export interface ThinDrawsOutput {
   thin: number;
-  chains: { chain: number; values: number[][]; divergent: number[] }[];
+  drawsPerChain: number;
+  /** The binary body of the draws response (shared/draws-binary.ts). */
+  body: Uint8Array;
 }
 
 type Task<I, O> = (input: I) => { output: O; transfer?: ArrayBuffer[] };
@@ -70,23 +73,22 @@ const check: Task<CheckModelInput, CheckModelOutput> = ({ source, tables, region
   return { output: { response: m.response, dim: m.check.dim, derivedNames: m.check.derivedNames.slice(), regionSystem: sys } };
 };
 
-/** Every `thin`-th draw of each chain, at most `max` per chain, per quantity. */
+/**
+ * Every `thin`-th draw of each chain, at most `max` per chain, encoded once as the columnar binary
+ * body the plots read (shared/draws-binary.ts: Float32 blocks per chain and quantity, then flags).
+ */
 const thinDraws: Task<{ chains: StoredChainInput[]; quantities: number; max: number }, ThinDrawsOutput> = ({ chains, quantities, max }) => {
   const n = chains[0]?.drawCount ?? 0;
   // A regular stride, so "every thin-th draw" is exact and iterations can be labelled.
   const thin = Math.max(1, Math.ceil(n / Math.max(1, max)));
   const idx: number[] = [];
   for (let t = 0; t < n; t += thin) idx.push(t);
-  const out = chains.map((c) => {
-    const draws = decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension);
-    const flags = decodeFlags(c.divergent, c.drawCount);
-    return {
-      chain: c.chain,
-      values: Array.from({ length: quantities }, (_, q) => idx.map((t) => draws[t * c.dimension + q])),
-      divergent: idx.map((t) => flags[t]),
-    };
-  });
-  return { output: { thin, chains: out } };
+  const body = encodeDrawsBody(
+    chains.map((c) => ({ rows: decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension), dimension: c.dimension, divergent: decodeFlags(c.divergent, c.drawCount) })),
+    quantities,
+    idx,
+  );
+  return { output: { thin, drawsPerChain: idx.length, body }, transfer: [body.buffer as ArrayBuffer] };
 };
 
 /**
@@ -108,14 +110,16 @@ const projections: Task<{ region: NonNullable<RunDraws['region']>; chains: Store
   return { output: regionProjections(region, ranges) };
 };
 
-/** The draws export as UTF-8 CSV: header, then every draw of every chain. */
-const drawsCsv: Task<{ names: string[]; chains: StoredChainInput[] }, Uint8Array> = ({ names, chains }) => {
-  const parts: string[] = [drawsCsvHeader(names) + '\n'];
-  for (const c of chains) {
-    const draws = decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension);
-    // Stored draws hold unknowns and derived quantities side by side in one row.
-    for (const row of drawsCsvRows(c.chain, draws, c.dimension, new Float64Array(0), 0)) parts.push(row + '\n');
-  }
+/**
+ * One bounded piece of the draws export as UTF-8 CSV: the header when `names` is given, then the
+ * rows of `drawCount` consecutive draws of one chain starting at iteration `firstIteration` (1-based).
+ * The server streams the pieces to the response one after another (server/runs/read.ts).
+ */
+const drawsCsvChunk: Task<{ names?: string[]; chain: number; firstIteration: number; draws: Uint8Array; drawCount: number; dimension: number }, Uint8Array> = (x) => {
+  const parts: string[] = x.names ? [drawsCsvHeader(x.names) + '\n'] : [];
+  const draws = decodeDraws(asBuffer(x.draws), x.drawCount, x.dimension);
+  // Stored draws hold unknowns and derived quantities side by side in one row.
+  for (const row of drawsCsvRows(x.chain, draws, x.dimension, new Float64Array(0), 0, x.firstIteration)) parts.push(row + '\n');
   const bytes = new TextEncoder().encode(parts.join(''));
   return { output: bytes, transfer: [bytes.buffer as ArrayBuffer] };
 };
@@ -141,7 +145,7 @@ const modelChecks: Task<ModelChecksInput, RunChecks> = (x) => {
   return { output: summariseChecks(c, x.statistics, { draws: x.draws, thin: x.thin }) };
 };
 
-export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, encodeChain: encode, projections, modelChecks };
+export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsvChunk, encodeChain: encode, projections, modelChecks };
 export type TaskName = keyof typeof TASKS;
 export type TaskInput<K extends TaskName> = Parameters<(typeof TASKS)[K]>[0];
 export type TaskOutput<K extends TaskName> = ReturnType<(typeof TASKS)[K]>['output'];
