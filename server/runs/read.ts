@@ -195,12 +195,12 @@ export interface CsvSink {
  * pool in bounded pieces (a few thousand rows each) and written to `sink` one after another, so the
  * main thread never holds the whole file.
  */
-export async function streamRunDrawsCsv(exec: Exec, workspaceId: string, runId: string, sink: CsvSink): Promise<void> {
+export async function streamRunDrawsCsv(exec: Exec, workspaceId: string, runId: string, sink: CsvSink, chunkBytes = CSV_CHUNK_BYTES): Promise<void> {
   const loaded = await storedChainInputs(exec, workspaceId, runId);
   let first = true;
   for (const c of loaded.chains) {
     const rowBytes = c.dimension * 8;
-    const per = Math.max(1, Math.floor(CSV_CHUNK_BYTES / Math.max(1, rowBytes)));
+    const per = Math.max(1, Math.floor(chunkBytes / Math.max(1, rowBytes)));
     for (let t = 0; t < c.drawCount || (first && t === 0); t += per) {
       const count = Math.min(per, c.drawCount - t);
       const piece = await computePool()
