@@ -1,5 +1,6 @@
 /**
- * The work the compute pool runs off the main thread: parsing an uploaded or stored table, the
+ * The work the compute pool runs off the main thread: parsing an uploaded table (and encoding it as
+ * the typed columns stored beside the CSV), the
  * model check with its region test, and reading stored draws for plots and the CSV export.
  * Each task takes and returns structured-cloneable values (typed arrays travel as transfers).
  */
@@ -12,6 +13,7 @@ import { decodeDraws, decodeFlags, encodeChain, type DrawNames, type EncodedChai
 import type { ChainResult } from '../engine/types';
 import { checkModel, regionSystem } from '../notebook/model';
 import { columnsOf, describeCsvErrors } from '../notebook/tables';
+import { encodeTableColumns } from '../notebook/table-columns';
 import { PROJECTION_MAX_UNKNOWNS, regionProjections } from '../notebook/projections';
 import type { RegionProjection, RunDraws } from '../../shared/api/notebook';
 import { BUILTIN_CHECK_STATS, type RunChecks } from '../../shared/checks';
@@ -21,7 +23,7 @@ import { summariseChecks } from '../engine/predictive/summary';
 import type { ModelChecksInput } from '../runs/checks';
 
 export type ParseTableOutput =
-  | { ok: true; table: ParsedTable; columns: DatasetColumn[]; rows: number }
+  | { ok: true; table: ParsedTable; columns: DatasetColumn[]; rows: number; /** The table as stored typed columns (server/notebook/table-columns.ts). */ stored: Uint8Array }
   | { ok: false; message: string; field: string };
 
 export interface CheckModelInput {
@@ -63,8 +65,9 @@ const parseTable: Task<{ bytes: Uint8Array }, ParseTableOutput> = ({ bytes }) =>
   if (!result.table) {
     return { output: { ok: false, message: describeCsvErrors(result), field: result.issues.find((i) => i.severity === 'error')?.message ?? 'Not a usable CSV file' } };
   }
-  const transfer = Object.values(result.table.columns).map((c) => c.values.buffer as ArrayBuffer);
-  return { output: { ok: true, table: result.table, columns: columnsOf(result), rows: result.table.rows }, transfer };
+  const stored = encodeTableColumns(result.table);
+  const transfer = [...Object.values(result.table.columns).map((c) => c.values.buffer as ArrayBuffer), stored.buffer as ArrayBuffer];
+  return { output: { ok: true, table: result.table, columns: columnsOf(result), rows: result.table.rows, stored }, transfer };
 };
 
 const check: Task<CheckModelInput, CheckModelOutput> = ({ source, tables, region, regionNames }) => {

@@ -63,6 +63,11 @@ export const notebookRoutes = {
     purpose: 'A dataset with its column types, missing counts and the first rows',
     params: nb.datasetParams, response: nb.datasetPreviewResponse,
   },
+  getDatasetRows: {
+    method: 'GET', path: '/api/workspaces/:workspaceId/datasets/:datasetId/rows', access: 'viewer', status: 200,
+    purpose: 'A page of a dataset\'s rows (`offset`, `limit` up to 500) for the preview, read from its stored typed columns',
+    params: nb.datasetParams, query: nb.datasetRowsQuery, response: nb.datasetRowsResponse,
+  },
 
   // ---- model check ----
   compileModel: {
@@ -162,5 +167,10 @@ export const notebookRoutes = {
     method: 'GET', path: '/api/share/:token/datasets/:datasetId', access: 'share-token', status: 200,
     purpose: 'Preview of a dataset shown by a data cell of the shared notebook',
     params: shareDataset, response: nb.sharedDatasetPreviewResponse,
+  },
+  sharedDatasetRows: {
+    method: 'GET', path: '/api/share/:token/datasets/:datasetId/rows', access: 'share-token', status: 200,
+    purpose: 'A page of the rows of a dataset shown by a data cell of the shared notebook',
+    params: shareDataset, query: nb.datasetRowsQuery, response: nb.datasetRowsResponse,
   },
 } as const satisfies Record<string, RouteDef>;
