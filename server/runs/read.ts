@@ -193,33 +193,43 @@ export interface CsvSink {
 /**
  * The draws export (header and every draw of every chain) as UTF-8 CSV, formatted on the compute
  * pool in bounded pieces (a few thousand rows each) and written to `sink` one after another, so the
- * main thread never holds the whole file.
+ * main thread never holds the whole file. The next piece is formatted while the last is written.
  */
 export async function streamRunDrawsCsv(exec: Exec, workspaceId: string, runId: string, sink: CsvSink, chunkBytes = CSV_CHUNK_BYTES): Promise<void> {
   const loaded = await storedChainInputs(exec, workspaceId, runId);
-  let first = true;
+  const pieces: { c: StoredChainInput; t: number; count: number }[] = [];
   for (const c of loaded.chains) {
+    const per = Math.max(1, Math.floor(chunkBytes / Math.max(1, c.dimension * 8)));
+    for (let t = 0; t < c.drawCount; t += per) pieces.push({ c, t, count: Math.min(per, c.drawCount - t) });
+  }
+  // A run whose chains kept no draw still has its header.
+  if (pieces.length === 0) pieces.push({ c: loaded.chains[0], t: 0, count: 0 });
+  const format = (i: number) => {
+    const { c, t, count } = pieces[i];
     const rowBytes = c.dimension * 8;
-    const per = Math.max(1, Math.floor(chunkBytes / Math.max(1, rowBytes)));
-    for (let t = 0; t < c.drawCount || (first && t === 0); t += per) {
-      const count = Math.min(per, c.drawCount - t);
-      const piece = await computePool()
-        .run('drawsCsvChunk', {
-          ...(first ? { names: loaded.names } : {}),
-          chain: c.chain,
-          firstIteration: t + 1,
-          // A copy of just these rows: the thread gets (and is handed) no more than it formats.
-          draws: c.draws.slice(t * rowBytes, (t + count) * rowBytes),
-          drawCount: count,
-          dimension: c.dimension,
-        })
-        .catch((e: unknown) => {
-          throw computeFailure(e, 'Writing the draws file');
-        });
-      if (first) sink.begin();
-      first = false;
-      await sink.write(piece);
+    return computePool()
+      .run('drawsCsvChunk', {
+        ...(i === 0 ? { names: loaded.names } : {}),
+        chain: c.chain,
+        firstIteration: t + 1,
+        // A copy of just these rows: the thread gets (and is handed) no more than it formats.
+        draws: c.draws.slice(t * rowBytes, (t + count) * rowBytes),
+        drawCount: count,
+        dimension: c.dimension,
+      })
+      .catch((e: unknown) => {
+        throw computeFailure(e, 'Writing the draws file');
+      });
+  };
+  let next = format(0);
+  for (let i = 0; i < pieces.length; i++) {
+    const piece = await next;
+    if (i + 1 < pieces.length) {
+      next = format(i + 1);
+      next.catch(() => {}); // awaited on the next turn; a failed write must not leave it unhandled
     }
+    if (i === 0) sink.begin();
+    await sink.write(piece);
   }
   sink.end();
 }
