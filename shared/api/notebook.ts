@@ -383,7 +383,11 @@ export const regionProjectionSchema = z.object({
 });
 export type RegionProjection = z.infer<typeof regionProjectionSchema>;
 
-/** Draws for plotting: per chain, per quantity, the kept draws (possibly thinned). */
+/**
+ * Draws for plotting as plain arrays: per chain, per quantity, the kept draws (possibly thinned).
+ * The draws routes send the same content in binary (shared/draws-binary.ts); the plots accept
+ * either (PlotDraws), and the region types here are shared by both.
+ */
 export const runDrawsResponse = z.object({
   names: z.array(z.string()),
   /** Number of unknown coordinates; names after these are derived quantities. */
