@@ -10,10 +10,19 @@ import type { AppContext } from '../context';
 import { mount } from '../http/route';
 import { notFound } from '../http/errors';
 import { findCell } from '../notebook/cells';
-import { cellRuns, findRun, runDraws, runDrawsCsv } from '../runs/read';
+import { cellRuns, findRun, runDraws, streamRunDrawsCsv, type DrawsBytes } from '../runs/read';
+import { DRAWS_CONTENT_TYPE } from '../../shared/draws-binary';
 import { cancelQueuedOrRunning, queueRun } from '../runs/create';
 
 const DEFAULT_PLOT_DRAWS = 1000;
+
+function sendDraws(res: Response, x: DrawsBytes): void {
+  res.setHeader('Content-Type', DRAWS_CONTENT_TYPE);
+  res.setHeader('Content-Length', String(x.head.byteLength + x.body.byteLength));
+  res.status(200);
+  res.write(x.head);
+  res.end(x.body);
+}
 
 function sendCsv(res: Response, fileName: string): void {
   res.setHeader('Content-Type', 'text/csv; charset=utf-8');
@@ -44,19 +53,43 @@ export function runsRouter(ctx: AppContext): Router {
     return { run: await cancelQueuedOrRunning(db, clock.now(), req.workspace!.id, params.runId) };
   });
 
-  mount(r, ctx, routes.getRunDraws, async ({ params, query }, req) => {
+  mount(r, ctx, routes.getRunDraws, async ({ params, query }, req, res) => {
     const run = await findRun(db, req.workspace!.id, params.runId, clock.now());
     if (run.status !== 'done') throw notFound('This run has no draws yet');
-    return runDraws(db, run.row, query.max ?? DEFAULT_PLOT_DRAWS);
+    sendDraws(res, await runDraws(db, run.row, query.max ?? DEFAULT_PLOT_DRAWS));
   });
 
   mount(r, ctx, routes.exportRunDraws, async ({ params }, req, res) => {
     const ws = req.workspace!;
     const run = await findRun(db, ws.id, params.runId, clock.now());
     if (run.status !== 'done') throw notFound('This run has no draws yet');
-    const csv = await runDrawsCsv(db, ws.id, run.id);
-    sendCsv(res, `draws-${run.id}.csv`);
-    res.status(200).end(Buffer.from(csv.buffer, csv.byteOffset, csv.byteLength));
+    // Formatted in bounded pieces on the compute pool and written as they come, with backpressure.
+    await streamRunDrawsCsv(db, ws.id, run.id, {
+      begin: () => {
+        sendCsv(res, `draws-${run.id}.csv`);
+        res.status(200);
+      },
+      write: (bytes) =>
+        new Promise<void>((resolve, reject) => {
+          if (res.destroyed) return reject(new Error('the client went away'));
+          if (res.write(bytes)) return resolve();
+          const done = (err?: Error) => {
+            res.off('drain', drained);
+            res.off('close', closed);
+            if (err) reject(err);
+            else resolve();
+          };
+          const drained = () => done();
+          const closed = () => done(new Error('the client went away'));
+          res.once('drain', drained);
+          res.once('close', closed);
+        }),
+      end: () => res.end(),
+    }).catch((e: unknown) => {
+      // Once bytes are out, a failure can only cut the file short: the client sees a broken download.
+      if (!res.headersSent) throw e;
+      res.destroy(e instanceof Error ? e : new Error(String(e)));
+    });
   });
 
   mount(r, ctx, routes.exportRunSummary, async ({ params }, req, res) => {
@@ -73,11 +106,11 @@ export function runsRouter(ctx: AppContext): Router {
     return { runs: (await cellRuns(db, share.workspaceId, share.notebookId, params.cellId, clock.now())).filter((x) => x.status === 'done') };
   });
 
-  mount(r, ctx, routes.sharedRunDraws, async ({ params, query }, req) => {
+  mount(r, ctx, routes.sharedRunDraws, async ({ params, query }, req, res) => {
     const share = req.share!;
     const run = await findRun(db, share.workspaceId, params.runId, clock.now());
     if (run.notebookId !== share.notebookId || run.status !== 'done') throw notFound('Run not found');
-    return runDraws(db, run.row, query.max ?? DEFAULT_PLOT_DRAWS);
+    sendDraws(res, await runDraws(db, run.row, query.max ?? DEFAULT_PLOT_DRAWS));
   });
 
   return r;

@@ -13,6 +13,7 @@ import { cells, datasets, runs } from '../db/schema';
 import type { CellContent } from '../../shared/api/notebook';
 import { newId } from '../lib/ids';
 import { readUpload } from '../notebook/datasets';
+import { encodeTableColumns } from '../notebook/table-columns';
 import { runFit } from '../engine/fit';
 import { finishRun, type RunSpec } from '../runs/queue';
 import { computeRunChecks } from '../runs/checks';
@@ -173,9 +174,10 @@ export function notebookWriter(db: Db, t: DemoNotebookTarget, startPosition: num
     },
     async addDataset(name: string, csv: string): Promise<string> {
       const bytes = Buffer.from(csv, 'utf8');
-      const { columns, rows } = readUpload(bytes);
+      const { result, columns, rows } = readUpload(bytes);
       const id = newId();
-      await db.insert(datasets).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId: null, name, columns, rowCount: rows, bytes: bytes.length, content: bytes, createdBy: t.userId, createdAt: now });
+      const tableColumns = Buffer.from(encodeTableColumns(result.table!));
+      await db.insert(datasets).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId: null, name, columns, rowCount: rows, bytes: bytes.length, content: bytes, tableColumns, createdBy: t.userId, createdAt: now });
       return id;
     },
     async addCell(kind: 'notes' | 'data' | 'model' | 'fit', source: string, content: CellContent): Promise<string> {

@@ -3,12 +3,14 @@
  * the shared route table (routes.ts) so the one authorization middleware, the validation and the
  * role-matrix test cover them like every other route.
  *
- * Routes answering files (CSV, notebook JSON) have no response schema; multipart routes declare
+ * Routes answering files (CSV, notebook JSON) have no response schema, nor do binary answers (they
+ * name their content type in `produces`); multipart routes declare
  * the schema of their text fields as `body` (the file itself travels in the `file` field).
  */
 import { z } from 'zod';
 import type { RouteDef } from './routes';
 import * as nb from './notebook';
+import { DRAWS_CONTENT_TYPE } from '../draws-binary';
 
 const ws = z.strictObject({ workspaceId: nb.nbIdSchema });
 const nbParams = z.strictObject({ workspaceId: nb.nbIdSchema, notebookId: nb.nbIdSchema });
@@ -61,6 +63,11 @@ export const notebookRoutes = {
     purpose: 'A dataset with its column types, missing counts and the first rows',
     params: nb.datasetParams, response: nb.datasetPreviewResponse,
   },
+  getDatasetRows: {
+    method: 'GET', path: '/api/workspaces/:workspaceId/datasets/:datasetId/rows', access: 'viewer', status: 200,
+    purpose: 'A page of a dataset\'s rows (`offset`, `limit` up to 500) for the preview, read from its stored typed columns',
+    params: nb.datasetParams, query: nb.datasetRowsQuery, response: nb.datasetRowsResponse,
+  },
 
   // ---- model check ----
   compileModel: {
@@ -92,12 +99,12 @@ export const notebookRoutes = {
   },
   getRunDraws: {
     method: 'GET', path: '/api/workspaces/:workspaceId/runs/:runId/draws', access: 'viewer', status: 200,
-    purpose: 'Draws per chain for plotting (evenly thinned to `max`), with the constraint system',
-    params: nb.runParams, query: nb.runDrawsQuery, response: nb.runDrawsResponse,
+    purpose: 'Draws per chain for plotting (evenly thinned to `max`) as Float32 columns after a JSON header with the constraint system (shared/draws-binary.ts)',
+    params: nb.runParams, query: nb.runDrawsQuery, produces: DRAWS_CONTENT_TYPE,
   },
   exportRunDraws: {
     method: 'GET', path: '/api/workspaces/:workspaceId/runs/:runId/draws.csv', access: 'viewer', status: 200,
-    purpose: 'Every kept draw as CSV: chain, iteration, one column per quantity',
+    purpose: 'Every kept draw as CSV: chain, iteration, one column per quantity (streamed)',
     params: nb.runParams,
   },
   exportRunSummary: {
@@ -153,12 +160,17 @@ export const notebookRoutes = {
   },
   sharedRunDraws: {
     method: 'GET', path: '/api/share/:token/runs/:runId/draws', access: 'share-token', status: 200,
-    purpose: 'Draws for plotting of a run of the shared notebook',
-    params: shareRun, query: nb.runDrawsQuery, response: nb.runDrawsResponse,
+    purpose: 'Draws for plotting of a run of the shared notebook (the same binary form as getRunDraws)',
+    params: shareRun, query: nb.runDrawsQuery, produces: DRAWS_CONTENT_TYPE,
   },
   sharedDataset: {
     method: 'GET', path: '/api/share/:token/datasets/:datasetId', access: 'share-token', status: 200,
     purpose: 'Preview of a dataset shown by a data cell of the shared notebook',
     params: shareDataset, response: nb.sharedDatasetPreviewResponse,
+  },
+  sharedDatasetRows: {
+    method: 'GET', path: '/api/share/:token/datasets/:datasetId/rows', access: 'share-token', status: 200,
+    purpose: 'A page of the rows of a dataset shown by a data cell of the shared notebook',
+    params: shareDataset, query: nb.datasetRowsQuery, response: nb.datasetRowsResponse,
   },
 } as const satisfies Record<string, RouteDef>;

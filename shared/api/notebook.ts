@@ -226,6 +226,19 @@ export type DatasetPreviewResponse = z.infer<typeof datasetPreviewResponse>;
 export const sharedDatasetPreviewResponse = datasetPreviewResponse.extend({ dataset: datasetSchema.omit({ workspaceId: true }) });
 
 export const datasetParams = z.strictObject({ workspaceId: nbIdSchema, datasetId: nbIdSchema });
+/** A page of a dataset's rows for the preview. */
+export const datasetRowsQuery = z.strictObject({
+  offset: z.coerce.number().int().min(0).default(0),
+  limit: z.coerce.number().int().min(1).max(DATASET_PREVIEW_ROWS).default(DATASET_PREVIEW_ROWS),
+});
+export const datasetRowsResponse = z.object({
+  /** Index (0-based) of the first row of `rows`. */
+  offset: z.number().int(),
+  /** Rows in the whole dataset. */
+  total: z.number().int(),
+  rows: z.array(z.array(previewValueSchema)),
+});
+export type DatasetRowsResponse = z.infer<typeof datasetRowsResponse>;
 /** Multipart fields accompanying the uploaded `file`. */
 export const uploadDatasetFields = z.strictObject({ name: tableNameSchema });
 
@@ -370,7 +383,11 @@ export const regionProjectionSchema = z.object({
 });
 export type RegionProjection = z.infer<typeof regionProjectionSchema>;
 
-/** Draws for plotting: per chain, per quantity, the kept draws (possibly thinned). */
+/**
+ * Draws for plotting as plain arrays: per chain, per quantity, the kept draws (possibly thinned).
+ * The draws routes send the same content in binary (shared/draws-binary.ts); the plots accept
+ * either (PlotDraws), and the region types here are shared by both.
+ */
 export const runDrawsResponse = z.object({
   names: z.array(z.string()),
   /** Number of unknown coordinates; names after these are derived quantities. */

@@ -79,6 +79,7 @@ const EXPECTED: Record<RouteName, Row> = {
   deleteCell: EDITOR_UP(204),
   uploadDataset: EDITOR_UP(201),
   getDataset: VIEWER_UP(200),
+  getDatasetRows: VIEWER_UP(200),
   compileModel: VIEWER_UP(200),
   createRun: EDITOR_UP(201),
   listCellRuns: VIEWER_UP(200),
@@ -98,6 +99,7 @@ const EXPECTED: Record<RouteName, Row> = {
   sharedCellRuns: ALL_200,
   sharedRunDraws: ALL_200,
   sharedDataset: ALL_200,
+  sharedDatasetRows: ALL_200,
   // Development routes exist outside production only (404 there: see the last tests). Captured mail
   // needs the per-start key; a signed-in account without it reads only its own mail.
   devMail: row(200, 200, 200, 200, 200, 403, 403),
@@ -159,6 +161,7 @@ const REQUESTS: Record<RouteName, (w: World) => Req> = {
   deleteCell: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb, cellId: w.nbw.notesCell } }),
   uploadDataset: (w) => ({ params: { workspaceId: w.ws }, form: () => csvForm('x,y\n1,2\n', { name: 'pairs' }) }),
   getDataset: (w) => ({ params: { workspaceId: w.ws, datasetId: w.nbw.dataset } }),
+  getDatasetRows: (w) => ({ params: { workspaceId: w.ws, datasetId: w.nbw.dataset } }),
   compileModel: (w) => ({ params: { workspaceId: w.ws }, body: { source: 'unknown a\nconstrain a >= 0' } }),
   createRun: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb, cellId: w.nbw.fitCell }, body: {} }),
   listCellRuns: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb, cellId: w.nbw.fitCell } }),
@@ -180,6 +183,7 @@ const REQUESTS: Record<RouteName, (w: World) => Req> = {
   sharedCellRuns: (w) => ({ params: { token: w.shareToken, cellId: w.nbw.fitCell } }),
   sharedRunDraws: (w) => ({ params: { token: w.shareToken, runId: w.nbw.doneRun } }),
   sharedDataset: (w) => ({ params: { token: w.shareToken, datasetId: w.nbw.dataset } }),
+  sharedDatasetRows: (w) => ({ params: { token: w.shareToken, datasetId: w.nbw.dataset } }),
 };
 
 type Person = { id: string; email: string };

@@ -1,4 +1,4 @@
-import { useMemo, useState } from 'react';
+import { useMemo, useState, type ReactNode } from 'react';
 import type { Dataset, PreviewValue } from '@shared/api/notebook';
 import { columnDecimals, formatDataFixed } from '@/lib/estimates';
 import { columnNameWarning, isModelName } from '@shared/data';
@@ -29,10 +29,12 @@ export interface DataPreviewProps {
   // share-link readers get no workspace id
   dataset: Omit<Dataset, 'workspaceId'>;
   rows: PreviewValue[][];
+  /** Paging controls shown under the table instead of the "first rows" note (data-pages.tsx). */
+  pager?: ReactNode;
 }
 
 /** Preview of a dataset: column types and missing counts, a sortable table, the row count. */
-export function DataPreview({ dataset, rows }: DataPreviewProps) {
+export function DataPreview({ dataset, rows, pager }: DataPreviewProps) {
   const [sort, setSort] = useState<{ col: number; dir: SortDir } | null>(null);
   const sorted = useMemo(() => (sort ? sortRows(rows, sort.col, sort.dir) : rows), [rows, sort]);
   // One count of decimals per number column, so trailing zeros are kept beside values that need them.
@@ -96,11 +98,11 @@ export function DataPreview({ dataset, rows }: DataPreviewProps) {
           </tbody>
         </table>
       </div>
-      {rows.length < dataset.rows && (
+      {pager ?? (rows.length < dataset.rows && (
         <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">
           Showing the first {rows.length} of {dataset.rows} rows{sort ? ' (sorting applies to the rows shown)' : ''}.
         </p>
-      )}
+      ))}
     </div>
   );
 }

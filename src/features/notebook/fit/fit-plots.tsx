@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import type { RunDraws } from '@shared/api/notebook';
+import type { PlotDraws as RunDraws } from '@shared/draws-binary';
 import type { QuantitySummary } from '@shared/fit';
 import { pairSpec } from './pair-spec';
 import { thinIndices } from '@/lib/plot/thin';

@@ -1,4 +1,5 @@
-import type { Run, RunDraws } from '@shared/api/notebook';
+import type { Run } from '@shared/api/notebook';
+import type { PlotDraws as RunDraws } from '@shared/draws-binary';
 import { formatEstimate, formatSeconds } from '@/lib/estimates';
 import { VerdictBanner } from './verdict-banner';
 import { QuantityRows } from './quantity-rows';
