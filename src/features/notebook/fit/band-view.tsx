@@ -1,4 +1,4 @@
-import type { RunDraws } from '@shared/api/notebook';
+import type { PlotDraws as RunDraws } from '@shared/draws-binary';
 import { formatEstimate } from '@/lib/estimates';
 import { thinIndices } from '@/lib/plot/thin';
 import { quantileSorted } from './mixing';
