@@ -28,6 +28,7 @@ import { datasetMetaColumns, loadDataTables } from '../notebook/datasets';
 import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type EncodedChain, type RunRow, type RunSpec } from './queue';
 import { computePool } from '../compute/pool';
 import { describe, isTransientDbError, retryDb } from './retry';
+import { isCompareSpec, runCompareJob } from './compare-job';
 
 export interface WorkerOptions {
   db: Db;
@@ -221,6 +222,13 @@ export class RunWorker {
     let names: DrawNames | null = null;
 
     try {
+      if (isCompareSpec(run.spec)) {
+        await runCompareJob(
+          { db: this.db, workerId: this.id, now: () => this.clock.now(), signal: ac.signal, progressMs: this.progressMs, write: (what, fn) => this.write(what, fn), log: this.log },
+          run,
+        );
+        return;
+      }
       const spec = run.spec as RunSpec;
       settings = fitSettingsSchema.parse(run.settings);
       const ids = Object.values(spec.tables);

@@ -84,6 +84,9 @@ const EXPECTED: Record<RouteName, Row> = {
   listCellRuns: VIEWER_UP(200),
   getRun: VIEWER_UP(200),
   cancelRun: EDITOR_UP(200),
+  queueCompareRun: EDITOR_UP(201),
+  listCompareRuns: VIEWER_UP(200),
+  cancelCompareRun: EDITOR_UP(200),
   getRunDraws: VIEWER_UP(200),
   exportRunDraws: VIEWER_UP(200),
   exportRunSummary: VIEWER_UP(200),
@@ -96,6 +99,7 @@ const EXPECTED: Record<RouteName, Row> = {
   // Share-link reads are bearer capabilities like getSharedNotebook: the token is in the path.
   sharedModelCheck: ALL_200,
   sharedCellRuns: ALL_200,
+  sharedCompareRuns: ALL_200,
   sharedRunDraws: ALL_200,
   sharedDataset: ALL_200,
   // Development routes exist outside production only (404 there: see the last tests). Captured mail
@@ -164,6 +168,9 @@ const REQUESTS: Record<RouteName, (w: World) => Req> = {
   listCellRuns: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb, cellId: w.nbw.fitCell } }),
   getRun: (w) => ({ params: { workspaceId: w.ws, runId: w.nbw.doneRun } }),
   cancelRun: (w) => ({ params: { workspaceId: w.ws, runId: w.nbw.queuedRun }, body: {} }),
+  queueCompareRun: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb, cellId: w.nbw.compareCell }, body: {} }),
+  listCompareRuns: (w) => ({ params: { workspaceId: w.ws, notebookId: w.nb, cellId: w.nbw.compareCell } }),
+  cancelCompareRun: (w) => ({ params: { workspaceId: w.ws, runId: w.nbw.queuedCompare }, body: {} }),
   getRunDraws: (w) => ({ params: { workspaceId: w.ws, runId: w.nbw.doneRun } }),
   exportRunDraws: (w) => ({ params: { workspaceId: w.ws, runId: w.nbw.doneRun } }),
   exportRunSummary: (w) => ({ params: { workspaceId: w.ws, runId: w.nbw.doneRun } }),
@@ -178,6 +185,7 @@ const REQUESTS: Record<RouteName, (w: World) => Req> = {
   }),
   sharedModelCheck: (w) => ({ params: { token: w.shareToken, cellId: w.nbw.modelCell } }),
   sharedCellRuns: (w) => ({ params: { token: w.shareToken, cellId: w.nbw.fitCell } }),
+  sharedCompareRuns: (w) => ({ params: { token: w.shareToken, cellId: w.nbw.compareCell } }),
   sharedRunDraws: (w) => ({ params: { token: w.shareToken, runId: w.nbw.doneRun } }),
   sharedDataset: (w) => ({ params: { token: w.shareToken, datasetId: w.nbw.dataset } }),
 };

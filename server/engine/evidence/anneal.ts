@@ -195,6 +195,8 @@ export interface AnnealSettings {
   /** Refuse to run more stages than this (the schedule did not converge). */
   maxStages: number;
   signal?: AbortSignal;
+  /** Called at the start of every stage (for progress). */
+  onStage?(): void;
 }
 
 export interface StageLog {
@@ -398,6 +400,7 @@ export function gaussianAnneal(f: Frame, c: Float64Array, kappa: 0 | 1, rng: Rng
   const v = new Float64Array(perWalker * cfg.walkers);
   for (;;) {
     abortIfNeeded(cfg.signal);
+    cfg.onStage?.();
     if (log.stages >= cfg.maxStages) throw new Error(`The annealing schedule needed more than ${cfg.maxStages} stages.`);
     const P = beta + kappa;
     muOf(beta, mu);
@@ -502,6 +505,7 @@ export function temper(
   let logRatio = 0;
   for (;;) {
     abortIfNeeded(cfg.signal);
+    cfg.onStage?.();
     if (log.stages >= cfg.maxStages) throw new Error(`The tempering schedule needed more than ${cfg.maxStages} stages.`);
     let j = 0;
     if (t === 0) {

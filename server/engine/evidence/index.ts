@@ -54,6 +54,8 @@ export interface EvidenceOptions {
   tuning?: Partial<AnnealSettings>;
   /** Called after each replicate (for progress lines). */
   onReplicate?(index: number, logZ: number): void;
+  /** Called at the start of each replicate and of each annealing stage (for progress). */
+  onProgress?(replicate: number, stage: number): void;
 }
 
 export interface EvidenceResult {
@@ -250,6 +252,9 @@ export function computeEvidence(p: PreparedTarget, opts: EvidenceOptions = {}): 
   for (let r = 0; r < 64; r++) {
     if (r >= R && (opts.targetSe === undefined || meanSe(logZs).se <= opts.targetSe)) break;
     const rng = new Rng(seed, REPLICATE_STREAM + r);
+    let stage = 0;
+    opts.onProgress?.(r, 0);
+    cfg.onStage = opts.onProgress ? () => opts.onProgress!(r, ++stage) : opts.tuning?.onStage;
     let logZ: number;
     let vol: ReturnType<typeof gaussianAnneal> | null = null;
     if (dikin) {

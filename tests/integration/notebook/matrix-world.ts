@@ -17,6 +17,8 @@ export interface NotebookMatrixWorld {
   modelCell: string;
   doneRun: string;
   queuedRun: string;
+  compareCell: string;
+  queuedCompare: string;
   comment: string;
 }
 
@@ -78,7 +80,17 @@ export async function notebookMatrixWorld(db: Db, ws: string, nb: string, ownerI
     { fit: 1 },
   );
   if (!ok) throw new Error('could not store the matrix run');
+  // A compare cell of the model and a queued comparison of it (compare-job.ts).
+  const compareCell = newId();
+  await db.insert(cells).values({ ...base, id: compareCell, kind: 'compare', position: 5, source: '', content: { modelCellIds: [modelCell] } });
+  const queuedCompare = newId();
+  await db.insert(runs).values({
+    id: queuedCompare, workspaceId: ws, notebookId: nb, cellId: compareCell, status: 'queued',
+    settings: { modelCellIds: [modelCell], hypotheses: [], reference: null, priorOdds: [], replicates: 2, seed: 1, factors: [1] }, seed: 1, modelHash: 'c'.repeat(64),
+    spec: { kind: 'compare', models: [{ cellId: modelCell, label: 'Matrix model', source: 'unknown b\nterm ld_normal(b, 0, 1)\nconstrain b >= 0', tables: {}, fitRunId: null }] },
+    progress: null, attempts: 0, requestedBy: ownerId, createdAt: now,
+  });
   const comment = newId();
   await db.insert(comments).values({ id: comment, workspaceId: ws, notebookId: nb, cellId: notesCell, parentId: null, authorId: reviewerId, body: 'Why this prior?', resolved: false, createdAt: now, updatedAt: now });
-  return { notesCell, dataset, fitCell, modelCell, doneRun, queuedRun, comment };
+  return { notesCell, dataset, fitCell, modelCell, doneRun, queuedRun, compareCell, queuedCompare, comment };
 }
