@@ -1,8 +1,11 @@
 /**
  * The demo notebook's content, in the invented Alder Creek sediment survey: a mixing-proportions
  * model (shares of three sediment sources on a simplex) and a monotone dose–response (sediment
- * load per storm rising with rain class), each with notes, data, a model and a finished fit.
- * The fits are computed by the real engine when the demo is seeded, and stored like any run.
+ * load per storm rising with rain class), each with notes, data, a model and a finished fit; then
+ * a model with one mean for every class and a compare cell that tests the ordering (its Bayes
+ * factor, masses and leave-one-out differences). The fits and the comparison are computed by the
+ * real engine when the demo is seeded (the comparison by the compare job's own code), and stored
+ * like any run.
  * Idempotent: it only fills a demo notebook that has no model cell yet.
  */
 import { createHash } from 'node:crypto';
@@ -13,6 +16,8 @@ import { newId } from '../lib/ids';
 import { readUpload } from '../notebook/datasets';
 import { runFit } from '../engine/fit';
 import { finishRun, type RunSpec } from '../runs/queue';
+import { compareSpecOf, compareThreadInput, computeOnThread, finishCompare } from '../runs/compare-job';
+import { compareContentSchema, type CompareResult } from '../../shared/api/compare';
 import { parseCsv } from '../../shared/data';
 import type { FitSettings } from '../../shared/fit';
 
@@ -118,6 +123,25 @@ Conclusions depend on the model's assumptions (normal scatter with one spread fo
 ordered means). Decisions with regulatory or safety consequences need a qualified statistician.
 `;
 
+export const DEMO_FLAT_MODEL = `# One mean for every rain class
+table storms
+unknown level, sd
+term ld_normal(load_t, level, sd)
+term ld_normal(level, 3, 5) + ld_halfnormal(sd, 3)
+constrain sd >= 0.01
+`;
+
+/** The ordering line of DEMO_MONOTONE_MODEL (1-based), the hypothesis the demo's compare cell tests. */
+export const DEMO_ORDER_LINE = 6;
+
+export const DEMO_COMPARE_NOTES = `## Is the ordering supported by the data?
+
+The compare cell below tests the ordering line of the dose–response model: the Bayes factor of
+the model *with* the ordering against the same model *without* it is the posterior mass of the
+ordered region divided by its prior mass. A model with one mean for every class is compared too,
+with leave-one-out predictive accuracy from its fit beside the Bayes factors.
+`;
+
 const DEMO_SETTINGS: FitSettings = { chains: 4, warmup: 500, draws: 500, seed: 20261201, sampler: 'auto' };
 
 export interface DemoNotebookTarget {
@@ -144,7 +168,7 @@ export function notebookWriter(db: Db, t: DemoNotebookTarget, startPosition: num
       await db.insert(datasets).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId: null, name, columns, rowCount: rows, bytes: bytes.length, content: bytes, createdBy: t.userId, createdAt: now });
       return id;
     },
-    async addCell(kind: 'notes' | 'data' | 'model' | 'fit', source: string, content: unknown): Promise<string> {
+    async addCell(kind: 'notes' | 'data' | 'model' | 'fit' | 'compare', source: string, content: unknown): Promise<string> {
       const id = newId();
       await db.insert(cells).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, kind, position: position++, source, content, version: 1, collapsed: false, createdBy: t.userId, updatedBy: t.userId, createdAt: now, updatedAt: now });
       return id;
@@ -188,5 +212,40 @@ export async function seedDemoNotebook(db: Db, t: DemoNotebookTarget, now: Date 
   const monoModel = await addCell('model', DEMO_MONOTONE_MODEL, null);
   const monoFit = await addCell('fit', '', { modelCellId: monoModel, settings });
   created.push(`dose–response fit (${await addFinishedFit(monoFit, DEMO_MONOTONE_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } })})`);
+
+  // Part 3: the ordering tested, and a model without any effect of rain class.
+  await addCell('notes', DEMO_COMPARE_NOTES, null);
+  const flatModel = await addCell('model', DEMO_FLAT_MODEL, null);
+  const flatFit = await addCell('fit', '', { modelCellId: flatModel, settings });
+  created.push(`one-mean fit (${await addFinishedFit(flatFit, DEMO_FLAT_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } })})`);
+  const compareContent = compareContentSchema.parse({
+    modelCellIds: [monoModel, flatModel],
+    hypotheses: [{ modelCellId: monoModel, lines: [DEMO_ORDER_LINE] }],
+    reference: { modelCellId: monoModel, without: [DEMO_ORDER_LINE] },
+  });
+  const compareCell = await addCell('compare', '', compareContent);
+  await addFinishedComparison(db, t, compareCell, now);
+  created.push('comparison');
   return created;
+}
+
+/**
+ * Queue-free run of a compare cell at seed time: the job's own reading (compareSpecOf,
+ * compareThreadInput), computation (computeOnThread) and storing (finishCompare), under a lease
+ * held by the seed.
+ */
+export async function addFinishedComparison(db: Db, t: DemoNotebookTarget, cellId: string, now: Date): Promise<CompareResult> {
+  const [cell] = await db.select().from(cells).where(and(eq(cells.workspaceId, t.workspaceId), eq(cells.id, cellId)));
+  const { spec, settings } = await compareSpecOf(db, t.workspaceId, t.notebookId, cell.content, false);
+  const runId = newId();
+  const row = {
+    id: runId, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId, status: 'running' as const, settings, seed: settings.seed,
+    modelHash: createHash('sha256').update(JSON.stringify({ spec, settings })).digest('hex'), spec, progress: null, attempts: 1,
+    leaseOwner: 'demo-seed', leaseExpiresAt: new Date(now.getTime() + 3_600_000), requestedBy: t.userId, createdAt: now, startedAt: now,
+  };
+  await db.insert(runs).values(row);
+  const started = performance.now();
+  const result = await computeOnThread(await compareThreadInput(db, row));
+  await finishCompare(db, { id: runId, workspaceId: t.workspaceId }, 'demo-seed', result, now, { compute: Math.round(performance.now() - started) });
+  return result;
 }

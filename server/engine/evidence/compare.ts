@@ -93,8 +93,8 @@ export function factorWords(logBF: number): string {
   if (!Number.isFinite(f)) return `e^${Math.abs(logBF).toFixed(0)}`;
   if (f < 10) return f.toFixed(1);
   if (f < 1e4) return String(Number(f.toPrecision(2)));
-  const e = Math.floor(Math.log10(f));
-  return `${(f / 10 ** e).toFixed(1)} × 10^${e}`;
+  const [mant, exp] = f.toExponential(1).split('e');
+  return `${mant} × 10^${Number(exp)}`;
 }
 
 /** One sentence for a log BF of "a" against "b" with its Monte Carlo standard error. */
