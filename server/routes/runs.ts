@@ -48,7 +48,7 @@ export function runsRouter(ctx: AppContext): Router {
 
   // ---- comparisons (compare cells) ----
   mount(r, ctx, routes.queueCompareRun, async ({ params, body }, req) => {
-    const run = await queueCompare(db, clock.now(), { workspaceId: req.workspace!.id, notebookId: params.notebookId, cellId: params.cellId, userId: req.user!.id, sensitivity: body.sensitivity });
+    const run = await queueCompare(db, clock.now(), { workspaceId: req.workspace!.id, notebookId: params.notebookId, cellId: params.cellId, userId: req.user!.id, sensitivity: body.sensitivity, content: body.content });
     return { run };
   });
 

@@ -82,6 +82,8 @@ export interface QueueCompareRequest {
   cellId: string;
   userId: string;
   sensitivity: boolean;
+  /** Settings to run with instead of the cell's saved content. */
+  content?: unknown;
 }
 
 /** The spec and settings of a compare cell as it is now (models, their tables and matching fits). */
@@ -121,7 +123,7 @@ export async function compareSpecOf(db: Exec, workspaceId: string, notebookId: s
 export async function queueCompare(db: Db, now: Date, q: QueueCompareRequest): Promise<CompareRun> {
   const cell = await findCell(db, q.workspaceId, q.notebookId, q.cellId);
   if (cell.kind !== 'compare') throw invalid('Only compare cells run comparisons');
-  const { spec, settings } = await compareSpecOf(db, q.workspaceId, q.notebookId, cell.content, q.sensitivity);
+  const { spec, settings } = await compareSpecOf(db, q.workspaceId, q.notebookId, q.content ?? cell.content, q.sensitivity);
   const id = newId();
   const hash = createHash('sha256').update(JSON.stringify({ spec, settings })).digest('hex');
   await db.transaction(async (tx) => {

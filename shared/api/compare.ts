@@ -176,6 +176,8 @@ export type CompareRun = z.infer<typeof compareRunSchema>;
 export const queueCompareBody = z.strictObject({
   /** Also run with every prior scale halved and doubled. */
   sensitivity: z.boolean().default(false),
+  /** Settings to run with (the cell's draft); the cell's saved content when absent. */
+  content: compareContentSchema.optional(),
 });
 export const compareRunResponse = z.object({ run: compareRunSchema });
 export const compareRunListResponse = z.object({ runs: z.array(compareRunSchema) });
