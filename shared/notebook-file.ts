@@ -98,8 +98,8 @@ export function remapContent(
           const k = key(o.key);
           return k ? [{ key: k, odds: o.odds }] : [];
         }),
-        ...(c.replicates !== undefined ? { replicates: c.replicates } : {}),
-        ...(c.seed !== undefined ? { seed: c.seed } : {}),
+        replicates: c.replicates ?? COMPARE_DEFAULTS.replicates,
+        seed: c.seed ?? COMPARE_DEFAULTS.seed,
       };
     }
     default:

@@ -1,11 +1,11 @@
 /**
  * The five cell kinds on the notebook page, each wired to its data: drafts autosave through the
  * versioned save, data cells upload and preview, model cells check as you type, fit cells queue
- * runs and follow them, compare cells say plainly that evidence is not computed yet.
+ * runs and follow them, compare cells queue comparisons and show their results (../compare/).
  */
 import { useEffect, useMemo, useState } from 'react';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
-import { fitContentSchema, compareContentSchema, dataContentSchema, type NbCell } from '@shared/api/notebook';
+import { fitContentSchema, dataContentSchema, type NbCell } from '@shared/api/notebook';
 import { fitSettingsSchema, type FitSettings } from '@shared/fit';
 import type { DataSchema } from '@shared/lang';
 import { ModelEditor } from '@/features/model-editor';
@@ -17,7 +17,7 @@ import { FitSettingsForm } from './fit-settings-form';
 import { ChainProgress, runStateMessage } from './chain-progress';
 import { FitResults } from './fit-results';
 import { RunsList } from './runs-list';
-import { CompareCell } from './compare-cell';
+import { CompareView } from '../compare/compare-view';
 import { NotesCell } from './notes-cell';
 import { MessageText } from '@/components/message-text';
 import { datasetQuery, runExportLinks, uploadDataset, useCellRuns, useModelCheck, useRunDraws, useRunMutations, useSharedModelCheck, type NotebookAccess } from '../api/notebook-api';
@@ -234,8 +234,6 @@ export function FitCellView(p: CellViewProps) {
 }
 
 export function CompareCellView(p: CellViewProps) {
-  const parsed = compareContentSchema.safeParse(p.content);
-  const selected = parsed.success ? parsed.data.modelCellIds : [];
-  const models = useMemo(() => p.cells.filter((c) => c.kind === 'model').map((c, i) => ({ id: c.id, label: modelLabel(c, i) })), [p.cells]);
-  return <CompareCell models={models} selected={selected} readOnly={p.readOnly} onChange={(ids) => p.setContent({ modelCellIds: ids })} />;
+  const models = useMemo(() => p.cells.filter((c) => c.kind === 'model').map((c, i) => ({ id: c.id, label: modelLabel(c, i), source: c.source })), [p.cells]);
+  return <CompareView cellId={p.cell.id} access={p.access} readOnly={p.readOnly} content={p.content} setContent={p.setContent} models={models} runSignal={p.runSignal} />;
 }
