@@ -51,8 +51,8 @@ export function CompareResults({ result: r, onSensitivity, sensitivityPending }:
                     </div>
                   ))}
                 </Td>
-                <Td numeric data-testid="hypothesis-logbf">{pm(h.logBF, h.se)}</Td>
-                <Td numeric data-testid="hypothesis-interval">
+                <Td numeric className="whitespace-nowrap" data-testid="hypothesis-logbf">{pm(h.logBF, h.se)}</Td>
+                <Td numeric className="whitespace-nowrap" data-testid="hypothesis-interval">
                   {factor(Math.exp(h.logBF))} ({factor(Math.exp(h.interval[0]))} to {factor(Math.exp(h.interval[1]))})
                 </Td>
                 <Td numeric>{factor(Math.exp(h.logPriorMass.value))}</Td>
@@ -81,8 +81,8 @@ export function CompareResults({ result: r, onSensitivity, sensitivityPending }:
                 <span className="font-medium">{e.label}</span>
                 {e.logBF === null && <span className="ml-2 text-ink-soft">(reference)</span>}
               </Td>
-              <Td numeric>{pm(e.logML.value, e.logML.se)}</Td>
-              <Td numeric>
+              <Td numeric className="whitespace-nowrap">{pm(e.logML.value, e.logML.se)}</Td>
+              <Td numeric className="whitespace-nowrap">
                 {e.logBF === null || e.logBFSe === null || e.logBFInterval === null ? (
                   '—'
                 ) : (
