@@ -337,7 +337,13 @@ export class RunWorker {
         if (s.settings && s.target && s.finished.size > 0) await this.finishPartial(run, s.settings, s.target, [...s.finished.values()], s.started);
         else
           await this.write(`failing run ${run.id}`, () =>
-            failRun(this.db, run.id, this.id, `The fit ran longer than the limit of ${this.wallSeconds} s before any chain finished, and was stopped. Try fewer draws.`, this.clock.now()),
+            failRun(
+              this.db, run.id, this.id,
+              isCompareSpec(run.spec)
+                ? `The comparison ran longer than the limit of ${this.wallSeconds} s and was stopped. Try fewer replicates, models or tested lines.`
+                : `The fit ran longer than the limit of ${this.wallSeconds} s before any chain finished, and was stopped. Try fewer draws.`,
+              this.clock.now(),
+            ),
           );
       } else {
         const message = e instanceof Error ? e.message : String(e);
