@@ -7,7 +7,7 @@
  * The cross-polytope {Σ|xⱼ| ≤ 1} has 2^d facets; at d = 20 that is 1,048,576 rows, each chord move
  * reading all of them. Through its rows it is measured at d = 10 (1,024 rows); a one-off run through
  * its rows at d = 20 (docs/engine.md §8.6) spent 39 s preparing the rows and 58 s before its first
- * stage, and did not finish 5 stages in 15 minutes. At d = 20 (and at d = 10 for comparison) it is
+ * stage, and did not finish 5 stages in 20 minutes. At d = 20 (and at d = 10 for comparison) it is
  * measured as an oracle body (anneal.ts l1BallOracle: a chord in O(d)), the same Gaussian cooling.
  * The last case times the demo notebook's comparison (compare.ts: the ordering of the dose–response
  * model tested, a one-mean model beside it, 4 replicates; no fits, so no leave-one-out).
