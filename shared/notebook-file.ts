@@ -37,6 +37,7 @@ import {
   NOTEBOOK_FILE_VERSION,
   notebookFileSchema,
   tableNameSchema,
+  type CellContent,
   type NbCellKind,
 } from './api/notebook';
 import { fitSettingsSchema, type FitSettings } from './fit';
@@ -66,7 +67,7 @@ export function remapContent(
   content: unknown,
   cellRef: (id: string) => string | undefined,
   datasetRef: (id: string) => string | undefined,
-): unknown {
+): CellContent {
   const c = (content ?? {}) as Record<string, unknown>;
   switch (kind) {
     case 'data': {
@@ -75,7 +76,7 @@ export function remapContent(
     }
     case 'fit': {
       const id = typeof c.modelCellId === 'string' ? cellRef(c.modelCellId) : undefined;
-      return { modelCellId: id ?? null, settings: c.settings };
+      return { modelCellId: id ?? null, settings: c.settings as FitSettings };
     }
     case 'compare': {
       const ids = Array.isArray(c.modelCellIds) ? c.modelCellIds : [];
@@ -83,7 +84,7 @@ export function remapContent(
       const key = (k: unknown) => {
         const o = (k ?? {}) as { modelCellId?: unknown; without?: unknown };
         const id = ref(o.modelCellId);
-        return id ? { modelCellId: id, without: Array.isArray(o.without) ? o.without : [] } : null;
+        return id ? { modelCellId: id, without: Array.isArray(o.without) ? (o.without as number[]) : [] } : null;
       };
       const hyps = (Array.isArray(c.hypotheses) ? c.hypotheses : []) as { modelCellId?: unknown; lines?: unknown }[];
       const odds = (Array.isArray(c.priorOdds) ? c.priorOdds : []) as { key?: unknown; odds?: unknown }[];
@@ -91,15 +92,15 @@ export function remapContent(
         modelCellIds: ids.map(ref).filter((x): x is string => !!x),
         hypotheses: hyps.flatMap((h) => {
           const id = ref(h.modelCellId);
-          return id ? [{ modelCellId: id, lines: h.lines }] : [];
+          return id && Array.isArray(h.lines) ? [{ modelCellId: id, lines: h.lines as number[] }] : [];
         }),
         reference: key(c.reference),
         priorOdds: odds.flatMap((o) => {
           const k = key(o.key);
-          return k ? [{ key: k, odds: o.odds }] : [];
+          return k && typeof o.odds === 'number' ? [{ key: k, odds: o.odds }] : [];
         }),
-        replicates: c.replicates ?? COMPARE_DEFAULTS.replicates,
-        seed: c.seed ?? COMPARE_DEFAULTS.seed,
+        replicates: (c.replicates as number | undefined) ?? COMPARE_DEFAULTS.replicates,
+        seed: (c.seed as number | undefined) ?? COMPARE_DEFAULTS.seed,
       };
     }
     default:

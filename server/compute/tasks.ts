@@ -13,6 +13,11 @@ import { checkModel, regionSystem } from '../notebook/model';
 import { columnsOf, describeCsvErrors } from '../notebook/tables';
 import { PROJECTION_MAX_UNKNOWNS, regionProjections } from '../notebook/projections';
 import type { RegionProjection, RunDraws } from '../../shared/api/notebook';
+import { BUILTIN_CHECK_STATS, type RunChecks } from '../../shared/checks';
+import { checkProgram, dataSchemaOf } from '../../shared/lang/index';
+import { runModelChecks } from '../engine/predictive/checks';
+import { summariseChecks } from '../engine/predictive/summary';
+import type { ModelChecksInput } from '../runs/checks';
 
 export type ParseTableOutput =
   | { ok: true; table: ParsedTable; columns: DatasetColumn[]; rows: number }
@@ -122,7 +127,21 @@ const encode: Task<{ names: DrawNames; chain: ChainResult }, EncodedChain> = ({ 
   return { output: enc, transfer: own ? [enc.draws.buffer as ArrayBuffer] : [] };
 };
 
-export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, encodeChain: encode, projections };
+/** A fit's model checks (server/runs/checks.ts): replicates, statistics, leave-one-out, in their stored form. */
+const modelChecks: Task<ModelChecksInput, RunChecks> = (x) => {
+  const check = checkProgram(x.source, dataSchemaOf(x.tables));
+  if (!check.ok) throw new Error(`the model no longer checks: ${check.messages[0]?.message ?? 'unknown problem'}`);
+  const c = runModelChecks(check, x.tables, { unknownNames: x.unknownNames, chains: x.chains }, {
+    seed: x.seed,
+    replicates: x.replicates,
+    extraStats: x.statistics.slice(BUILTIN_CHECK_STATS.length),
+    kind: x.priorOnly ? 'prior' : 'posterior',
+    looMaxCells: x.looMaxCells,
+  });
+  return { output: summariseChecks(c, x.statistics, { draws: x.draws, thin: x.thin }) };
+};
+
+export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, encodeChain: encode, projections, modelChecks };
 export type TaskName = keyof typeof TASKS;
 export type TaskInput<K extends TaskName> = Parameters<(typeof TASKS)[K]>[0];
 export type TaskOutput<K extends TaskName> = ReturnType<(typeof TASKS)[K]>['output'];

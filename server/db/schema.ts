@@ -5,6 +5,8 @@
  */
 import { sql } from 'drizzle-orm';
 import { CELL_KINDS, ROLES, RUN_STATUSES } from '../../shared/terms';
+import type { ChainStats, FitProgress, FitSettings, FitSummary, RunSpec, RunTimings } from '../../shared/fit';
+import type { CellContent, DatasetColumn } from '../../shared/api/notebook';
 import {
   boolean,
   char,
@@ -184,7 +186,7 @@ export const cells = mysqlTable(
     kind: mysqlEnum('kind', CELL_KIND_VALUES).notNull(),
     position: int('position').notNull(),
     source: mediumtext('source').notNull(),
-    content: jsonCol<unknown>('content'),
+    content: jsonCol<CellContent>('content'),
     version: int('version').notNull().default(1),
     /** Folded on the page (layout, not content: saving it does not bump the version). */
     collapsed: boolean('collapsed').notNull().default(false),
@@ -206,8 +208,7 @@ export const datasets = mysqlTable(
     notebookId: id('notebook_id').references(() => notebooks.id, { onDelete: 'cascade' }),
     cellId: id('cell_id').references(() => cells.id, { onDelete: 'set null' }),
     name: varchar('name', { length: 120 }).notNull(),
-    /** [{ name, type: 'number'|'integer'|'text', … }] */
-    columns: jsonCol<unknown>('columns').notNull(),
+    columns: jsonCol<DatasetColumn[]>('columns').notNull(),
     rowCount: int('row_count').notNull(),
     bytes: int('bytes').notNull(),
     /** The uploaded file as received (CSV). */
@@ -231,13 +232,13 @@ export const runs = mysqlTable(
       .references(() => notebooks.id, { onDelete: 'cascade' }),
     cellId: id('cell_id').references(() => cells.id, { onDelete: 'set null' }),
     status: mysqlEnum('status', RUN_STATUS_VALUES).notNull().default('queued'),
-    settings: jsonCol<unknown>('settings').notNull(),
+    settings: jsonCol<FitSettings>('settings').notNull(),
     seed: int('seed').notNull(),
     /** SHA-256 hex of the compiled model + data binding, for caching and provenance. */
     modelHash: char('model_hash', { length: 64 }).notNull(),
     /** What the worker needs to run the job (model source, data reference), frozen at submission. */
-    spec: jsonCol<unknown>('spec'),
-    progress: jsonCol<unknown>('progress'),
+    spec: jsonCol<RunSpec>('spec'),
+    progress: jsonCol<FitProgress[]>('progress'),
     leaseOwner: varchar('lease_owner', { length: 120 }),
     leaseExpiresAt: ts('lease_expires_at'),
     /** Last heartbeat of the worker holding the lease (a stale one shows as "worker lost"). */
@@ -249,8 +250,7 @@ export const runs = mysqlTable(
     createdAt: createdAt(),
     startedAt: ts('started_at'),
     finishedAt: ts('finished_at'),
-    /** Phase durations in milliseconds, e.g. { compile, warmup, sampling, diagnostics }. */
-    timings: jsonCol<unknown>('timings'),
+    timings: jsonCol<RunTimings>('timings'),
     error: text('error'),
   },
   (t) => [
@@ -275,7 +275,7 @@ export const runChains = mysqlTable(
     /** Draws as little-endian Float64, draw-major (drawCount × dimension). */
     draws: longblob('draws').notNull(),
     /** Sampler statistics: step size, acceptance, divergences, energy, … */
-    stats: jsonCol<unknown>('stats'),
+    stats: jsonCol<ChainStats>('stats'),
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex('run_chains_uq').on(t.runId, t.chainIndex), index('run_chains_ws_idx').on(t.workspaceId)],
@@ -290,7 +290,7 @@ export const runSummaries = mysqlTable(
     workspaceId: id('workspace_id')
       .notNull()
       .references(() => workspaces.id, { onDelete: 'cascade' }),
-    summary: jsonCol<unknown>('summary').notNull(),
+    summary: jsonCol<FitSummary>('summary').notNull(),
     createdAt: createdAt(),
   },
   (t) => [index('run_summaries_ws_idx').on(t.workspaceId)],

@@ -9,6 +9,7 @@ import type { RouteDef } from '../../shared/api/routes';
 import { authorize } from '../auth/authorize';
 import type { AppContext } from '../context';
 import { HttpError } from './errors';
+import { issuesToFields } from '../../shared/api/common';
 
 type Out<R, K extends string> = R extends { [P in K]: infer S extends z.ZodType } ? z.output<S> : Record<string, never>;
 type Res<R> = R extends { response: infer S extends z.ZodType } ? z.input<S> : void;
@@ -21,22 +22,7 @@ export interface Valid<R> {
 
 export type Handler<R extends RouteDef> = (v: Valid<R>, req: Request, res: Response) => Promise<Res<R>>;
 
-/** Turn zod issues into `{ "field.path": "message" }`; unknown keys name themselves. */
-export function issuesToFields(issues: z.core.$ZodIssue[], prefix?: string): Record<string, string> {
-  const fields: Record<string, string> = {};
-  for (const issue of issues) {
-    if (issue.code === 'unrecognized_keys') {
-      for (const key of issue.keys) {
-        const path = [...issue.path.map(String), key].join('.');
-        fields[prefix && !path ? prefix : path] ??= 'Unknown field';
-      }
-      continue;
-    }
-    const path = issue.path.map(String).join('.') || prefix || '_';
-    fields[path] ??= issue.message;
-  }
-  return fields;
-}
+export { issuesToFields };
 
 const none = z.strictObject({});
 

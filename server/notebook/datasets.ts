@@ -3,7 +3,7 @@
  * previews and data tables.
  */
 import { and, eq, getTableColumns, inArray } from 'drizzle-orm';
-import { DATASET_PREVIEW_ROWS, type Dataset, type DatasetColumn, type PreviewValue } from '../../shared/api/notebook';
+import { DATASET_PREVIEW_ROWS, type Dataset, type DatasetColumn, type PreviewValue, datasetIdOf } from '../../shared/api/notebook';
 import { parseCsv, type CsvResult, type ParsedTable } from '../../shared/data';
 import { ComputeBusyError, ComputeTimeoutError, computePool } from '../compute/pool';
 import { columnsOf, describeCsvErrors, previewOf } from './tables';
@@ -22,7 +22,7 @@ export const toDataset = (d: Omit<DatasetRow, 'content'>): Dataset => ({
   name: d.name,
   rows: d.rowCount,
   bytes: d.bytes,
-  columns: d.columns as DatasetColumn[],
+  columns: d.columns,
   createdAt: d.createdAt.toISOString(),
 });
 
@@ -96,7 +96,7 @@ export function rememberTable(d: Pick<DatasetRow, 'id' | 'createdAt'>, table: Pa
 
 /** The first rows of a stored dataset for the preview table. */
 export async function datasetPreview(exec: Exec, d: DatasetMeta, limit = DATASET_PREVIEW_ROWS): Promise<PreviewValue[][]> {
-  return previewOf(await parsedTable(exec, d), d.columns as DatasetColumn[], limit);
+  return previewOf(await parsedTable(exec, d), d.columns, limit);
 }
 
 export async function findDataset(exec: Exec, workspaceId: string, datasetId: string): Promise<DatasetMeta> {
@@ -113,7 +113,7 @@ export async function notebookTables(exec: Exec, workspaceId: string, notebookId
     .where(and(eq(cells.workspaceId, workspaceId), eq(cells.notebookId, notebookId), eq(cells.kind, 'data')));
   const ids = dataCells
     .sort((a, b) => a.position - b.position)
-    .map((c) => (c.content as { datasetId?: string | null } | null)?.datasetId)
+    .map((c) => datasetIdOf(c.content))
     .filter((x): x is string => typeof x === 'string');
   if (ids.length === 0) return new Map();
   const rows = await exec.select(metaColumns).from(datasets).where(and(eq(datasets.workspaceId, workspaceId), inArray(datasets.id, ids)));
@@ -139,5 +139,5 @@ export async function datasetInNotebook(exec: Exec, workspaceId: string, noteboo
     .select({ content: cells.content })
     .from(cells)
     .where(and(eq(cells.workspaceId, workspaceId), eq(cells.notebookId, notebookId), eq(cells.kind, 'data')));
-  return dataCells.some((c) => (c.content as { datasetId?: string | null } | null)?.datasetId === datasetId);
+  return dataCells.some((c) => datasetIdOf(c.content) === datasetId);
 }

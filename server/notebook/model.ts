@@ -3,7 +3,7 @@
  * it with the language front end, extract its constraint rows with the data filled in, and ask the
  * engine whether the region has an interior.
  */
-import { checkProgram, extractConstraints, type CheckResult, type DataSchema, type LinearRows } from '../../shared/lang';
+import { checkProgram, dataSchemaOf, extractConstraints, type CheckResult, type DataSchema, type LinearRows } from '../../shared/lang';
 import type { CompileResponse, RegionSystem } from '../../shared/api/notebook';
 import { MAX_UNKNOWNS } from '../../shared/fit';
 import { checkRegion } from '../engine/geometry';
@@ -22,19 +22,6 @@ export function tablesNamed(source: string): string[] {
   return out;
 }
 
-/** The data schema the checker needs, from parsed tables. */
-export function schemaOf(tables: DataTables): DataSchema {
-  const schema: DataSchema = {};
-  for (const [name, t] of Object.entries(tables)) {
-    schema[name] = {
-      rows: t.rows,
-      columns: Object.fromEntries(
-        Object.entries(t.columns).map(([col, c]) => [col, c.type === 'category' ? { type: c.type, levels: c.levels?.length ?? 0 } : { type: c.type }]),
-      ),
-    };
-  }
-  return schema;
-}
 
 export interface ModelCheck {
   check: CheckResult;
@@ -44,7 +31,7 @@ export interface ModelCheck {
 
 /** Check a program against tables; with `region`, also test the constraint set for an interior. */
 export function checkModel(source: string, tables: DataTables, region: boolean): ModelCheck {
-  const check = checkProgram(source, schemaOf(tables));
+  const check = checkProgram(source, dataSchemaOf(tables));
   const messages = check.messages.map((m) => ({ severity: m.severity, message: m.suggestion ? `${m.message}; ${m.suggestion}` : m.message, line: m.line, column: m.column }));
   let rows: ModelCheck['rows'] = null;
   let regionStatus: CompileResponse['region'] = { status: 'unchecked', message: check.ok ? 'Not checked.' : 'Fix the problems listed below first.' };

@@ -6,7 +6,7 @@
 import { Router } from 'express';
 import { and, eq } from 'drizzle-orm';
 import { routes } from '../../shared/api/routes';
-import { checkCellContent, defaultCellContent, type CellConflictResponse } from '../../shared/api/notebook';
+import { checkCellContent, defaultCellContent, type CellConflictResponse, type CellContent } from '../../shared/api/notebook';
 import type { AppContext } from '../context';
 import { cells } from '../db/schema';
 import { mount } from '../http/route';
@@ -20,7 +20,7 @@ export function cellsRouter(ctx: AppContext): Router {
 
   mount(r, ctx, routes.createCell, async ({ params, body }, req) => {
     const ws = req.workspace!;
-    let content: unknown = defaultCellContent(body.kind);
+    let content: CellContent = defaultCellContent(body.kind);
     if (body.content !== undefined) {
       const checked = checkCellContent(body.kind, body.content);
       if (!checked.ok) throw badRequest('The cell content does not fit its kind', checked.fields);
@@ -57,7 +57,7 @@ export function cellsRouter(ctx: AppContext): Router {
   mount(r, ctx, routes.saveCell, async ({ params, body }, req, res) => {
     const ws = req.workspace!;
     const current = await findCell(db, ws.id, params.notebookId, params.cellId);
-    const patch: { source?: string; content?: unknown } = {};
+    const patch: { source?: string; content?: CellContent } = {};
     if (body.source !== undefined) patch.source = body.source;
     if (body.content !== undefined) {
       const checked = checkCellContent(current.kind, body.content);

@@ -2,7 +2,7 @@
 import { Router } from 'express';
 import { and, eq, inArray } from 'drizzle-orm';
 import { routes } from '../../shared/api/routes';
-import { NOTEBOOK_FILE_MAX_BYTES } from '../../shared/api/notebook';
+import { NOTEBOOK_FILE_MAX_BYTES, datasetIdOf } from '../../shared/api/notebook';
 import { buildNotebookFile, readNotebookFile, remapContent } from '../../shared/notebook-file';
 import type { AppContext } from '../context';
 import { cells, datasets, notebooks } from '../db/schema';
@@ -27,7 +27,7 @@ export function notebookFileRouter(ctx: AppContext): Router {
       ...new Set(
         list
           .filter((c) => c.kind === 'data')
-          .map((c) => (c.content as { datasetId?: string | null } | null)?.datasetId)
+          .map((c) => datasetIdOf(c.content))
           .filter((x): x is string => typeof x === 'string'),
       ),
     ];

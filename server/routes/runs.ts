@@ -5,7 +5,6 @@
  */
 import { Router, type Response } from 'express';
 import { routes } from '../../shared/api/routes';
-import type { FitSummary } from '../../shared/fit';
 import { summaryCsv } from '../../shared/export-csv';
 import type { AppContext } from '../context';
 import { mount } from '../http/route';
@@ -81,7 +80,7 @@ export function runsRouter(ctx: AppContext): Router {
     const run = await findRun(db, req.workspace!.id, params.runId, clock.now());
     if (!run.summary) throw notFound('This run has no summary yet');
     sendCsv(res, `summary-${run.id}.csv`);
-    res.status(200).send(summaryCsv((run.summary as FitSummary).quantities));
+    res.status(200).send(summaryCsv(run.summary.quantities));
   });
 
   // ---- share-link readers ----

@@ -16,6 +16,7 @@ import { and, desc, eq, inArray } from 'drizzle-orm';
 import { compareContentSchema, compareResultSchema, compareRunSchema, SENSITIVITY_FACTORS, type CompareProgress, type CompareResult, type CompareRun } from '../../shared/api/compare';
 import { WORKSPACE_CONCURRENT_RUNS } from '../../shared/api/notebook';
 import type { Db } from '../db/client';
+import type { FitProgress, FitSummary } from '../../shared/fit';
 import { cells, datasets, runChains, runs, runSummaries, users, workspaces } from '../db/schema';
 import type { Exec } from '../lib/audit';
 import { DomainError } from '../lib/errors';
@@ -46,6 +47,16 @@ export interface CompareSpec {
 }
 
 export type CompareSettings = CompareRun['settings'];
+
+/**
+ * The runs columns are typed for fits (server/db/schema.ts); a compare row keeps its own shapes in
+ * them (settings: CompareSettings, spec: CompareSpec, progress: CompareProgress, summary:
+ * CompareResult), written and read back only here.
+ */
+type RunInsert = typeof runs.$inferInsert;
+export function compareRunValues(v: Omit<RunInsert, 'settings' | 'spec' | 'progress'> & { settings: CompareSettings; spec: CompareSpec; progress: CompareProgress | null }): RunInsert {
+  return v as unknown as RunInsert;
+}
 
 export function isCompareSpec(spec: unknown): spec is CompareSpec {
   return !!spec && typeof spec === 'object' && (spec as { kind?: unknown }).kind === 'compare';
@@ -108,13 +119,15 @@ export async function compareSpecOf(db: Exec, workspaceId: string, notebookId: s
     if (missing.length) throw invalid(`'${label}' binds ${missing.map((t) => `table "${t}"`).join(' and ')}, but no data cell in this notebook holds a table by that name.`);
     const tables = Object.fromEntries(named.map((t) => [t, bound.get(t)!.id]));
     const hash = fitModelHash(m.source, tables);
-    const [fit] = await db
-      .select({ id: runs.id, spec: runs.spec })
+    // The newest finished fit of the posterior (a prior-only fit of the same model has the same hash).
+    const fits = await db
+      .select({ id: runs.id, spec: runs.spec, settings: runs.settings })
       .from(runs)
       .where(and(eq(runs.workspaceId, workspaceId), eq(runs.notebookId, notebookId), eq(runs.modelHash, hash), eq(runs.status, 'done')))
       .orderBy(desc(runs.finishedAt), desc(runs.id))
-      .limit(1);
-    out.push({ cellId: m.id, label, source: m.source, tables, fitRunId: fit && !isCompareSpec(fit.spec) ? fit.id : null });
+      .limit(20);
+    const fit = fits.find((f) => !isCompareSpec(f.spec) && !(f.settings as { priorOnly?: boolean } | null)?.priorOnly);
+    out.push({ cellId: m.id, label, source: m.source, tables, fitRunId: fit ? fit.id : null });
   }
   return { spec: { kind: 'compare', models: out }, settings: { ...c, factors: sensitivity ? [1, ...SENSITIVITY_FACTORS] : [1] } };
 }
@@ -133,10 +146,12 @@ export async function queueCompare(db: Db, now: Date, q: QueueCompareRequest): P
     if (active >= WORKSPACE_CONCURRENT_RUNS) {
       throw new DomainError('conflict', `This workspace already has ${active} comparisons queued or running (the limit is ${WORKSPACE_CONCURRENT_RUNS}). Wait for one to finish or cancel one.`);
     }
-    await tx.insert(runs).values({
-      id, workspaceId: q.workspaceId, notebookId: q.notebookId, cellId: cell.id, status: 'queued', settings, seed: settings.seed,
-      modelHash: hash, spec, progress: null, attempts: 0, requestedBy: q.userId, createdAt: now,
-    });
+    await tx.insert(runs).values(
+      compareRunValues({
+        id, workspaceId: q.workspaceId, notebookId: q.notebookId, cellId: cell.id, status: 'queued', settings, seed: settings.seed,
+        modelHash: hash, spec, progress: null, attempts: 0, requestedBy: q.userId, createdAt: now,
+      }),
+    );
   });
   return findCompareRun(db, q.workspaceId, id, now);
 }
@@ -212,7 +227,7 @@ export async function cancelCompare(db: Db, now: Date, workspaceId: string, runI
 /* -------------------------------------------------------------------------------------------- */
 
 /** Everything the thread needs, read from the database (tables parsed, fits' draws as stored). */
-export async function compareThreadInput(db: Exec, run: Pick<RunRow, 'workspaceId' | 'spec' | 'settings' | 'seed'>): Promise<CompareThreadInput> {
+export async function compareThreadInput(db: Exec, run: { workspaceId: string; spec: unknown; settings: unknown; seed: number }): Promise<CompareThreadInput> {
   const spec = run.spec as CompareSpec;
   const settings = run.settings as CompareSettings;
   const models: CompareThreadInput['models'] = [];
@@ -296,7 +311,7 @@ export function computeOnThread(input: CompareThreadInput, signal?: AbortSignal,
 const fenced = (runId: string, workerId: string) => and(eq(runs.id, runId), eq(runs.leaseOwner, workerId), eq(runs.status, 'running'));
 
 export async function writeCompareProgress(db: Db, runId: string, workerId: string, progress: CompareProgress): Promise<boolean> {
-  const [res] = await db.update(runs).set({ progress }).where(fenced(runId, workerId));
+  const [res] = await db.update(runs).set({ progress: progress as unknown as FitProgress[] }).where(fenced(runId, workerId));
   return res.affectedRows === 1;
 }
 
@@ -307,7 +322,7 @@ export async function finishCompare(db: Db, run: Pick<RunRow, 'id' | 'workspaceI
     const [mine] = await tx.select({ id: runs.id }).from(runs).where(fenced(run.id, workerId)).for('update');
     if (!mine) return false;
     await tx.delete(runSummaries).where(eq(runSummaries.runId, run.id));
-    await tx.insert(runSummaries).values({ runId: run.id, workspaceId: run.workspaceId, summary, createdAt: now });
+    await tx.insert(runSummaries).values({ runId: run.id, workspaceId: run.workspaceId, summary: summary as unknown as FitSummary, createdAt: now });
     await tx
       .update(runs)
       .set({ status: 'done', finishedAt: now, leaseOwner: null, leaseExpiresAt: null, heartbeatAt: null, progress: null, timings, error: null, partial: false })

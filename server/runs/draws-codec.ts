@@ -1,4 +1,5 @@
 import type { ChainResult } from '../engine/types';
+import type { ChainStats } from '../../shared/fit';
 
 /**
  * Compact binary storage of one chain's draws: little-endian Float64, draw-major
@@ -61,20 +62,6 @@ export function decodeFloats(text: string): Float64Array {
   return out;
 }
 
-/** Stored with every chain: names of the columns of its draws, and per-draw flags. */
-export interface ChainStats {
-  unknownNames: string[];
-  derivedNames: string[];
-  divergent: [number, number][];
-  /** Draws whose transition was rejected (a step could not be completed); absent in older rows = none. */
-  rejected?: [number, number][];
-  stepSize: number | null;
-  meanAcceptStat: number;
-  factorizationsPerStep?: number;
-  /** Per-draw acceptance statistic and energy (encodeFloats), so a resumed fit summarises exactly. */
-  acceptStat?: string;
-  energy?: string;
-}
 
 /** Names of the columns of a run's draws: the unknowns' coordinates, then derived quantities. */
 export interface DrawNames {

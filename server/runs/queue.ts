@@ -15,23 +15,19 @@
  */
 import { and, asc, eq, inArray, lt, or, sql } from 'drizzle-orm';
 import { RUN_LIMITS } from '../../shared/api/notebook';
-import type { FitProgress, FitSummary } from '../../shared/fit';
+import type { ChainStats, FitProgress, FitSummary } from '../../shared/fit';
 import type { Db } from '../db/client';
 import { runChains, runs, runSummaries } from '../db/schema';
 import { newId } from '../lib/ids';
 import type { ChainResult } from '../engine/types';
-import { decodeDraws, decodeFlags, decodeFloats, encodeChain, type ChainStats, type DrawNames, type EncodedChain } from './draws-codec';
+import { decodeDraws, decodeFlags, decodeFloats, encodeChain, type DrawNames, type EncodedChain } from './draws-codec';
+import { ACTIVE_RUN_STATUSES } from '../../shared/terms';
 
 export type RunRow = typeof runs.$inferSelect;
 
-/** What a run needs, frozen when it is queued. */
-export interface RunSpec {
-  source: string;
-  /** Table name → dataset id. */
-  tables: Record<string, string>;
-}
 
-export type { ChainStats, DrawNames, EncodedChain } from './draws-codec';
+export type { DrawNames, EncodedChain } from './draws-codec';
+export type { ChainStats, RunSpec } from '../../shared/fit';
 
 const fenced = (runId: string, workerId: string) => and(eq(runs.id, runId), eq(runs.leaseOwner, workerId), eq(runs.status, 'running'));
 
@@ -155,8 +151,8 @@ export async function storedChains(db: Pick<Db, 'select'>, run: Pick<RunRow, 'id
     .orderBy(asc(runChains.chainIndex));
   const out: ChainResult[] = [];
   for (const r of rows) {
-    const st = r.stats as ChainStats;
-    if (st.acceptStat === undefined) continue;
+    const st = r.stats;
+    if (!st || st.acceptStat === undefined) continue;
     const dimU = st.unknownNames.length;
     const dimD = st.derivedNames.length;
     if (r.dimension !== dimU + dimD) continue;
@@ -233,7 +229,7 @@ export async function cancelRun(db: Db, workspaceId: string, runId: string, now:
     const [res] = await tx
       .update(runs)
       .set({ status: 'cancelled', finishedAt: now, leaseOwner: null, leaseExpiresAt: null })
-      .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId), inArray(runs.status, ['queued', 'running'])));
+      .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId), inArray(runs.status, [...ACTIVE_RUN_STATUSES])));
     if (res.affectedRows !== 1) return false;
     // Chains a worker stored before the cancel (its later writes are fenced out).
     await tx.delete(runChains).where(and(eq(runChains.workspaceId, workspaceId), eq(runChains.runId, runId)));
@@ -250,6 +246,6 @@ export async function activeRunCount(db: Pick<Db, 'select'>, workspaceId: string
   const [row] = await db
     .select({ n: sql<number>`count(*)` })
     .from(runs)
-    .where(and(eq(runs.workspaceId, workspaceId), inArray(runs.status, ['queued', 'running']), kind === 'compare' ? isCompare : sql`NOT ${isCompare}`));
+    .where(and(eq(runs.workspaceId, workspaceId), inArray(runs.status, [...ACTIVE_RUN_STATUSES]), kind === 'compare' ? isCompare : sql`NOT ${isCompare}`));
   return Number(row?.n ?? 0);
 }

@@ -1,11 +1,11 @@
 /** Reading runs: rows to API objects, draws for plots and CSV, the region of a run's model. */
 import { and, asc, desc, eq, inArray } from 'drizzle-orm';
-import { fitSummarySchema, type FitProgress, type FitSummary } from '../../shared/fit';
+import { fitSummarySchema, type FitSummary } from '../../shared/fit';
 import { RUN_HEARTBEAT, type Run, type RunDraws } from '../../shared/api/notebook';
 import { runChains, runs, runSummaries, users, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
 import { DomainError } from '../lib/errors';
-import { queuePositions, type ChainStats, type RunRow, type RunSpec } from './queue';
+import { queuePositions, type RunRow } from './queue';
 import { computeFailure, datasetMetaColumns, loadDataTables } from '../notebook/datasets';
 import { checkModelOffThread } from '../notebook/checks';
 import { computePool } from '../compute/pool';
@@ -39,7 +39,7 @@ export function toRun(r: RunRow, summary: FitSummary | null, requestedByName: st
     startedAt: r.startedAt?.toISOString() ?? null,
     finishedAt: r.finishedAt?.toISOString() ?? null,
     error: r.error ?? null,
-    progress: Array.isArray(r.progress) ? (r.progress as FitProgress[]) : [],
+    progress: Array.isArray(r.progress) ? r.progress : [],
     summary,
     worker: r.status === 'running' ? (workerLost(r, view.now) ? 'lost' : 'active') : null,
     lastHeartbeatAt: r.status === 'running' ? (r.heartbeatAt?.toISOString() ?? null) : null,
@@ -51,7 +51,7 @@ export function toRun(r: RunRow, summary: FitSummary | null, requestedByName: st
 async function withSummaries(exec: Exec, rows: { r: RunRow; name: string | null }[], now: Date): Promise<Run[]> {
   const ids = rows.filter((x) => x.r.status === 'done').map((x) => x.r.id);
   const sums = ids.length ? await exec.select().from(runSummaries).where(inArray(runSummaries.runId, ids)) : [];
-  const byId = new Map(sums.map((s) => [s.runId, s.summary as FitSummary]));
+  const byId = new Map(sums.map((s) => [s.runId, s.summary]));
   // The queue's order is read only when a queued run is shown.
   const positions = rows.some((x) => x.r.status === 'queued') ? await queuePositions(exec, now) : undefined;
   return rows.map((x) => toRun(x.r, byId.get(x.r.id) ?? null, x.name, { now, positions }));
@@ -89,7 +89,8 @@ async function storedChainInputs(exec: Exec, workspaceId: string, runId: string)
     .where(and(eq(runChains.workspaceId, workspaceId), eq(runChains.runId, runId)))
     .orderBy(asc(runChains.chainIndex));
   if (rows.length === 0) throw new DomainError('not_found', 'This run has no stored draws');
-  const stats = rows[0].stats as ChainStats;
+  const stats = rows[0].stats;
+  if (!stats) throw new Error(`Run ${runId}: a chain was stored without its statistics`);
   return {
     names: [...stats.unknownNames, ...stats.derivedNames],
     unknownNames: stats.unknownNames,
@@ -98,7 +99,7 @@ async function storedChainInputs(exec: Exec, workspaceId: string, runId: string)
       draws: new Uint8Array(r.draws.buffer, r.draws.byteOffset, r.draws.byteLength),
       drawCount: r.drawCount,
       dimension: r.dimension,
-      divergent: (r.stats as ChainStats).divergent,
+      divergent: r.stats?.divergent ?? [],
     })),
   };
 }
@@ -138,7 +139,7 @@ export async function runDrawsCsv(exec: Exec, workspaceId: string, runId: string
 
 /** The constraint rows of the model a run fitted (data filled in), or null when unavailable. */
 export async function runRegion(exec: Exec, run: RunRow, names: string[]) {
-  const spec = run.spec as RunSpec | null;
+  const spec = run.spec;
   if (!spec) return null;
   try {
     const ids = Object.values(spec.tables);

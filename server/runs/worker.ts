@@ -25,10 +25,11 @@ import type { Clock } from '../lib/clock';
 import { systemClock } from '../lib/clock';
 import { newId } from '../lib/ids';
 import { datasetMetaColumns, loadDataTables } from '../notebook/datasets';
-import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type EncodedChain, type RunRow, type RunSpec } from './queue';
+import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type EncodedChain, type RunRow } from './queue';
 import { computePool } from '../compute/pool';
 import { describe, isTransientDbError, retryDb } from './retry';
 import { isCompareSpec, runCompareJob } from './compare-job';
+import { computeRunChecks } from './checks';
 
 export interface WorkerOptions {
   db: Db;
@@ -229,7 +230,8 @@ export class RunWorker {
         );
         return;
       }
-      const spec = run.spec as RunSpec;
+      const spec = run.spec;
+      if (!spec) throw new Error(`Run ${run.id} was queued without its model and data`);
       settings = fitSettingsSchema.parse(run.settings);
       const ids = Object.values(spec.tables);
       const rows = ids.length
@@ -239,7 +241,8 @@ export class RunWorker {
       const missing = Object.entries(spec.tables).filter(([, id]) => !byId.has(id)).map(([name]) => name);
       if (missing.length) throw new Error(`The data of table ${missing.map((m) => `"${m}"`).join(', ')} was deleted before the fit ran.`);
       const tables = await loadDataTables(this.db, Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
-      target = { kind: 'program', source: spec.source, tables };
+      // Before the data: the engine fits the program with its likelihood terms left out.
+      target = { kind: 'program', source: spec.source, tables, ...(settings.priorOnly ? { priorOnly: true } : {}) };
       // The column names every stored chain carries (the engine caches the prepared target).
       const prepared = (await preparedFor(target)).target;
       const drawNames: DrawNames = { unknownNames: prepared.names.slice(), derivedNames: prepared.derived?.names.slice() ?? [] };
@@ -276,10 +279,14 @@ export class RunWorker {
       });
       await chainWrites;
       const tFit = performance.now();
+      // Model checks on the compute pool (a failure or the time limit is reported in the checks).
+      const checks = await computeRunChecks(spec.source, tables, result, settings);
+      const tChecks = performance.now();
       const ok = await this.write(`finishing run ${run.id}`, () =>
-        finishRun(this.db, run, this.id, result, this.clock.now(), {
+        finishRun(this.db, run, this.id, { ...result, summary: { ...result.summary, checks } }, this.clock.now(), {
           load: Math.round(tLoad - started),
           fit: Math.round(tFit - tLoad),
+          checks: Math.round(tChecks - tFit),
           total: Math.round(performance.now() - started),
         }),
       );
@@ -365,7 +372,8 @@ export class RunWorker {
     const reindexed = sorted.map((c, k) => ({ ...c, chain: k }));
     const sub = await runFit(target, { ...settings, chains: sorted.length }, { parallel: this.parallel, summaryOnWorker: true, resume: reindexed });
     // The summary's settings name the chains it covers; the run keeps the settings it was queued with.
-    const result = { ...sub, chains: sorted };
+    const checks = target.kind === 'program' ? await computeRunChecks(target.source, target.tables, { unknownNames: sub.unknownNames, chains: sorted }, settings) : undefined;
+    const result = { ...sub, chains: sorted, summary: { ...sub.summary, ...(checks ? { checks } : {}) } };
     const ok = await this.write(`finishing run ${run.id} (partial)`, () =>
       finishRun(this.db, run, this.id, result, this.clock.now(), { fit: Math.round(performance.now() - started), total: Math.round(performance.now() - started) }, { partial: true }),
     );

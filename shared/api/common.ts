@@ -127,3 +127,24 @@ export type ApiError = z.infer<typeof apiErrorSchema>;
 
 /** `{ ok: true }` acknowledgement for actions with nothing else to say. */
 export const okSchema = z.object({ ok: z.literal(true) });
+
+/**
+ * Zod issues as the `fields` of the error shape: dotted path → first message; unknown keys name
+ * themselves ("Unknown field"). A problem with the whole value goes under `root` (the server
+ * passes the part's name: `body`, `query`; the client's forms use `''`). Server, client and the
+ * cell-content check all map issues this way.
+ */
+export function issuesToFields(
+  issues: ReadonlyArray<{ code?: string; path: ReadonlyArray<PropertyKey>; message: string; keys?: readonly string[] }>,
+  root = '_',
+): Record<string, string> {
+  const fields: Record<string, string> = {};
+  for (const issue of issues) {
+    if (issue.code === 'unrecognized_keys' && issue.keys) {
+      for (const key of issue.keys) fields[[...issue.path.map(String), key].join('.')] ??= 'Unknown field';
+      continue;
+    }
+    fields[issue.path.map(String).join('.') || root] ??= issue.message;
+  }
+  return fields;
+}

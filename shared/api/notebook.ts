@@ -5,7 +5,7 @@
  */
 import { z } from 'zod';
 import { fitProgressSchema, fitSettingsSchema, fitSummarySchema } from '../fit';
-import { idSchema, isoDateSchema } from './common';
+import { idSchema, isoDateSchema, issuesToFields } from './common';
 import { CELL_KINDS, cellKindSchema, cellSchema } from './notebooks';
 import { ACTIVE_RUN_STATUSES, RUN_STATUSES } from '../terms';
 import { compareContentSchema, type CompareContent } from './compare';
@@ -55,6 +55,11 @@ export { compareContentSchema };
 export type DataContent = z.infer<typeof dataContentSchema>;
 export type FitContent = z.infer<typeof fitContentSchema>;
 export type { CompareContent };
+/** A cell's content, whatever its kind (notes and model cells have none). */
+export type CellContent = DataContent | FitContent | CompareContent | null;
+
+/** The dataset a data cell shows; null for any other content. */
+export const datasetIdOf = (content: CellContent): string | null => (content && 'datasetId' in content ? content.datasetId : null);
 
 export const cellContentSchemas = {
   notes: notesContentSchema,
@@ -65,14 +70,14 @@ export const cellContentSchemas = {
 } as const;
 
 /** The content a new cell of this kind starts with. */
-export function defaultCellContent(kind: NbCellKind): unknown {
+export function defaultCellContent(kind: NbCellKind): CellContent {
   switch (kind) {
     case 'data':
       return { datasetId: null };
     case 'fit':
       return { modelCellId: null, settings: fitSettingsSchema.parse({}) };
     case 'compare':
-      return { modelCellIds: [] };
+      return compareContentSchema.parse({ modelCellIds: [] });
     default:
       return null;
   }
@@ -82,15 +87,10 @@ export function defaultCellContent(kind: NbCellKind): unknown {
 export function checkCellContent(
   kind: NbCellKind,
   content: unknown,
-): { ok: true; content: unknown } | { ok: false; fields: Record<string, string> } {
+): { ok: true; content: CellContent } | { ok: false; fields: Record<string, string> } {
   const r = cellContentSchemas[kind].safeParse(content);
   if (r.success) return { ok: true, content: r.data };
-  const fields: Record<string, string> = {};
-  for (const issue of r.error.issues) {
-    const path = ['content', ...issue.path.map(String)].join('.');
-    if (!(path in fields)) fields[path] = issue.message;
-  }
-  return { ok: false, fields };
+  return { ok: false, fields: issuesToFields(r.error.issues.map((issue) => ({ ...issue, path: ['content', ...issue.path] }))) };
 }
 
 /** A cell as the notebook page sees it. */

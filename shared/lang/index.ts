@@ -52,3 +52,4 @@ export { categoryIndexes, elementLabels, type CategoryIndex } from './levels';
 export function extractConstraints(ast: { program: Program; dim: number }, tables: DataValues): ExtractResult {
   return extractConstraintsFrom(ast.program, ast.dim, tables);
 }
+export { dataSchemaOf, type SchemaSourceTable } from './schema';

@@ -8,7 +8,7 @@
  *   answer against the route's response schema.
  */
 import type { z } from 'zod';
-import { apiErrorSchema, routePath, routes, type RouteName } from '@shared/api';
+import { apiErrorSchema, issuesToFields as sharedIssuesToFields, routePath, routes, type RouteName } from '@shared/api';
 
 /** Codes the client adds on top of the server's (`ERROR_CODES` in shared/api/common.ts). */
 export type ClientErrorCode = 'network' | 'bad_response';
@@ -22,6 +22,8 @@ export class ApiError extends Error {
     message: string,
     /** Field path (e.g. `email`) → message, for forms. */
     readonly fields: Readonly<Record<string, string>> = {},
+    /** The answer's parsed body, for routes whose refusals carry more than the error (a save conflict). */
+    readonly body?: unknown,
   ) {
     super(message);
   }
@@ -57,28 +59,19 @@ export function toApiError(status: number, body: unknown): ApiError {
   const parsed = apiErrorSchema.safeParse(body);
   if (parsed.success) {
     const { code, message, fields } = parsed.data.error;
-    return new ApiError(status, code, message || fallbackMessages[status] || `Request failed (${status}).`, fields ?? {});
+    return new ApiError(status, code, message || fallbackMessages[status] || `Request failed (${status}).`, fields ?? {}, body);
   }
   const message = fallbackMessages[status] ?? `Request failed (${status}).`;
   const code = status >= 500 ? 'internal' : status === 404 ? 'not_found' : 'bad_request';
-  return new ApiError(status, code, message);
+  return new ApiError(status, code, message, {}, body);
 }
 
-/**
- * Turns zod issues into the same `fields` map the server sends: dotted path → first message.
- * Issues without a path go under `''`.
- */
-export function issuesToFields(issues: ReadonlyArray<{ path: ReadonlyArray<PropertyKey>; message: string }>): Record<string, string> {
-  const fields: Record<string, string> = {};
-  for (const issue of issues) {
-    const key = issue.path.map(String).join('.');
-    if (!(key in fields)) fields[key] = issue.message;
-  }
-  return fields;
-}
+/** Zod issues as the server's `fields` map (shared/api/common.ts); a whole-value problem goes under `''`. */
+export const issuesToFields = (issues: Parameters<typeof sharedIssuesToFields>[0]) => sharedIssuesToFields(issues, '');
 
 export type ApiFetchOptions = {
   method?: 'GET' | 'POST' | 'PATCH' | 'DELETE';
+  /** JSON-serialisable, or a FormData sent as multipart as it is. */
   body?: unknown;
   query?: Record<string, string | number | undefined>;
   signal?: AbortSignal;
@@ -94,14 +87,15 @@ export async function apiFetch(path: string, { method = 'GET', body, query, sign
     if (s) url += `?${s}`;
   }
   const headers: Record<string, string> = { Accept: 'application/json' };
-  if (body !== undefined) headers['Content-Type'] = 'application/json';
+  const multipart = body instanceof FormData;
+  if (body !== undefined && !multipart) headers['Content-Type'] = 'application/json';
 
   let res: Response;
   try {
     res = await fetch(url, {
       method,
       headers,
-      body: body === undefined ? undefined : JSON.stringify(body),
+      body: body === undefined ? undefined : multipart ? body : JSON.stringify(body),
       credentials: 'same-origin',
       signal,
     });
@@ -138,6 +132,8 @@ export type CallOptions<N extends RouteName> = {
   params?: RouteParams<N>;
   query?: RouteQuery<N>;
   body?: RouteBody<N>;
+  /** For multipart routes: the file, sent in the `file` field beside the body's text fields. */
+  file?: File;
   signal?: AbortSignal;
 };
 
@@ -161,6 +157,12 @@ export async function callRoute<N extends RouteName>(name: N, opts: CallOptions<
       throw new ApiError(400, 'bad_request', 'Please correct the highlighted fields.', issuesToFields(checked.error.issues));
     }
     body = checked.data;
+    if (opts.file) {
+      const form = new FormData();
+      for (const [k, v] of Object.entries(checked.data as Record<string, unknown>)) form.set(k, String(v));
+      form.set('file', opts.file);
+      body = form;
+    }
   } else if (def.method !== 'GET' && opts.body !== undefined) {
     body = opts.body;
   }

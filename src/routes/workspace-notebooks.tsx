@@ -2,10 +2,10 @@ import type { QueryClient } from '@tanstack/react-query';
 import { useOutletContext, type LoaderFunctionArgs } from 'react-router-dom';
 import { roleAtLeast, type Workspace } from '@shared/api';
 import { QueryState } from '@/components/query-state';
-import { notebooksQueryOptions, useNotebooks } from '@/features/notebooks/api/get-notebooks';
-import { CreateNotebookForm } from '@/features/notebooks/components/create-notebook-form';
-import { ImportNotebookFile } from '@/features/notebooks/components/import-notebook-file';
-import { NotebookList } from '@/features/notebooks/components/notebook-list';
+import { notebooksQueryOptions, useNotebooks } from '@/features/notebook/api/get-notebooks';
+import { CreateNotebookForm } from '@/features/notebook/components/create-notebook-form';
+import { ImportNotebookFile } from '@/features/notebook/components/import-notebook-file';
+import { NotebookList } from '@/features/notebook/components/notebook-list';
 
 export const makeLoader = (qc: QueryClient) => async ({ params }: LoaderFunctionArgs) => {
   await qc.prefetchQuery(notebooksQueryOptions(params.workspaceId!));

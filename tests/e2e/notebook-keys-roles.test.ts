@@ -57,7 +57,7 @@ async function withShot(name: string, body: () => Promise<void>) {
   }
 }
 
-const activeCellKind = () => page.locator('section.sl-cell[data-active="true"]').getAttribute('data-kind');
+const activeCellKind = () => page.locator('section[data-cell-id][data-active="true"]').getAttribute('data-kind');
 
 describe('keyboard', () => {
   it('Ctrl-Enter in the model editor runs the fit below instead of inserting a line and saving a version', () =>

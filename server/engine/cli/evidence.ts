@@ -11,7 +11,7 @@ import type { EvidenceOptions, EvidenceResult } from '../evidence';
 import { programEvidence, testHypothesis, type HypothesisResult } from '../evidence/program';
 import { loadTables, processIo, readOrFail, type CliIo } from './fit';
 import { scalePriors } from '../../../shared/lang/prior-scale';
-import { schemaOf } from '../compile';
+import { dataSchemaOf as schemaOf } from '../../../shared/lang/index';
 import { EVIDENCE_USAGE, parseEvidenceArgs, UsageError, type EvidenceCliArgs } from './evidence-args';
 
 export interface EvidenceCliOptions {

@@ -12,8 +12,7 @@ import type { DataTables, TargetSpec } from '../types';
 import { runFit } from '../fit';
 import { parseCliArgs, USAGE, UsageError, type CliArgs, type DataArg } from './args';
 import { drawsCsv, summaryJson, summaryTable } from './format';
-import { checkProgram } from '../../../shared/lang/index';
-import { schemaOf } from '../compile/index';
+import { checkProgram, dataSchemaOf } from '../../../shared/lang/index';
 import { runModelChecks, type ModelChecks } from '../predictive/checks';
 import { checksJson, checksTable, replicatesCsv } from './checks-format';
 
@@ -129,7 +128,7 @@ export async function main(argv: string[], io: CliIo = processIo, opts: CliOptio
     const model = path.basename(args.modelPath);
     let checks: ModelChecks | undefined;
     if (spec.kind === 'program') {
-      checks = runModelChecks(checkProgram(spec.source, schemaOf(spec.tables)), spec.tables, result, {
+      checks = runModelChecks(checkProgram(spec.source, dataSchemaOf(spec.tables)), spec.tables, result, {
         seed: result.summary.settings.seed,
         replicates: args.replicates,
         extraStats: args.checkStats,

@@ -6,6 +6,7 @@
 import {
   checkProgram,
   extractConstraints,
+  dataSchemaOf,
   type CheckResult,
   type DataSchema,
   type Expr,
@@ -38,20 +39,6 @@ export interface CompiledModel extends ModelTarget {
   check: CheckResult;
 }
 
-/** Column types and row counts of the data, as the checker wants them. */
-export function schemaOf(tables: DataTables): DataSchema {
-  const schema = Object.create(null) as DataSchema;
-  for (const name of Object.keys(tables ?? {})) {
-    const t = tables[name];
-    const cols = Object.create(null) as DataSchema[string]['columns'];
-    for (const c of Object.keys(t.columns)) {
-      const col = t.columns[c];
-      cols[c] = col.type === 'category' ? { type: 'category', levels: col.levels?.length } : { type: col.type };
-    }
-    schema[name] = { rows: t.rows, columns: cols };
-  }
-  return schema;
-}
 
 function messageAt(line: number, err: unknown): LangMessage {
   if (err instanceof LangError)
@@ -232,7 +219,7 @@ function toSystem(r: { rows: number; cols: number; A: Float64Array; b: Float64Ar
 export function compileChecked(check: CheckResult, tables: DataTables): CompiledModel {
   if (!check.ok) throw new CompileError(check.messages);
   // The data must match the schema the program was checked against.
-  const schema = schemaOf(tables);
+  const schema = dataSchemaOf(tables);
   for (const t of check.tables) {
     const want = check.schema[t];
     const have = Object.prototype.hasOwnProperty.call(schema, t) ? schema[t] : undefined;
@@ -263,7 +250,7 @@ export function compileChecked(check: CheckResult, tables: DataTables): Compiled
 
 /** Check and compile program text against data tables. Throws CompileError with the messages. */
 export function compileProgram(source: string, tables: DataTables): CompiledModel {
-  const check = checkProgram(source, schemaOf(tables));
+  const check = checkProgram(source, dataSchemaOf(tables));
   return compileChecked(check, tables);
 }
 

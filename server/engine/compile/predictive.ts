@@ -13,6 +13,7 @@
  */
 import {
   checkProgram,
+  dataSchemaOf,
   isLikelihoodTerm,
   type CheckResult,
   type Expr,
@@ -24,7 +25,7 @@ import type { Rng } from '../rng';
 import { generatorsFor, REPLICABLE_DENSITIES, type Generator } from '../predictive/generators';
 import { CodeGen, lit, reductionLength, splitTerm } from './codegen';
 import { densityInfo, RUNTIME } from './runtime';
-import { CompileError, compileChecked, schemaOf, type CompiledModel } from './index';
+import { CompileError, compileChecked, type CompiledModel } from './index';
 
 function buildFn(gen: CodeGen, params: string, body: string[]): { fn: (...a: never[]) => unknown; source: string } {
   const closure = [...gen.closure, `const P = new Float64Array(${Math.max(1, gen.tapeSize)});`, `const Q = new Float64Array(${gen.scratch});`];
@@ -283,7 +284,7 @@ export function withoutLikelihood(check: CheckResult): CheckResult {
 
 /** Check and compile program text with its likelihood terms dropped: a fit of the prior alone. */
 export function compilePriorOnly(source: string, tables: DataTables): CompiledModel {
-  const check = checkProgram(source, schemaOf(tables));
+  const check = checkProgram(source, dataSchemaOf(tables));
   if (!check.ok) throw new CompileError(check.messages);
   return compileChecked(withoutLikelihood(check), tables);
 }

@@ -30,7 +30,8 @@
 import type { CompareEntry, CompareEntryKey, CompareHypothesisResult, CompareLoo, CompareResult } from '../../../shared/api/compare';
 import { checkProgram } from '../../../shared/lang/index';
 import { scalePriors, type PriorScaleResult } from '../../../shared/lang/prior-scale';
-import { compileProgram, schemaOf } from '../compile';
+import { compileProgram } from '../compile';
+import { dataSchemaOf as schemaOf } from '../../../shared/lang/index';
 import { runModelChecks } from '../predictive/checks';
 import type { ChainResult, DataTables, FitResult } from '../types';
 import type { EvidenceResult } from './index';

@@ -14,9 +14,9 @@
  * the program with its likelihood term lines removed (shared/lang termRoles). The four Z are computed
  * with different seeds, so their errors are independent and the standard errors add in quadrature.
  */
-import { checkProgram, termRoles, type Statement } from '../../../shared/lang/index';
+import { checkProgram, dataSchemaOf, termRoles, type Statement } from '../../../shared/lang/index';
 import type { DataTables } from '../types';
-import { compileProgram, schemaOf } from '../compile';
+import { compileProgram } from '../compile';
 import { prepareTarget } from '../geometry';
 import { computeEvidence, type EvidenceOptions, type EvidenceResult } from './index';
 
@@ -30,7 +30,7 @@ export function withoutLines(source: string, lines: Iterable<number>): string {
 }
 
 function checked(source: string, tables: DataTables) {
-  const c = checkProgram(source, schemaOf(tables));
+  const c = checkProgram(source, dataSchemaOf(tables));
   return c;
 }
 

@@ -2,8 +2,8 @@ import { forwardRef, type ButtonHTMLAttributes } from 'react';
 import { cn } from '@/lib/cn';
 import { Spinner } from './spinner';
 
-export type ButtonVariant = 'primary' | 'secondary' | 'quiet' | 'destructive';
-export type ButtonSize = 'sm' | 'md';
+export type ButtonVariant = 'primary' | 'secondary' | 'quiet' | 'destructive' | 'slack';
+export type ButtonSize = 'xs' | 'sm' | 'md';
 
 const variants: Record<ButtonVariant, string> = {
   primary: 'bg-ink text-sheet border border-ink hover:bg-ink-soft hover:border-ink-soft',
@@ -11,9 +11,13 @@ const variants: Record<ButtonVariant, string> = {
   quiet: 'bg-transparent text-ink-soft border border-transparent hover:text-ink hover:bg-sheet-dim',
   destructive:
     'bg-sheet text-notice border border-notice/50 hover:bg-notice hover:text-sheet hover:border-notice',
+  /** the accent: starts work that leaves room (a fit, an upload, keeping one's own text) */
+  slack: 'bg-slack text-white border border-slack hover:bg-slack-deep hover:border-slack-deep',
 };
 
 const sizes: Record<ButtonSize, string> = {
+  /** the small tools of a notebook cell */
+  xs: 'h-7 px-2.5 text-[0.8rem] gap-1.5',
   sm: 'h-8 px-3 text-[0.8125rem] gap-1.5',
   md: 'h-10 px-4 text-sm gap-2',
 };

@@ -5,6 +5,17 @@ const control =
   'w-full rounded-md border bg-white px-3 text-sm text-ink placeholder:text-ink-faint/70 ' +
   'transition-colors outline-none focus:border-ink focus:ring-2 focus:ring-ink/10';
 
+/**
+ * A compact control for settings inside a page (a notebook cell's fields and pickers): numbers in
+ * tabular mono; disabled, it reads as text on the page rather than as a field waiting for input.
+ */
+export const compactControlClass =
+  'w-full rounded-[3px] border border-rule-strong bg-white px-2 py-[0.35rem] font-mono text-[0.85rem] text-ink tabular-nums ' +
+  'focus:outline-2 focus:-outline-offset-1 focus:outline-slack ' +
+  'aria-[invalid=true]:border-ink aria-[invalid=true]:shadow-[inset_0_-2px_0_var(--color-ink)] ' +
+  'disabled:cursor-default disabled:appearance-none disabled:rounded-none disabled:border-transparent disabled:border-b-rule-strong disabled:border-dashed ' +
+  'disabled:bg-transparent disabled:pl-0 disabled:text-ink-soft disabled:opacity-100 disabled:[-webkit-text-fill-color:var(--color-ink-soft)]';
+
 export type InputProps = InputHTMLAttributes<HTMLInputElement> & {
   label: ReactNode;
   /** The message shown under the field; also marks the control invalid. */

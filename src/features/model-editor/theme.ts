@@ -1,18 +1,18 @@
 /**
  * The editor's look: a calm paper surface, ink-coloured text, one accent (the app's "room left"
  * colour) for statement keywords and the cursor, and the warning colour only for error markers.
- * Colours read CSS variables first so the app's palette can set them in one place.
+ * Colours read the theme's CSS variables (src/styles/app.css) where the palette has the colour.
  */
 import { EditorView } from '@codemirror/view';
 
-const paper = 'var(--sl-paper, #f7f4ec)';
-const paperDeep = 'var(--sl-paper-deep, #efeadf)';
-const ink = 'var(--sl-ink, #23211c)';
-const inkSoft = 'var(--sl-ink-soft, #5d584d)';
-const inkFaint = 'var(--sl-ink-faint, #948d7e)';
-const accent = 'var(--sl-accent, #17735f)';
-const accentWash = 'var(--sl-accent-wash, rgba(23, 115, 95, 0.12))';
-const warn = 'var(--sl-warn, #b23a1e)';
+const paper = 'var(--color-paper, #f6f3ea)';
+const paperDeep = '#efeadf';
+const ink = 'var(--color-ink, #1c2631)';
+const inkSoft = 'var(--color-ink-soft, #46525e)';
+const inkFaint = '#948d7e';
+const accent = 'var(--color-slack, #0d7a5f)';
+const accentWash = 'rgba(23, 115, 95, 0.12)';
+const warn = '#b23a1e';
 const mono = "'JetBrains Mono', ui-monospace, monospace";
 
 export const modelTheme = EditorView.theme(

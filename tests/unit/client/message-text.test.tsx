@@ -10,7 +10,7 @@ import { cleanup, render, screen } from '@testing-library/react';
 import { afterEach, describe, expect, it } from 'vitest';
 import { MessageText, messageElement, messageParts } from '@/components/message-text';
 import { messagesToDiagnostics } from '@/features/model-editor';
-import { ModelSidePanel } from '@/features/notebook/components/model-side-panel';
+import { ModelSidePanel } from '@/features/notebook/model/model-side-panel';
 
 afterEach(cleanup);
 

@@ -4,7 +4,7 @@ import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/re
 import type { Member, Notebook, Role } from '@shared/api';
 import { MemberTable } from '@/features/members/components/member-table';
 import { isLastOwner } from '@/features/members/components/last-owner';
-import { NotebookList } from '@/features/notebooks/components/notebook-list';
+import { NotebookList } from '@/features/notebook/components/notebook-list';
 import WorkspaceLayout from '@/routes/workspace-layout';
 import NotebookRoute from '@/routes/notebook';
 import { ISO, mockFetch, renderWithProviders } from './test-utils';

@@ -5,7 +5,7 @@ import { cleanup, render, screen } from '@testing-library/react';
 import { MemoryRouter } from 'react-router-dom';
 import type { Cell } from '@shared/api';
 import { expiryToIso } from '@/features/share-links/components/expiry';
-import { CellList } from '@/features/notebooks/components/cell-list';
+import { CellList } from '@/features/notebook/components/cell-list';
 import { LinkifiedText } from '@/routes/dev-mail';
 import { safeNext, withNext } from '@/lib/safe-next';
 import { ISO } from './test-utils';

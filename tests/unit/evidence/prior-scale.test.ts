@@ -8,7 +8,8 @@ import { describe, expect, it } from 'vitest';
 import normalLogpdf from '@stdlib/stats-base-dists-normal-logpdf';
 import exponentialLogpdf from '@stdlib/stats-base-dists-exponential-logpdf';
 import { scalePriors } from '../../../shared/lang/prior-scale';
-import { compileProgram, schemaOf } from '../../../server/engine/compile';
+import { compileProgram } from '../../../server/engine/compile';
+import { dataSchemaOf as schemaOf } from '../../../shared/lang/index';
 import type { DataTables } from '../../../server/engine/types';
 
 const tables: DataTables = { d: { rows: 3, columns: { y: { type: 'numeric', values: Float64Array.from([0.3, 1.1, -0.2]) } } } };

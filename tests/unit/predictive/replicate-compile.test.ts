@@ -7,8 +7,8 @@
 import { describe, expect, it } from 'vitest';
 import stdNormalLogpdf from '@stdlib/stats-base-dists-normal-logpdf';
 import stdPoissonLogpmf from '@stdlib/stats-base-dists-poisson-logpmf';
-import { checkProgram, isLikelihoodTerm, type DataSchema } from '../../../shared/lang/index';
-import { compileProgram, schemaOf } from '../../../server/engine/compile/index';
+import { checkProgram, dataSchemaOf, isLikelihoodTerm, type DataSchema } from '../../../shared/lang/index';
+import { compileProgram } from '../../../server/engine/compile/index';
 import { compilePointwise, compilePriorOnly, compileReplicates } from '../../../server/engine/compile/predictive';
 import { Rng } from '../../../server/engine/rng';
 import type { DataTables } from '../../../server/engine/types';
@@ -26,7 +26,7 @@ const tables: DataTables = {
   },
   visits: { rows: 3, columns: { n: { type: 'integer', values: Float64Array.of(0, 4, 2) } } },
 };
-const schema: DataSchema = schemaOf(tables);
+const schema: DataSchema = dataSchemaOf(tables);
 
 const MODEL = `table harvest
 unknown mu[3], sigma

@@ -2,7 +2,7 @@
 import { useQuery } from '@tanstack/react-query';
 import { callRoute } from '@/lib/api-client';
 import { ACTIVE_RUN_STATUSES } from '@shared/terms';
-import type { NotebookAccess } from './notebook-api';
+import type { NotebookAccess } from './access';
 
 export const compareRunsKey = (access: NotebookAccess, cellId: string) =>
   access.mode === 'member'

@@ -1,21 +1,13 @@
-/** Queue and cancel comparisons of a compare cell. */
+/** Queues the comparison a compare cell describes (with its draft settings), optionally with the prior scales halved and doubled. */
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import type { CompareContent } from '@shared/api/compare';
 import { callRoute } from '@/lib/api-client';
 import { compareRunsKey } from './get-compare-runs';
 
-export function useCompareMutations(workspaceId: string, notebookId: string, cellId: string) {
+export function useQueueCompare(workspaceId: string, notebookId: string, cellId: string) {
   const qc = useQueryClient();
-  const invalidate = () => qc.invalidateQueries({ queryKey: compareRunsKey({ mode: 'member', workspaceId, notebookId }, cellId) });
-  return {
-    queue: useMutation({
-      mutationFn: (v: { content: CompareContent; sensitivity: boolean }) =>
-        callRoute('queueCompareRun', { params: { workspaceId, notebookId, cellId }, body: v }),
-      onSuccess: invalidate,
-    }),
-    cancel: useMutation({
-      mutationFn: (runId: string) => callRoute('cancelCompareRun', { params: { workspaceId, runId }, body: {} }),
-      onSuccess: invalidate,
-    }),
-  };
+  return useMutation({
+    mutationFn: (v: { content: CompareContent; sensitivity: boolean }) => callRoute('queueCompareRun', { params: { workspaceId, notebookId, cellId }, body: v }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: compareRunsKey({ mode: 'member', workspaceId, notebookId }, cellId) }),
+  });
 }

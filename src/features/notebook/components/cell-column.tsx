@@ -1,5 +1,6 @@
 import { useCallback, useEffect, useRef, type KeyboardEvent, type ReactNode } from 'react';
 import { CELL_KIND_LABELS, NB_CELL_KINDS, type NbCellKind } from '@shared/api/notebook';
+import { buttonClass } from '@/components/ui/button';
 
 /**
  * Keyboard of the notebook (documented in the README's user guide):
@@ -94,7 +95,7 @@ export function CellColumn<C extends { id: string }>({ cells, activeId, onActiva
         </div>
       ))}
       {cells.length === 0 && (
-        <p className="sl-cell-sub py-8 text-center">
+        <p className="truncate text-[0.8rem] text-ink-soft py-8 text-center">
           <span>This notebook has no cells yet</span>.
           {onAdd && <span> Add notes, data, a model and a fit with the line above.</span>}
         </p>
@@ -105,13 +106,13 @@ export function CellColumn<C extends { id: string }>({ cells, activeId, onActiva
 
 function AddLine({ position, onAdd, always }: { position: number; onAdd: (kind: NbCellKind, position: number) => void; always: boolean }) {
   return (
-    <div className="sl-gap" data-always={always} role="group" aria-label={`Add a cell at position ${position + 1}`}>
-      <div className="sl-gap-menu">
-        <span className="sl-cell-sub" aria-hidden>
+    <div className="group/gap relative flex h-[1.6rem] items-center justify-center before:absolute before:top-1/2 before:right-[8%] before:left-[8%] before:border-t before:border-dashed before:border-transparent before:content-[''] hover:before:border-slack focus-within:before:border-slack" data-always={always} role="group" aria-label={`Add a cell at position ${position + 1}`}>
+      <div className="relative flex gap-1 bg-paper px-2 opacity-0 group-hover/gap:opacity-100 group-focus-within/gap:opacity-100 group-data-[always=true]/gap:opacity-100">
+        <span className="truncate text-[0.8rem] text-ink-soft" aria-hidden>
           add
         </span>
         {NB_CELL_KINDS.map((k) => (
-          <button key={k} type="button" className="sl-btn" onClick={() => onAdd(k, position)} aria-label={`Add ${CELL_KIND_LABELS[k].toLowerCase()} cell here`}>
+          <button key={k} type="button" className={buttonClass('quiet', 'xs')} onClick={() => onAdd(k, position)} aria-label={`Add ${CELL_KIND_LABELS[k].toLowerCase()} cell here`}>
             {CELL_KIND_LABELS[k].toLowerCase()}
           </button>
         ))}

@@ -1,6 +1,8 @@
 import { useState, type FormEvent } from 'react';
 import type { Comment } from '@shared/api/notebook';
 import { formatDateTime } from '@/lib/format';
+import { buttonClass } from '@/components/ui/button';
+import { compactControlClass } from '@/components/ui/input';
 
 export interface CommentThread {
   root: Comment;
@@ -48,12 +50,12 @@ export function CommentsPanel({ comments, canComment, busy, error, onCreate, onR
   return (
     <div className="flex flex-col gap-3 text-sm" data-testid="comments-panel">
       <div className="flex items-center gap-2">
-        <span className="sl-kind">Comments</span>
-        <span className="sl-cell-sub">
+        <span className="text-[0.7rem] font-semibold tracking-[0.14em] text-ink-soft uppercase group-data-[active=true]/cell:text-slack">Comments</span>
+        <span className="truncate text-[0.8rem] text-ink-soft">
           {open.length} open · {resolved.length} resolved
         </span>
         {resolved.length > 0 && (
-          <button type="button" className="sl-btn" onClick={() => setShowResolved((v) => !v)}>
+          <button type="button" className={buttonClass('quiet', 'xs')} onClick={() => setShowResolved((v) => !v)}>
             {showResolved ? 'hide resolved' : 'show resolved'}
           </button>
         )}
@@ -61,11 +63,11 @@ export function CommentsPanel({ comments, canComment, busy, error, onCreate, onR
       {shown.map((t) => (
         <Thread key={t.root.id} thread={t} canComment={canComment} busy={busy} onCreate={onCreate} onResolve={onResolve} />
       ))}
-      {error && <p className="sl-field-error" role="alert">{error}</p>}
+      {error && <p className="mt-[0.2rem] text-[0.75rem] font-semibold text-ink" role="alert">{error}</p>}
       {canComment ? (
         <CommentForm placeholder="Comment on this cell…" busy={busy} onSubmit={(b) => onCreate(b, null)} />
       ) : (
-        <p className="sl-hint" data-testid="comments-read-only">
+        <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft" data-testid="comments-read-only">
           {threads.length === 0 ? 'No comments on this cell. ' : ''}Your role lets you read the comments; reviewers, editors and owners write them.
         </p>
       )}
@@ -77,21 +79,21 @@ function Thread({ thread, canComment, busy, onCreate, onResolve }: { thread: Com
   const [replying, setReplying] = useState(false);
   const { root, replies } = thread;
   return (
-    <article className="sl-cell" style={{ padding: '0.6rem 0.75rem', opacity: root.resolved ? 0.7 : 1 }} data-testid="comment-thread">
+    <article className="group/cell relative rounded-[3px] border border-rule bg-sheet shadow-[0_1px_0_rgba(34,40,43,0.04)] transition-[box-shadow,border-color] duration-[120ms] data-[active=true]:border-rule-strong data-[active=true]:shadow-[0_6px_18px_-12px_rgba(34,40,43,0.35)] focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-slack" style={{ padding: '0.6rem 0.75rem', opacity: root.resolved ? 0.7 : 1 }} data-testid="comment-thread">
       {[root, ...replies].map((c) => (
         <div key={c.id} style={{ marginLeft: c === root ? 0 : '1rem', marginTop: c === root ? 0 : '0.4rem' }}>
-          <div className="sl-cell-sub">
-            <strong style={{ color: 'var(--sl-ink)' }}>{c.author?.name ?? 'former member'}</strong> · <span className="sl-num">{formatDateTime(c.createdAt)}</span>
+          <div className="truncate text-[0.8rem] text-ink-soft">
+            <strong style={{ color: 'var(--color-ink)' }}>{c.author?.name ?? 'former member'}</strong> · <span className="font-mono tabular-nums text-right whitespace-nowrap">{formatDateTime(c.createdAt)}</span>
           </div>
           <p style={{ whiteSpace: 'pre-wrap' }}>{c.body}</p>
         </div>
       ))}
       {canComment && (
         <div className="flex gap-1" style={{ marginTop: '0.3rem' }}>
-          <button type="button" className="sl-btn" onClick={() => setReplying((v) => !v)}>
+          <button type="button" className={buttonClass('quiet', 'xs')} onClick={() => setReplying((v) => !v)}>
             reply
           </button>
-          <button type="button" className="sl-btn" disabled={busy} onClick={() => onResolve(root.id, !root.resolved)}>
+          <button type="button" className={buttonClass('quiet', 'xs')} disabled={busy} onClick={() => onResolve(root.id, !root.resolved)}>
             {root.resolved ? 'reopen' : 'resolve'}
           </button>
         </div>
@@ -121,9 +123,9 @@ function CommentForm({ placeholder, busy, onSubmit }: { placeholder: string; bus
   };
   return (
     <form onSubmit={submit} className="flex flex-col gap-1">
-      <textarea className="sl-input" style={{ fontFamily: 'inherit', minHeight: '3.5rem' }} aria-label={placeholder} placeholder={placeholder} value={text} maxLength={4000} onChange={(e) => setText(e.target.value)} />
+      <textarea className={compactControlClass} style={{ fontFamily: 'inherit', minHeight: '3.5rem' }} aria-label={placeholder} placeholder={placeholder} value={text} maxLength={4000} onChange={(e) => setText(e.target.value)} />
       <div>
-        <button type="submit" className="sl-btn sl-btn-outline" disabled={busy || !text.trim()}>
+        <button type="submit" className={buttonClass('secondary', 'xs')} disabled={busy || !text.trim()}>
           Post
         </button>
       </div>

@@ -5,26 +5,33 @@
 import { useEffect, useLayoutEffect, useMemo, useRef, useState } from 'react';
 import { useQueries, useQueryClient } from '@tanstack/react-query';
 import { CELL_KIND_LABELS, dataContentSchema, type NbCell, type NbCellKind } from '@shared/api/notebook';
-import type { DataSchema } from '@shared/lang';
+import { dataSchemaOf, type DataSchema, type SchemaSourceTable } from '@shared/lang';
 import { errorMessage } from '@/lib/api-client';
 import { CellColumn, NOTEBOOK_KEYS } from './cell-column';
 import { CellFrame } from './cell-frame';
 import { ConflictDialog } from './conflict-dialog';
 import { CommentsPanel } from './comments-panel';
 import { fitModelCell, QuantityLabelsContext, quantityLabels } from '../quantity-labels';
-import { CompareCellView, DataCellView, FitCellView, ModelCellView, NotesCellView, type CellViewProps } from './cell-views';
+import type { CellViewProps } from './cell-view-props';
+import { NotesCellView } from '../notes/notes-cell-view';
+import { DataCellView } from '../data/data-cell-view';
+import { ModelCellView } from '../model/model-cell-view';
+import { FitCellView } from '../fit/fit-cell';
+import { CompareCellView } from '../compare/compare-cell-view';
 import { useCellDraft, type SaveState } from '../use-cell-draft';
-import {
-  datasetQuery,
-  saveCell,
-  useCellMutations,
-  useCommentMutations,
-  useComments,
-  type NotebookAccess,
-} from '../api/notebook-api';
+import type { NotebookAccess } from '../api/access';
+import { datasetQuery } from '../api/get-dataset';
+import { saveCell } from '../api/save-cell';
+import { useCreateCell } from '../api/create-cell';
+import { useDeleteCell } from '../api/delete-cell';
+import { useMoveCell } from '../api/move-cell';
+import { useCollapseCell } from '../api/collapse-cell';
+import { useComments } from '../api/get-comments';
+import { useCreateComment } from '../api/create-comment';
+import { useResolveComment } from '../api/resolve-comment';
 import { nbKeys } from '../api/keys';
 import { preloadCharts } from './plot-frame';
-import '../notebook.css';
+import { buttonClass } from '@/components/ui/button';
 
 export interface NotebookViewProps {
   access: NotebookAccess;
@@ -55,10 +62,15 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
   const [actionError, setActionError] = useState<string | null>(null);
   const member = access.mode === 'member';
   const wsId = member ? access.workspaceId : '';
-  const mut = useCellMutations(wsId, access.notebookId);
+  const mut = {
+    add: useCreateCell(wsId, access.notebookId),
+    remove: useDeleteCell(wsId, access.notebookId),
+    move: useMoveCell(wsId, access.notebookId),
+    collapse: useCollapseCell(wsId, access.notebookId),
+  };
   // Every member reads the comments; reviewers and above write them.
   const comments = useComments(wsId, access.notebookId, member);
-  const commentMut = useCommentMutations(wsId, access.notebookId);
+  const commentMut = { create: useCreateComment(wsId, access.notebookId), resolve: useResolveComment(wsId, access.notebookId) };
 
   // Tables bound by the data cells, for the model editor's completion and checks.
   const dataIds = cells
@@ -69,18 +81,16 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
     })
     .filter((x): x is string => !!x);
   const datasets = useQueries({ queries: dataIds.map((id) => datasetQuery(access, id)) });
-  const schema: DataSchema = {};
+  const tables: Record<string, SchemaSourceTable> = {};
   // Level names of category columns, for labelling the elements of unknowns they gather.
   const levels: Record<string, Record<string, readonly string[]>> = {};
   for (const q of datasets) {
     if (!q.data) continue;
     const d = q.data.dataset;
     levels[d.name] = Object.fromEntries(d.columns.filter((c) => c.levels).map((c) => [c.name, c.levels!]));
-    schema[d.name] = {
-      rows: d.rows,
-      columns: Object.fromEntries(d.columns.map((c) => [c.name, c.type === 'category' ? { type: c.type, levels: c.levels?.length ?? 0 } : { type: c.type }])),
-    };
+    tables[d.name] = { rows: d.rows, columns: Object.fromEntries(d.columns.map((c) => [c.name, c])) };
   }
+  const schema = dataSchemaOf(tables);
 
   const add = (kind: NbCellKind, position: number) => {
     setActionError(null);
@@ -136,15 +146,15 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
   }, [commentList]);
 
   return (
-    <div className="sl-notebook flex flex-col gap-3">
+    <div className="text-ink flex flex-col gap-3">
       {member && <NotebookToolbar access={access} />}
       {!canEdit && member && (
-        <div className="sl-banner" role="status" data-testid="read-only-banner">
+        <div className="rounded-[3px] border border-rule-strong bg-sheet px-[0.9rem] py-[0.55rem] text-[0.85rem]" role="status" data-testid="read-only-banner">
           <strong>Read-only.</strong> Your role in this workspace lets you read{canComment ? ' and comment on' : ''} this notebook, not change it.
         </div>
       )}
       {actionError && (
-        <p className="sl-field-error" role="alert">
+        <p className="mt-[0.2rem] text-[0.75rem] font-semibold text-ink" role="alert">
           {actionError}
         </p>
       )}
@@ -192,7 +202,7 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
           />
         )}
       />
-      <p className="sl-hint" style={{ textAlign: 'center', marginTop: '1rem' }}>
+      <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft" style={{ textAlign: 'center', marginTop: '1rem' }}>
         Keyboard: {NOTEBOOK_KEYS.run.replace('Mod', 'Ctrl/⌘')} runs the current cell · {NOTEBOOK_KEYS.previous} and {NOTEBOOK_KEYS.next} move between cells
       </p>
     </div>
@@ -297,34 +307,34 @@ function CellItem(p: CellItemProps) {
         tools={
           <>
             {cell.kind === 'notes' && p.canEdit && (
-              <button type="button" className="sl-btn" onClick={() => p.setEditingNotes(!p.editingNotes)}>
+              <button type="button" className={buttonClass('quiet', 'xs')} onClick={() => p.setEditingNotes(!p.editingNotes)}>
                 {p.editingNotes ? 'done' : 'edit'}
               </button>
             )}
             {p.toggleComments && (
-              <button type="button" className="sl-btn" aria-pressed={p.commentsOpen} onClick={p.toggleComments} aria-label={`Comments on this ${label.toLowerCase()} cell`}>
+              <button type="button" className={buttonClass('quiet', 'xs')} aria-pressed={p.commentsOpen} onClick={p.toggleComments} aria-label={`Comments on this ${label.toLowerCase()} cell`}>
                 comments
               </button>
             )}
             {p.canEdit && (
               <>
-                <button type="button" className="sl-btn" disabled={p.index === 0} onClick={() => p.onMove('up')} aria-label={`Move ${label.toLowerCase()} cell up`}>
+                <button type="button" className={buttonClass('quiet', 'xs')} disabled={p.index === 0} onClick={() => p.onMove('up')} aria-label={`Move ${label.toLowerCase()} cell up`}>
                   ↑
                 </button>
-                <button type="button" className="sl-btn" disabled={p.index === p.count - 1} onClick={() => p.onMove('down')} aria-label={`Move ${label.toLowerCase()} cell down`}>
+                <button type="button" className={buttonClass('quiet', 'xs')} disabled={p.index === p.count - 1} onClick={() => p.onMove('down')} aria-label={`Move ${label.toLowerCase()} cell down`}>
                   ↓
                 </button>
                 {confirmDelete ? (
                   <>
-                    <button type="button" className="sl-btn sl-btn-outline" onClick={p.onDelete}>
+                    <button type="button" className={buttonClass('secondary', 'xs')} onClick={p.onDelete}>
                       delete for good
                     </button>
-                    <button type="button" className="sl-btn" onClick={() => setConfirmDelete(false)}>
+                    <button type="button" className={buttonClass('quiet', 'xs')} onClick={() => setConfirmDelete(false)}>
                       keep
                     </button>
                   </>
                 ) : (
-                  <button type="button" className="sl-btn" onClick={() => setConfirmDelete(true)} aria-label={`Delete ${label.toLowerCase()} cell`}>
+                  <button type="button" className={buttonClass('quiet', 'xs')} onClick={() => setConfirmDelete(true)} aria-label={`Delete ${label.toLowerCase()} cell`}>
                     delete
                   </button>
                 )}
@@ -339,9 +349,9 @@ function CellItem(p: CellItemProps) {
         {cell.kind === 'fit' && <FitCellWithLabels viewProps={viewProps} levels={p.levels} />}
         {cell.kind === 'compare' && <CompareCellView {...viewProps} />}
         {draft.state === 'error' && draft.error && (
-          <p className="sl-field-error" role="alert" style={{ marginTop: '0.5rem' }}>
+          <p className="mt-[0.2rem] text-[0.75rem] font-semibold text-ink" role="alert" style={{ marginTop: '0.5rem' }}>
             Not saved: {draft.error}{' '}
-            <button type="button" className="sl-btn sl-btn-outline" onClick={() => void draft.flush()}>
+            <button type="button" className={buttonClass('secondary', 'xs')} onClick={() => void draft.flush()}>
               try again
             </button>
           </p>
@@ -366,7 +376,7 @@ function NotebookToolbar({ access }: { access: Extract<NotebookAccess, { mode: '
   // Importing a notebook file creates a new notebook: it lives on the notebook list.
   return (
     <div className="flex flex-wrap items-center gap-2">
-      <a className="sl-btn sl-btn-outline" href={`/api/workspaces/${encodeURIComponent(access.workspaceId)}/notebooks/${encodeURIComponent(access.notebookId)}/export`} download>
+      <a className={buttonClass('secondary', 'xs')} href={`/api/workspaces/${encodeURIComponent(access.workspaceId)}/notebooks/${encodeURIComponent(access.notebookId)}/export`} download>
         Export notebook file
       </a>
     </div>

@@ -1,5 +1,7 @@
 import { lazy, Suspense, Component, type ReactNode } from 'react';
-import type { Spec } from '@/lib/plot/specs';
+
+/** A Vega-Lite specification, as the views build them. */
+export type Spec = Record<string, unknown>;
 
 /**
  * Charts render through react-vega's VegaEmbed, loaded with a dynamic import() so vega stays out
@@ -36,7 +38,7 @@ class PlotBoundary extends Component<{ children: ReactNode }, { error: string | 
     return { error: e instanceof Error ? e.message : String(e) };
   }
   override render() {
-    if (this.state.error) return <p className="sl-cell-sub">The plot could not be drawn: {this.state.error}</p>;
+    if (this.state.error) return <p className="truncate text-[0.8rem] text-ink-soft">The plot could not be drawn: {this.state.error}</p>;
     return this.props.children;
   }
 }
@@ -47,7 +49,7 @@ export function PlotFrame({ spec, label }: { spec: Spec; label: string }) {
   return (
     <figure aria-label={label} data-testid="plot" style={{ margin: 0, minHeight }}>
       <PlotBoundary>
-        <Suspense fallback={<div className="sl-cell-sub" style={{ height: minHeight }}>Loading the plot…</div>}>
+        <Suspense fallback={<div className="truncate text-[0.8rem] text-ink-soft" style={{ height: minHeight }}>Loading the plot…</div>}>
           <LazyVega spec={spec} />
         </Suspense>
       </PlotBoundary>

@@ -4,11 +4,11 @@ import { cleanup, fireEvent, render, screen, within } from '@testing-library/rea
 import { useState } from 'react';
 import { CellColumn, isRunKey, moveKey } from '../../../../src/features/notebook/components/cell-column';
 import { CellFrame } from '../../../../src/features/notebook/components/cell-frame';
-import { DataPreview, sortRows } from '../../../../src/features/notebook/components/data-preview';
-import { FitSettingsForm, parseFitDraft } from '../../../../src/features/notebook/components/fit-settings-form';
-import { VerdictBanner } from '../../../../src/features/notebook/components/verdict-banner';
-import { QuantityRows } from '../../../../src/features/notebook/components/quantity-rows';
-import { ChainProgress, runStateMessage } from '../../../../src/features/notebook/components/chain-progress';
+import { DataPreview, sortRows } from '../../../../src/features/notebook/data/data-preview';
+import { FitSettingsForm, parseFitDraft } from '../../../../src/features/notebook/fit/fit-settings-form';
+import { VerdictBanner } from '../../../../src/features/notebook/fit/verdict-banner';
+import { QuantityRows } from '../../../../src/features/notebook/fit/quantity-rows';
+import { ChainProgress, runStateMessage } from '../../../../src/features/notebook/fit/chain-progress';
 import { ConflictDialog } from '../../../../src/features/notebook/components/conflict-dialog';
 import { CommentsPanel, threadComments } from '../../../../src/features/notebook/components/comments-panel';
 import type { Comment, Dataset } from '../../../../shared/api/notebook';
@@ -46,7 +46,7 @@ describe('cell column', () => {
   it('labels every cell by its kind in words, with no numbered prompts', () => {
     render(<Column onRun={() => {}} />);
     const column = screen.getByTestId('cell-column');
-    const labels = [...column.querySelectorAll('.sl-kind')].map((e) => e.textContent);
+    const labels = [...column.querySelectorAll('[data-testid="cell-kind"]')].map((e) => e.textContent);
     expect(labels).toEqual(['Notes', 'Data', 'Model', 'Fit']);
     expect(column.textContent).not.toMatch(/\[\s*\d*\s*\]/);
   });
@@ -126,7 +126,7 @@ describe('data preview', () => {
     render(<DataPreview dataset={DATASET} rows={ROWS} />);
     expect(screen.getByTestId('row-count').textContent).toBe('4');
     expect(screen.getByTestId('missing-report').textContent).toContain('yield: 1');
-    const heads = screen.getAllByRole('columnheader').map((h) => h.querySelector('.sl-type')?.textContent);
+    const heads = screen.getAllByRole('columnheader').map((h) => h.querySelector('[data-testid="column-type"]')?.textContent);
     expect(heads).toEqual(['category · 2', 'whole', 'number · 1 missing']);
   });
 
@@ -222,7 +222,7 @@ describe('quantity rows and verdict', () => {
     expect(rows[0].textContent).toContain('1.07 to 1.40');
     expect(rows[1].querySelector('[role="img"]')?.getAttribute('aria-label')).toMatch(/chains disagree.*tails/);
     const fold = screen.getByTestId('mixing-figures');
-    expect([...fold.querySelectorAll('.sl-fail')].map((e) => e.textContent)).toEqual(['1.040', '120']);
+    expect([...fold.querySelectorAll('.text-alarm')].map((e) => e.textContent)).toEqual(['1.040', '120']);
     expect(screen.getByTestId('summary-table').textContent).toContain('derived');
   });
 
@@ -244,7 +244,7 @@ describe('quantity rows and verdict', () => {
   it('a trustworthy verdict uses no warning styling', () => {
     const v: Verdict = { level: 'trustworthy', reason: 'All checks passed.', rules: rules.map((r) => ({ ...r, passed: true })) };
     render(<VerdictBanner verdict={v} />);
-    expect(screen.getByTestId('verdict').querySelectorAll('.sl-fail')).toHaveLength(0);
+    expect(screen.getByTestId('verdict').querySelectorAll('.text-alarm')).toHaveLength(0);
     expect(screen.getByRole('status')).toBeTruthy();
   });
   it('a do-not-use verdict is an alert naming the failed rule', () => {
@@ -253,7 +253,7 @@ describe('quantity rows and verdict', () => {
     const alert = screen.getByRole('alert');
     expect(alert.textContent).toContain('Do not use these results');
     expect(alert.textContent).toContain('12 divergent transitions');
-    expect([...alert.querySelectorAll('.sl-fail')].map((e) => e.textContent)).toEqual(['FAIL']);
+    expect([...alert.querySelectorAll('.text-alarm')].map((e) => e.textContent)).toEqual(['FAIL']);
   });
 });
 
@@ -331,8 +331,8 @@ describe('comments', () => {
   });
 });
 
-import { ModelSidePanel } from '../../../../src/features/notebook/components/model-side-panel';
-import { DataUpload, tableNameFromFile } from '../../../../src/features/notebook/components/data-upload';
+import { ModelSidePanel } from '../../../../src/features/notebook/model/model-side-panel';
+import { DataUpload, tableNameFromFile } from '../../../../src/features/notebook/data/data-upload';
 
 describe('model side panel', () => {
   it('lists unknowns with shapes, constraint counts and the region status', () => {

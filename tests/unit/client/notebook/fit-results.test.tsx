@@ -4,7 +4,7 @@
  */
 import { afterEach, describe, expect, it } from 'vitest';
 import { cleanup, render, screen } from '@testing-library/react';
-import { FitResults } from '../../../../src/features/notebook/components/fit-results';
+import { FitResults } from '../../../../src/features/notebook/fit/fit-results';
 import type { Run } from '../../../../shared/api/notebook';
 import type { RunDiagnostics } from '../../../../shared/fit';
 

@@ -3,7 +3,7 @@
 // notes renderer is tested in jsdom, which DOMPurify supports.
 import { afterEach, describe, expect, it } from 'vitest';
 import { cleanup, render, screen } from '@testing-library/react';
-import { NotesView } from '../../../../src/features/notebook/components/notes-cell';
+import { NotesView } from '../../../../src/features/notebook/notes/notes-cell';
 import { renderMarkdown } from '../../../../src/components/markdown';
 
 afterEach(cleanup);

@@ -6,8 +6,8 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { cleanup, render, screen } from '@testing-library/react';
 import { createRequire } from 'node:module';
-import { agreementStrip, chainWindows, familyOf, orderedChains, pooledIqr, quantileSorted } from '../../../../src/lib/plot/mixing';
-import { LadderView } from '../../../../src/features/notebook/components/ladder-view';
+import { agreementStrip, chainWindows, familyOf, orderedChains, pooledIqr, quantileSorted } from '../../../../src/features/notebook/fit/mixing';
+import { LadderView } from '../../../../src/features/notebook/fit/ladder-view';
 import type { QuantitySummary } from '../../../../shared/fit';
 
 afterEach(cleanup);

@@ -2,9 +2,9 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { cleanup, fireEvent, render, screen } from '@testing-library/react';
 import { readFileSync } from 'node:fs';
-import { pairSpec } from '../../../../src/lib/plot/specs';
+import { pairSpec } from '../../../../src/features/notebook/fit/pair-spec';
 import { PALETTE } from '../../../../src/lib/plot/palette';
-import { FitPlots } from '../../../../src/features/notebook/components/fit-plots';
+import { FitPlots } from '../../../../src/features/notebook/fit/fit-plots';
 import type { RunDraws } from '../../../../shared/api/notebook';
 
 afterEach(cleanup);

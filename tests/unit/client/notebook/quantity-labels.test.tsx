@@ -5,7 +5,7 @@
  */
 import { cleanup, render, screen } from '@testing-library/react';
 import { afterEach, describe, expect, it } from 'vitest';
-import { QuantityRows } from '@/features/notebook/components/quantity-rows';
+import { QuantityRows } from '@/features/notebook/fit/quantity-rows';
 import { fitModelCell, QuantityLabelsContext, quantityLabels } from '@/features/notebook/quantity-labels';
 import type { NbCell } from '@shared/api/notebook';
 import type { QuantitySummary } from '@shared/fit';
@@ -37,7 +37,7 @@ describe('quantity labels', () => {
         <QuantityRows chains={4} draws={1000} quantities={[q('share[1]'), q('share[2]'), q('share[3]'), q('sigma')]} />
       </QuantityLabelsContext.Provider>,
     );
-    const names = screen.getAllByTestId('quantity-row').map((r) => r.querySelector('.sl-q-name')?.textContent);
+    const names = screen.getAllByTestId('quantity-row').map((r) => r.querySelector('[data-testid="quantity-name"]')?.textContent);
     expect(names).toEqual(['share[1] (east)', 'share[2] (north)', 'share[3] (south)', 'sigma']);
     const heads = [...screen.getByTestId('mixing-figures').querySelectorAll('tbody th')].map((t) => t.textContent);
     expect(heads).toEqual(names);
@@ -45,7 +45,7 @@ describe('quantity labels', () => {
 
   it('without a provider the rows show the stored names', () => {
     render(<QuantityRows chains={4} draws={1000} quantities={[q('share[1]')]} />);
-    expect(screen.getByTestId('quantity-row').querySelector('.sl-q-name')?.textContent).toBe('share[1]');
+    expect(screen.getByTestId('quantity-row').querySelector('[data-testid="quantity-name"]')?.textContent).toBe('share[1]');
   });
 
   it('a fit cell fits its chosen model, else the nearest model cell above', () => {

@@ -8,8 +8,8 @@ import {
   polygonArea,
   sliceSystem,
   type Box,
-} from '../../../../src/lib/plot/region';
-import { buildRegionView, buildTriangleView, shareTriples, toTriangle, TRIANGLE } from '../../../../src/lib/plot/region-view';
+} from '../../../../src/features/notebook/fit/region';
+import { buildRegionView, buildTriangleView, shareTriples, toTriangle, TRIANGLE } from '../../../../src/features/notebook/fit/region-view';
 import type { RegionSystem, RunDraws } from '../../../../shared/api/notebook';
 
 const unitBox: Box = { xMin: 0, xMax: 1, yMin: 0, yMax: 1 };
