@@ -21,8 +21,8 @@ export function CompareProgress({ run }: { run: CompareRun }) {
       {msg && (run.worker === 'lost' ? <Banner tone="notice">{msg}</Banner> : <p className="text-ink-soft" role="status">{msg}</p>)}
       {run.status === 'running' && (
         <>
-          <div className="sl-progress-track" role="progressbar" aria-label="comparison" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(frac * 100)}>
-            <div className="sl-progress-fill" style={{ width: `${Math.round(frac * 100)}%` }} />
+          <div className="h-1.5 overflow-hidden rounded-[3px] bg-rule" role="progressbar" aria-label="comparison" aria-valuemin={0} aria-valuemax={100} aria-valuenow={Math.round(frac * 100)}>
+            <div className="h-full bg-slack transition-[width] duration-300 ease-linear" style={{ width: `${Math.round(frac * 100)}%` }} />
           </div>
           <p className="text-ink-soft" role="status">
             {p

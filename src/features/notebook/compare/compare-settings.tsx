@@ -5,6 +5,7 @@
  */
 import type { CompareContent, CompareEntryKey } from '@shared/api/compare';
 import { sameEntry } from '@shared/api/compare';
+import { compactControlClass } from '@/components/ui/input';
 import { testableConstraintLines } from './constraint-lines';
 
 export interface CompareModelOption {
@@ -101,7 +102,7 @@ export function CompareSettings({ content, models, readOnly, onChange }: { conte
           <label className="flex flex-wrap items-center gap-2">
             <span>Bayes factors against</span>
             <select
-              className="sl-input"
+              className={compactControlClass}
               style={{ width: 'auto', fontFamily: 'inherit' }}
               aria-label="Reference row"
               disabled={readOnly}
@@ -121,7 +122,7 @@ export function CompareSettings({ content, models, readOnly, onChange }: { conte
                 <span className="truncate">Prior odds of {r.label}</span>
                 <input
                   type="number"
-                  className="sl-input num"
+                  className={compactControlClass}
                   min={0}
                   step="any"
                   disabled={readOnly}
@@ -140,7 +141,7 @@ export function CompareSettings({ content, models, readOnly, onChange }: { conte
           <span>Replicates</span>
           <input
             type="number"
-            className="sl-input num"
+            className={compactControlClass}
             style={{ width: '5rem' }}
             min={2}
             max={16}
@@ -156,7 +157,7 @@ export function CompareSettings({ content, models, readOnly, onChange }: { conte
           <span>Seed</span>
           <input
             type="number"
-            className="sl-input num"
+            className={compactControlClass}
             style={{ width: '8rem' }}
             min={0}
             disabled={readOnly}

@@ -70,7 +70,7 @@ export function CompareView(p: CompareViewProps) {
         </div>
       )}
       {error && (
-        <p className="sl-field-error" role="alert">
+        <p className="mt-[0.2rem] text-[0.75rem] font-semibold text-ink" role="alert">
           <MessageText text={error} />
         </p>
       )}
