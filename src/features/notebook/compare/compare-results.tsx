@@ -187,18 +187,15 @@ export function CompareResults({ result: r, onSensitivity, sensitivityPending }:
         </div>
       )}
 
-      <Banner
-        tone="info"
-        title="Bayes factors depend on the priors"
-        action={
-          onSensitivity && !sens ? (
+      <Banner tone="info" title="Bayes factors depend on the priors">
+        <span data-testid="compare-caution">{r.caution}</span>
+        {onSensitivity && !sens && (
+          <div className="mt-2">
             <Button variant="secondary" size="sm" onClick={onSensitivity} pending={sensitivityPending}>
               Rerun with prior scales ×0.5 and ×2
             </Button>
-          ) : undefined
-        }
-      >
-        <span data-testid="compare-caution">{r.caution}</span>
+          </div>
+        )}
       </Banner>
 
       {r.warnings.map((w, i) => (

@@ -60,7 +60,7 @@ export function CompareSettings({ content, models, readOnly, onChange }: { conte
 
   return (
     <div className="flex flex-col gap-4 text-sm" data-testid="compare-settings">
-      <fieldset className="flex flex-col gap-2">
+      <fieldset className="flex min-w-0 flex-col gap-2">
         <legend className="eyebrow mb-1">Models to compare</legend>
         {models.length === 0 && <p className="text-ink-soft">This notebook has no model cells yet.</p>}
         {models.map((m) => {
@@ -71,7 +71,7 @@ export function CompareSettings({ content, models, readOnly, onChange }: { conte
             <div key={m.id} className="flex flex-col gap-1.5">
               <label className="flex items-center gap-2 font-medium">
                 <input type="checkbox" checked={picked} disabled={readOnly} onChange={() => toggleModel(m.id)} />
-                <span>{m.label}</span>
+                <strong className="min-w-0 font-medium break-words">{m.label}</strong>
               </label>
               {picked && (
                 <div className="ml-6 flex flex-col gap-1" role="group" aria-label={`Constraint lines of ${m.label} to test`}>
@@ -81,10 +81,10 @@ export function CompareSettings({ content, models, readOnly, onChange }: { conte
                     <>
                       <p className="text-ink-soft">Test constraint lines (checked lines are tested together against the model without them):</p>
                       {lines.map((l) => (
-                        <label key={l.line} className="flex items-baseline gap-2">
+                        <label key={l.line} className="flex min-w-0 items-baseline gap-2">
                           <input type="checkbox" checked={tested.includes(l.line)} disabled={readOnly} onChange={() => toggleLine(m.id, l.line)} />
                           <span className="num text-ink-soft">line {l.line}</span>
-                          <code className="font-mono text-[0.8125rem]">{l.text}</code>
+                          <code className="min-w-0 font-mono text-[0.8125rem] break-words">{l.text}</code>
                         </label>
                       ))}
                     </>
@@ -97,13 +97,13 @@ export function CompareSettings({ content, models, readOnly, onChange }: { conte
       </fieldset>
 
       {rows.length > 0 && (
-        <fieldset className="flex flex-col gap-2">
+        <fieldset className="flex min-w-0 flex-col gap-2">
           <legend className="eyebrow mb-1">Reference and prior odds</legend>
-          <label className="flex flex-wrap items-center gap-2">
+          <label className="flex min-w-0 flex-col gap-1">
             <span>Bayes factors against</span>
             <select
               className={compactControlClass}
-              style={{ width: 'auto', fontFamily: 'inherit' }}
+              style={{ width: '100%', maxWidth: '28rem', minWidth: 0, fontFamily: 'inherit' }}
               aria-label="Reference row"
               disabled={readOnly}
               value={reference ? keyValue(reference) : ''}
