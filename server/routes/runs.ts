@@ -13,6 +13,7 @@ import { findCell } from '../notebook/cells';
 import { cellRuns, findRun, runDraws, streamRunDrawsCsv, type DrawsBytes } from '../runs/read';
 import { DRAWS_CONTENT_TYPE } from '../../shared/draws-binary';
 import { cancelQueuedOrRunning, queueRun } from '../runs/create';
+import { cancelCompare, cellCompareRuns, queueCompare } from '../runs/compare-job';
 
 const DEFAULT_PLOT_DRAWS = 1000;
 
@@ -51,6 +52,22 @@ export function runsRouter(ctx: AppContext): Router {
 
   mount(r, ctx, routes.cancelRun, async ({ params }, req) => {
     return { run: await cancelQueuedOrRunning(db, clock.now(), req.workspace!.id, params.runId) };
+  });
+
+  // ---- comparisons (compare cells) ----
+  mount(r, ctx, routes.queueCompareRun, async ({ params, body }, req) => {
+    const run = await queueCompare(db, clock.now(), { workspaceId: req.workspace!.id, notebookId: params.notebookId, cellId: params.cellId, userId: req.user!.id, sensitivity: body.sensitivity, content: body.content });
+    return { run };
+  });
+
+  mount(r, ctx, routes.listCompareRuns, async ({ params }, req) => {
+    const ws = req.workspace!;
+    await findCell(db, ws.id, params.notebookId, params.cellId);
+    return { runs: await cellCompareRuns(db, ws.id, params.notebookId, params.cellId, clock.now()) };
+  });
+
+  mount(r, ctx, routes.cancelCompareRun, async ({ params }, req) => {
+    return { run: await cancelCompare(db, clock.now(), req.workspace!.id, params.runId) };
   });
 
   mount(r, ctx, routes.getRunDraws, async ({ params, query }, req, res) => {
@@ -104,6 +121,12 @@ export function runsRouter(ctx: AppContext): Router {
     const share = req.share!;
     await findCell(db, share.workspaceId, share.notebookId, params.cellId);
     return { runs: (await cellRuns(db, share.workspaceId, share.notebookId, params.cellId, clock.now())).filter((x) => x.status === 'done') };
+  });
+
+  mount(r, ctx, routes.sharedCompareRuns, async ({ params }, req) => {
+    const share = req.share!;
+    await findCell(db, share.workspaceId, share.notebookId, params.cellId);
+    return { runs: (await cellCompareRuns(db, share.workspaceId, share.notebookId, params.cellId, clock.now())).filter((x) => x.status === 'done') };
   });
 
   mount(r, ctx, routes.sharedRunDraws, async ({ params, query }, req, res) => {

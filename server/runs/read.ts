@@ -12,6 +12,7 @@ import { computePool } from '../compute/pool';
 import { cachedRegionProjections } from '../notebook/projections';
 import type { StoredChainInput } from '../compute/tasks';
 import { encodeDrawsHead } from '../../shared/draws-binary';
+import { isCompareSpec } from './compare-job';
 
 /** Is the worker holding this running run silent (lease expired or heartbeat stale)? */
 export function workerLost(r: Pick<RunRow, 'status' | 'leaseExpiresAt' | 'heartbeatAt'>, now: Date): boolean {
@@ -64,7 +65,8 @@ export async function findRun(exec: Exec, workspaceId: string, runId: string, no
     .leftJoin(users, eq(users.id, runs.requestedBy))
     .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId)))
     .limit(1);
-  if (!x) throw new DomainError('not_found', 'Run not found');
+  // Compare jobs share the table but not the shape (compare-job.ts reads them).
+  if (!x || isCompareSpec(x.r.spec)) throw new DomainError('not_found', 'Run not found');
   const [run] = await withSummaries(exec, [x], now);
   return { ...run, row: x.r };
 }
@@ -77,7 +79,7 @@ export async function cellRuns(exec: Exec, workspaceId: string, notebookId: stri
     .where(and(eq(runs.workspaceId, workspaceId), eq(runs.notebookId, notebookId), eq(runs.cellId, cellId)))
     .orderBy(desc(runs.createdAt), desc(runs.id))
     .limit(limit);
-  return withSummaries(exec, rows, now);
+  return withSummaries(exec, rows.filter((x) => !isCompareSpec(x.r.spec)), now);
 }
 
 /** Stored chains as the compute tasks take them (raw bytes; decoding happens on the thread). */

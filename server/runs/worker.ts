@@ -28,6 +28,7 @@ import { datasetMetaColumns, loadDataTables } from '../notebook/datasets';
 import { claimRun, failRun, finishRun, heartbeat, storeChain, storedChains, writeProgress, type DrawNames, type EncodedChain, type RunRow } from './queue';
 import { computePool } from '../compute/pool';
 import { describe, isTransientDbError, retryDb } from './retry';
+import { isCompareSpec, runCompareJob } from './compare-job';
 import { computeRunChecks } from './checks';
 
 export interface WorkerOptions {
@@ -222,6 +223,13 @@ export class RunWorker {
     let names: DrawNames | null = null;
 
     try {
+      if (isCompareSpec(run.spec)) {
+        await runCompareJob(
+          { db: this.db, workerId: this.id, now: () => this.clock.now(), signal: ac.signal, progressMs: this.progressMs, write: (what, fn) => this.write(what, fn), log: this.log },
+          run,
+        );
+        return;
+      }
       const spec = run.spec;
       if (!spec) throw new Error(`Run ${run.id} was queued without its model and data`);
       settings = fitSettingsSchema.parse(run.settings);
@@ -336,7 +344,13 @@ export class RunWorker {
         if (s.settings && s.target && s.finished.size > 0) await this.finishPartial(run, s.settings, s.target, [...s.finished.values()], s.started);
         else
           await this.write(`failing run ${run.id}`, () =>
-            failRun(this.db, run.id, this.id, `The fit ran longer than the limit of ${this.wallSeconds} s before any chain finished, and was stopped. Try fewer draws.`, this.clock.now()),
+            failRun(
+              this.db, run.id, this.id,
+              isCompareSpec(run.spec)
+                ? `The comparison ran longer than the limit of ${this.wallSeconds} s and was stopped. Try fewer replicates, models or tested lines.`
+                : `The fit ran longer than the limit of ${this.wallSeconds} s before any chain finished, and was stopped. Try fewer draws.`,
+              this.clock.now(),
+            ),
           );
       } else {
         const message = e instanceof Error ? e.message : String(e);

@@ -1,9 +1,12 @@
 /**
  * The demo notebook's content, in the invented Alder Creek sediment survey: a mixing-proportions
  * model (shares of three sediment sources on a simplex) and a monotone dose–response (sediment
- * load per storm rising with rain class), each with notes, data, a model and a finished fit, and
- * a deliberately misspecified twin of the dose–response model whose model checks fail.
- * The fits are computed by the real engine when the demo is seeded, and stored like any run.
+ * load per storm rising with rain class), each with notes, data, a model and a finished fit; a
+ * deliberately misspecified twin of the dose–response model whose model checks fail; then a model
+ * with one mean for every class and a compare cell that tests the ordering (its Bayes factor,
+ * masses and leave-one-out differences). The fits and the comparison are computed by the real
+ * engine when the demo is seeded (the comparison by the compare job's own code), and stored like
+ * any run.
  * Idempotent: it only fills a demo notebook that has no model cell yet.
  */
 import { createHash } from 'node:crypto';
@@ -16,6 +19,8 @@ import { readUpload } from '../notebook/datasets';
 import { encodeTableColumns } from '../notebook/table-columns';
 import { runFit } from '../engine/fit';
 import { finishRun, type RunSpec } from '../runs/queue';
+import { compareRunValues, compareSpecOf, compareThreadInput, computeOnThread, finishCompare } from '../runs/compare-job';
+import { compareContentSchema, type CompareResult } from '../../shared/api/compare';
 import { computeRunChecks } from '../runs/checks';
 import { parseCsv } from '../../shared/data';
 import type { FitSettings } from '../../shared/fit';
@@ -153,6 +158,25 @@ storms the model cannot account for. Compare with the checks of the fit above, w
 is an unknown learnt from the data.
 `;
 
+export const DEMO_FLAT_MODEL = `# One mean for every rain class
+table storms
+unknown level, sd
+term ld_normal(load_t, level, sd)
+term ld_normal(level, 3, 5) + ld_halfnormal(sd, 3)
+constrain sd >= 0.01
+`;
+
+/** The ordering line of DEMO_MONOTONE_MODEL (1-based), the hypothesis the demo's compare cell tests. */
+export const DEMO_ORDER_LINE = 6;
+
+export const DEMO_COMPARE_NOTES = `## Is the ordering supported by the data?
+
+The compare cell below tests the ordering line of the dose–response model: the Bayes factor of
+the model *with* the ordering against the same model *without* it is the posterior mass of the
+ordered region divided by its prior mass. A model with one mean for every class is compared too,
+with leave-one-out predictive accuracy from its fit beside the Bayes factors.
+`;
+
 const DEMO_SETTINGS: FitSettings = { chains: 4, warmup: 500, draws: 500, seed: 20261201, sampler: 'auto', replicates: 200, checkStat: 'iqr' };
 
 export interface DemoNotebookTarget {
@@ -180,7 +204,7 @@ export function notebookWriter(db: Db, t: DemoNotebookTarget, startPosition: num
       await db.insert(datasets).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId: null, name, columns, rowCount: rows, bytes: bytes.length, content: bytes, tableColumns, createdBy: t.userId, createdAt: now });
       return id;
     },
-    async addCell(kind: 'notes' | 'data' | 'model' | 'fit', source: string, content: CellContent): Promise<string> {
+    async addCell(kind: 'notes' | 'data' | 'model' | 'fit' | 'compare', source: string, content: CellContent): Promise<string> {
       const id = newId();
       await db.insert(cells).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, kind, position: position++, source, content, version: 1, collapsed: false, createdBy: t.userId, updatedBy: t.userId, createdAt: now, updatedAt: now });
       return id;
@@ -240,5 +264,40 @@ export async function seedDemoNotebook(db: Db, t: DemoNotebookTarget, now: Date 
   const twinSettings: FitSettings = { ...settings, sampler: 'transform-hmc' };
   const twinFit = await addCell('fit', '', { modelCellId: twinModel, settings: twinSettings });
   created.push(`misspecified twin fit (${await addFinishedFit(twinFit, DEMO_TWIN_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } }, twinSettings)})`);
+
+  // Part 4: the ordering tested, and a model without any effect of rain class.
+  await addCell('notes', DEMO_COMPARE_NOTES, null);
+  const flatModel = await addCell('model', DEMO_FLAT_MODEL, null);
+  const flatFit = await addCell('fit', '', { modelCellId: flatModel, settings });
+  created.push(`one-mean fit (${await addFinishedFit(flatFit, DEMO_FLAT_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } })})`);
+  const compareContent = compareContentSchema.parse({
+    modelCellIds: [monoModel, flatModel],
+    hypotheses: [{ modelCellId: monoModel, lines: [DEMO_ORDER_LINE] }],
+    reference: { modelCellId: monoModel, without: [DEMO_ORDER_LINE] },
+  });
+  const compareCell = await addCell('compare', '', compareContent);
+  await addFinishedComparison(db, t, compareCell, now);
+  created.push('comparison');
   return created;
+}
+
+/**
+ * Queue-free run of a compare cell at seed time: the job's own reading (compareSpecOf,
+ * compareThreadInput), computation (computeOnThread) and storing (finishCompare), under a lease
+ * held by the seed.
+ */
+export async function addFinishedComparison(db: Db, t: DemoNotebookTarget, cellId: string, now: Date): Promise<CompareResult> {
+  const [cell] = await db.select().from(cells).where(and(eq(cells.workspaceId, t.workspaceId), eq(cells.id, cellId)));
+  const { spec, settings } = await compareSpecOf(db, t.workspaceId, t.notebookId, cell.content, false);
+  const runId = newId();
+  const row = {
+    id: runId, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId, status: 'running' as const, settings, seed: settings.seed,
+    modelHash: createHash('sha256').update(JSON.stringify({ spec, settings })).digest('hex'), spec, progress: null, attempts: 1,
+    leaseOwner: 'demo-seed', leaseExpiresAt: new Date(now.getTime() + 3_600_000), requestedBy: t.userId, createdAt: now, startedAt: now,
+  };
+  await db.insert(runs).values(compareRunValues(row));
+  const started = performance.now();
+  const result = await computeOnThread(await compareThreadInput(db, row));
+  await finishCompare(db, { id: runId, workspaceId: t.workspaceId }, 'demo-seed', result, now, { compute: Math.round(performance.now() - started) });
+  return result;
 }

@@ -11,6 +11,7 @@ import { z } from 'zod';
 import type { RouteDef } from './routes';
 import * as nb from './notebook';
 import { DRAWS_CONTENT_TYPE } from '../draws-binary';
+import * as cmp from './compare';
 
 const ws = z.strictObject({ workspaceId: nb.nbIdSchema });
 const nbParams = z.strictObject({ workspaceId: nb.nbIdSchema, notebookId: nb.nbIdSchema });
@@ -87,6 +88,21 @@ export const notebookRoutes = {
     purpose: 'Runs of a fit cell, newest first',
     params: nb.cellParams, response: nb.runListResponse,
   },
+  queueCompareRun: {
+    method: 'POST', path: `${nbBase}/cells/:cellId/compare-runs`, access: 'editor', status: 201,
+    purpose: 'Queue the comparison a compare cell describes (log Z, Bayes factors, leave-one-out), optionally with prior scales halved and doubled',
+    params: nb.cellParams, body: cmp.queueCompareBody, response: cmp.compareRunResponse,
+  },
+  listCompareRuns: {
+    method: 'GET', path: `${nbBase}/cells/:cellId/compare-runs`, access: 'viewer', status: 200,
+    purpose: 'Comparison jobs of a compare cell, newest first, with progress and results',
+    params: nb.cellParams, response: cmp.compareRunListResponse,
+  },
+  cancelCompareRun: {
+    method: 'POST', path: '/api/workspaces/:workspaceId/compare-runs/:runId/cancel', access: 'editor', status: 200,
+    purpose: 'Cancel a queued or running comparison',
+    params: nb.runParams, body: z.strictObject({}), response: cmp.compareRunResponse,
+  },
   getRun: {
     method: 'GET', path: '/api/workspaces/:workspaceId/runs/:runId', access: 'viewer', status: 200,
     purpose: 'A run\'s status, per-chain progress and, when done, its summary',
@@ -157,6 +173,11 @@ export const notebookRoutes = {
     method: 'GET', path: '/api/share/:token/cells/:cellId/runs', access: 'share-token', status: 200,
     purpose: 'Runs of a fit cell of the shared notebook',
     params: shareCell, response: nb.runListResponse,
+  },
+  sharedCompareRuns: {
+    method: 'GET', path: '/api/share/:token/cells/:cellId/compare-runs', access: 'share-token', status: 200,
+    purpose: 'Finished comparisons of a compare cell of the shared notebook',
+    params: shareCell, response: cmp.compareRunListResponse,
   },
   sharedRunDraws: {
     method: 'GET', path: '/api/share/:token/runs/:runId/draws', access: 'share-token', status: 200,

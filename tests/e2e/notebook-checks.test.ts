@@ -56,7 +56,7 @@ async function flow() {
   await page.getByRole('heading', { name: DEMO_NOTEBOOK }).first().waitFor();
 
   const fits = page.locator('section[data-kind="fit"]');
-  await expect.poll(() => fits.count(), { timeout: 15_000 }).toBe(3);
+  await expect.poll(() => fits.count(), { timeout: 15_000 }).toBe(4); // the three fits of the checks, and the one-mean fit of the comparison
 
   // The dose–response fit: its checks, six statistics (the five built in and the demo's iqr).
   const dose = fits.nth(1);

@@ -146,7 +146,7 @@ async function flow() {
     await page.goto(notebookUrl);
     await page.getByTestId('read-only-banner').waitFor();
     // Let every fit's plot finish drawing before pointing at anything below them.
-    await expect.poll(() => page.locator('[data-testid="fit-plots"] [data-testid="plot"] svg').count(), { timeout: 30_000 }).toBe(4);
+    await expect.poll(() => page.locator('[data-testid="fit-plots"] [data-testid="plot"] svg').count(), { timeout: 30_000 }).toBe(5); // with the one-mean fit of the demo comparison
     const reviewedFit = page.locator('section[data-kind="fit"]').last();
     await reviewedFit.getByRole('button', { name: /^Comments on this fit cell/ }).click();
     await page.getByLabel('Comment on this cell…').fill('Is a spread prior of 2 too wide for this panel?');

@@ -333,7 +333,6 @@ describe('comments', () => {
 });
 
 import { ModelSidePanel } from '../../../../src/features/notebook/model/model-side-panel';
-import { CompareCell } from '../../../../src/features/notebook/compare/compare-cell';
 import { DataUpload, tableNameFromFile } from '../../../../src/features/notebook/data/data-upload';
 
 describe('model side panel', () => {
@@ -367,18 +366,6 @@ describe('model side panel', () => {
     );
     expect(screen.getByTestId('region-status').querySelector('[data-tone="warning"]')).toBeTruthy();
     expect(screen.getByText('line 3 and line 4 cannot both hold')).toBeTruthy();
-  });
-});
-
-describe('compare cell', () => {
-  it('says honestly that evidence is not available and shows no numbers', () => {
-    const onChange = vi.fn();
-    render(<CompareCell models={[{ id: 'm1', label: 'Model (monotone)' }, { id: 'm2', label: 'Model (free)' }]} selected={['m1']} readOnly={false} onChange={onChange} />);
-    const cell = screen.getByTestId('compare-cell');
-    expect(cell.textContent).toContain('Evidence not available yet');
-    expect(cell.textContent).not.toMatch(/\d/);
-    fireEvent.click(screen.getByLabelText('Model (free)'));
-    expect(onChange).toHaveBeenCalledWith(['m1', 'm2']);
   });
 });
 
