@@ -172,7 +172,7 @@ function slope(ds: number[], ts: number[]): number {
  * MAX_UNKNOWNS = 500, so the engine is called directly), 4 chains × 1,000 warm-up + 1,000 draws, one
  * after another on one thread, with the engine `auto` picks (its choice's time included), then RHMC
  * on the same starts. Target: min ESS (bulk and tail) ≥ 400 within 60 s. RHMC gets
- * RHMC_BENCH_FIT_RHMC_ITERATIONS (default 200 + 200) per chain and its time is also given scaled to
+ * RHMC_BENCH_FIT_RHMC_ITERATIONS (default 100 + 100) per chain and its time is also given scaled to
  * 1,000 + 1,000 (its cost per iteration is steady after warm-up's first windows).
  */
 async function fitScaling(out: Record<string, number | string>): Promise<void> {
@@ -204,7 +204,7 @@ async function fitScaling(out: Record<string, number | string>): Promise<void> {
   out[`fit.order${d}.auto.seconds`] = autoSeconds;
   out[`fit.order${d}.auto.minEss`] = a.minEss;
   out[`fit.order${d}.auto.target(minEss>=400,<=60s)`] = a.minEss >= 400 && autoSeconds + prepared <= 60 ? 'met' : 'missed';
-  const it = Number(process.env.RHMC_BENCH_FIT_RHMC_ITERATIONS ?? 200);
+  const it = Number(process.env.RHMC_BENCH_FIT_RHMC_ITERATIONS ?? 100);
   const r = chainsFor('rhmc', it, it);
   out[`fit.order${d}.rhmc.iterations`] = `${it}+${it} per chain`;
   out[`fit.order${d}.rhmc.seconds`] = r.seconds;

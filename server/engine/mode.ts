@@ -16,6 +16,8 @@ export function findMode(
   theta: Float64Array;
   /** The same point in the reduced coordinates. */
   z: Float64Array;
+  /** Cholesky factor of the last Newton step's matrix (−∇²ℓ plus the barrier's Hessian, damped if needed). */
+  factor: Cholesky;
   logDensity: number;
   iterations: number;
   converged: boolean;
@@ -134,7 +136,7 @@ export function findMode(
   }
   const theta = new Float64Array(p.target.dim);
   p.toTheta(z, theta);
-  return { theta, z, logDensity: l, iterations, converged };
+  return { theta, z, factor: chol, logDensity: l, iterations, converged };
 }
 
 /**
@@ -145,6 +147,16 @@ export function findMode(
  * (maxIterations; a point near the stage's optimum is enough). Used to start the automatic choice's pilot chains.
  */
 export function bulkPoint(p: PreparedTarget, maxIterations = 10): Float64Array {
-  // The likelihood's Hessian (2n evaluations) is refreshed every third step; the barrier's part is exact.
-  return findMode(p, { lastMu: 1, maxIterations, hessianEvery: 3 }).z;
+  return bulkApproximation(p, maxIterations).z;
+}
+
+/**
+ * The bulk point and the Cholesky factor of the curvature there (−∇²ℓ plus the barrier's Hessian):
+ * a Gaussian approximation N(z, (LLᵀ)⁻¹) of the posterior that stays inside the region near faces.
+ * The likelihood's Hessian (2n evaluations) is refreshed every third Newton step; the barrier's
+ * part is exact.
+ */
+export function bulkApproximation(p: PreparedTarget, maxIterations = 10): { z: Float64Array; factor: Cholesky } {
+  const r = findMode(p, { lastMu: 1, maxIterations, hessianEvery: 3 });
+  return { z: r.z, factor: r.factor };
 }

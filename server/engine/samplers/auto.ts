@@ -25,6 +25,7 @@ import type { ChainOutput, DataTables, SamplerName, TargetSpec } from '../types'
 import type { PreparedTarget } from '../geometry';
 import { isFlat } from '../geometry';
 import type { Rng } from '../rng';
+import type { Cholesky } from '../linalg/cholesky';
 import { detectTransformShape } from './transform-hmc';
 import { detectStructure } from '../linalg/metric';
 
@@ -311,6 +312,40 @@ export function startsFromPilot(p: PreparedTarget, bulk: Float64Array, pilot: Ch
       for (let r = 0; r < p.m; r++) if (!(p.b[r] - s[r] > 1e-9 * (1 + Math.abs(p.b[r])))) ok = false;
       if (ok && !Number.isFinite(p.logDensity(y, new Float64Array(n)))) ok = false;
       f = 1 + (f - 1) * 0.5;
+    }
+    if (!ok) return null;
+    out.push(Float64Array.from(y));
+  }
+  return out;
+}
+
+export const APPROXIMATION_STARTS_NOTE = `Its chains start from draws of the Gaussian approximation at the bulk point (the first barrier stage of the mode search), its spread widened ${START_EXPANSION}×.`;
+
+/**
+ * Starts when no pilot ran: z = bulk + START_EXPANSION · L⁻ᵀ ξ, ξ standard normal, where LLᵀ is the
+ * curvature at the bulk point (mode.ts bulkApproximation) — an overdispersed Gaussian
+ * approximation centred in the mass ("Inference from iterative simulation using multiple
+ * sequences", Statistical Science, 1992); each pulled towards the bulk point until strictly inside.
+ */
+export function startsFromApproximation(p: PreparedTarget, bulk: Float64Array, factor: Cholesky, count: number, rng: Rng): Float64Array[] | null {
+  const n = p.n;
+  const out: Float64Array[] = [];
+  const xi = new Float64Array(n);
+  const d = new Float64Array(n);
+  const y = new Float64Array(n);
+  const s = new Float64Array(p.m);
+  for (let c = 0; c < count; c++) {
+    rng.normals(xi);
+    factor.backward(xi, d);
+    let f = START_EXPANSION;
+    let ok = false;
+    for (let k = 0; k < 40 && !ok; k++) {
+      for (let q = 0; q < n; q++) y[q] = bulk[q] + f * d[q];
+      p.rows.mul(y, s);
+      ok = true;
+      for (let r = 0; r < p.m; r++) if (!(p.b[r] - s[r] > 1e-9 * (1 + Math.abs(p.b[r])))) ok = false;
+      if (ok && !Number.isFinite(p.logDensity(y, new Float64Array(n)))) ok = false;
+      f *= 0.7;
     }
     if (!ok) return null;
     out.push(Float64Array.from(y));

@@ -5,7 +5,8 @@ import type { ChainOptions, ChainOutput, SamplerName } from '../types';
 import type { PreparedTarget } from '../geometry';
 import { isFlat } from '../geometry';
 import { Rng } from '../rng';
-import { bulkPoint } from '../mode';
+import { bulkApproximation } from '../mode';
+import type { Cholesky } from '../linalg/cholesky';
 import { hitRunChain } from './hitrun';
 import { rhmcChain } from './rhmc';
 import { ballWalkChain } from './ball-walk';
@@ -14,7 +15,7 @@ import { dikinWalkChain } from './dikin-walk';
 import { rwmChain } from './rwm';
 import { reflectHmcChain } from './reflect-hmc';
 import { transformHmcChain } from './transform-hmc';
-import { startsFromPilot, STARTS_FROM_PILOT_STREAM, STARTS_NOTE, modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, pooledVariance, PROBE_ITERATIONS, rhmcWorkEstimate, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
+import { APPROXIMATION_STARTS_NOTE, startsFromApproximation, startsFromPilot, STARTS_FROM_PILOT_STREAM, STARTS_NOTE, modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, pooledVariance, PROBE_ITERATIONS, rhmcWorkEstimate, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
 
 /**
  * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
@@ -121,15 +122,20 @@ function sampleWith(p: PreparedTarget, sampler: SamplerName, start: Float64Array
 /** The pilots' start: the analytic centre for a flat density, else a bulk point; `fallback` if that fails. */
 export function pilotStart(p: PreparedTarget, fallback: Float64Array): Float64Array {
   if (isFlat(p)) return p.centre;
+  return safeBulk(p)?.z ?? fallback;
+}
+
+/** The bulk approximation (mode.ts) when it is strictly inside with a finite density, else null. */
+function safeBulk(p: PreparedTarget): { z: Float64Array; factor: Cholesky } | null {
   try {
-    const z = bulkPoint(p);
+    const r = bulkApproximation(p);
     const s = new Float64Array(p.m);
-    p.rows.mul(z, s);
-    for (let i = 0; i < p.m; i++) if (!(p.b[i] - s[i] > 0)) return fallback;
-    if (!Number.isFinite(p.logDensity(z, new Float64Array(p.n)))) return fallback;
-    return z;
+    p.rows.mul(r.z, s);
+    for (let i = 0; i < p.m; i++) if (!(p.b[i] - s[i] > 0)) return null;
+    if (!Number.isFinite(p.logDensity(r.z, new Float64Array(p.n)))) return null;
+    return r;
   } catch {
-    return fallback;
+    return null;
   }
 }
 
@@ -155,7 +161,9 @@ export async function chooseEngine(
   // Pilots start in the bulk of the mass, not at the fit's dispersed start: a flat density's bulk
   // is around the analytic centre; otherwise the first barrier stage of the mode search (mode.ts
   // bulkPoint). Pilots then measure mixing, not the journey towards the mass.
-  const start = pilotStart(p, o.start);
+  const flat = isFlat(p);
+  const bulk = flat ? null : safeBulk(p);
+  const start = flat ? p.centre : (bulk?.z ?? o.start);
   // Probes: a few iterations of each candidate give its modelled work per iteration. RHMC's probe
   // alone (its step-size search) can cost more than the other pilots together, so it is probed
   // only when its estimated work (rhmcWorkEstimate) would let it afford a pilot.
@@ -178,7 +186,13 @@ export async function chooseEngine(
     plan[k] = pilotPlan(perIteration, o.fitIterations)[k];
   }
   const run = list.candidates.map((_, k) => k).filter((k) => plan[k] > 0);
-  if (run.length === 0) return unpilotedReason(list);
+  if (run.length === 0) {
+    const u = unpilotedReason(list);
+    // No pilot draws: the chains start from the Gaussian approximation at the bulk point, widened.
+    if (!bulk || !o.chains) return u;
+    const starts = startsFromApproximation(p, bulk.z, bulk.factor, o.chains, new Rng(o.seed ?? 1, STARTS_FROM_PILOT_STREAM));
+    return starts ? { ...u, reason: `${u.reason} ${APPROXIMATION_STARTS_NOTE}`, starts } : u;
+  }
   const outs = await runPilots(
     run.map((k) => ({
       engine: list.candidates[k],
@@ -202,8 +216,9 @@ export async function chooseEngine(
   // (overdispersed relative to the posterior the pilots saw), instead of from the region's spread.
   const chosen = run.indexOf(list.candidates.indexOf(pick.sampler));
   const pilot = chosen >= 0 ? outs[chosen] : undefined;
-  if (!pilot || pilot instanceof Error) return pick;
-  const starts = startsFromPilot(p, start, pilot, o.chains, new Rng(o.seed ?? 1, STARTS_FROM_PILOT_STREAM));
-  if (!starts) return pick;
-  return { ...pick, reason: `${pick.reason} ${STARTS_NOTE}`, starts };
+  const rng = new Rng(o.seed ?? 1, STARTS_FROM_PILOT_STREAM);
+  const starts = pilot && !(pilot instanceof Error) ? startsFromPilot(p, start, pilot, o.chains, rng) : null;
+  if (starts) return { ...pick, reason: `${pick.reason} ${STARTS_NOTE}`, starts };
+  const approx = bulk ? startsFromApproximation(p, bulk.z, bulk.factor, o.chains, rng) : null;
+  return approx ? { ...pick, reason: `${pick.reason} ${APPROXIMATION_STARTS_NOTE}`, starts: approx } : pick;
 }

@@ -7,7 +7,8 @@ import { prepareTarget } from '../../../server/engine/geometry';
 import { compileProgram } from '../../../server/engine/compile';
 import { detectTransformShape, TransformMap } from '../../../server/engine/samplers/transform-hmc';
 import { chooseEngine, pilotStart, sampleChain } from '../../../server/engine/samplers';
-import { startsFromPilot } from '../../../server/engine/samplers/auto';
+import { startsFromApproximation, startsFromPilot } from '../../../server/engine/samplers/auto';
+import { bulkApproximation } from '../../../server/engine/mode';
 import normal from '@stdlib/stats-base-dists-normal';
 import { runFit } from '../../../server/engine/fit';
 import { Rng } from '../../../server/engine/rng';
@@ -142,6 +143,27 @@ describe('automatic choice', () => {
       expect(z[1]).toBeGreaterThan(0.5);
     }
     expect(new Set(s1.map((z) => z[0])).size).toBeGreaterThan(1);
+  }, 60_000);
+
+  it('a fit too short for pilots starts its chains from the widened Gaussian approximation at the bulk point: truncated normal means within 4 MCSE', async () => {
+    // Same targets and handbook means as above; 8 chains × (50 + 50) leaves no room for pilots.
+    const spec = { kind: 'program' as const, source: 'unknown x, y\nterm ld_normal(x, 0, 1) + ld_normal(y, 0, 1)\nconstrain x >= 1\nconstrain y >= 0.5', tables: {} };
+    const r = await runFit(spec, { chains: 8, warmup: 50, draws: 50, seed: 12 }, { parallel: false });
+    expect(r.summary.diagnostics.samplerReason).toMatch(/too short for pilots/);
+    expect(r.summary.diagnostics.samplerReason).toMatch(/Gaussian approximation/);
+    for (const [name, a] of [['x', 1], ['y', 0.5]] as const) {
+      const qs = r.summary.quantities.find((x) => x.name === name)!;
+      const truth = normal.pdf(a, 0, 1) / (1 - normal.cdf(a, 0, 1));
+      expect(Math.abs(qs.mean - truth)).toBeLessThan(4 * qs.mcseMean);
+    }
+    const p = prepareTarget(compileProgram(spec.source, {}));
+    const b = bulkApproximation(p);
+    const s1 = startsFromApproximation(p, b.z, b.factor, 8, new Rng(3, 4))!;
+    expect(s1.map((z) => Array.from(z))).toEqual(startsFromApproximation(p, b.z, b.factor, 8, new Rng(3, 4))!.map((z) => Array.from(z)));
+    for (const z of s1) {
+      expect(z[0]).toBeGreaterThan(1);
+      expect(z[1]).toBeGreaterThan(0.5);
+    }
   }, 60_000);
 
   it('a varying density on a simplex shortlists transform-based HMC and pilots decide deterministically', async () => {
