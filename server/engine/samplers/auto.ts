@@ -1,23 +1,27 @@
 /**
- * The automatic choice of engine ('auto'): a shortlist from the model's structure, then short
- * pilot chains of the shortlisted engines, compared by effective draws per unit of modelled work.
+ * The automatic choice of engine ('auto'): rules from the model's structure where the answer is
+ * clear, otherwise short pilot chains of the shortlisted engines compared by effective draws per
+ * unit of modelled work (docs/engine.md §9.2).
  *
- * - Shortlist (structure): transform-based HMC when the region is a product of bounds, simplices
- *   and orderings; reflective HMC always (it is plain HMC without inequalities); for a flat density
- *   on a bounded region the exact-chord walks (rounded and coordinate hit-and-run); for a varying
- *   density barrier-metric RHMC, coordinate and rounded hit-and-run.
- * - Pilots: a probe of PROBE_ITERATIONS iterations measures each candidate's modelled work per
- *   iteration; then one pilot chain per candidate, from the fit's first dispersed start, seeded with
- *   the fit's seed and a chain index of its own (PILOT_CHAIN_BASE + k), half warm-up. All pilots
- *   together cost about PILOT_SHARE (8%) of the fit's work at the cheapest candidate's rate, each
- *   between PILOT_MIN and PILOT_MAX iterations (pilotPlan). Pilot draws are warm-up: they are never
- *   returned or summarised.
+ * - Rules (no pilots): no inequalities → reflective HMC (plain HMC); a flat density on a box →
+ *   coordinate hit-and-run; a flat density on a product of bounds, simplices and orderings →
+ *   transform-based HMC.
+ * - Candidates otherwise: flat on a general polytope → rounded hit-and-run and reflective HMC; a
+ *   varying density → transform-based HMC (when the shape allows it), RHMC and reflective HMC.
+ * - Pilots: start at the bulk point (mode.ts bulkApproximation; the analytic centre for a flat
+ *   density). A probe of PROBE_ITERATIONS iterations measures each candidate's modelled work per
+ *   iteration; then one pilot chain per candidate, seeded with the fit's seed and a chain index of
+ *   its own (PILOT_CHAIN_BASE + k), half warm-up. All pilots together cost about PILOT_SHARE (8%)
+ *   of the fit's work at the cheapest candidate's rate, each between PILOT_MIN and PILOT_MAX
+ *   iterations (pilotPlan). Pilot draws are warm-up: they are never returned or summarised.
  * - Score: ESS per kept iteration from the pilot's mean squared jumps against the variance of all
- *   pilots pooled (scorePilot), minimum over coordinates, divided by the modelled work per iteration = density evaluations × the model's evaluation cost (a count from
- *   its data: 50 + 10·dim + 12·data cells) + the engine's own linear-algebra flops (ChainOutput.work;
- *   for RHMC about three factorisations and a few solves per evaluation). Work is counted, not
- *   timed, so the same model and seed always give the same choice and therefore identical draws;
- *   the benchmark (npm run bench -- samplers) checks the choice against measured ESS per second.
+ *   pilots pooled (scorePilot), minimum over coordinates, divided by the modelled work per
+ *   iteration = density evaluations × the model's evaluation cost (50 + 10·dim + 12·data cells)
+ *   + the engine's own linear-algebra flops. Work is counted, not timed, so the same model and seed
+ *   always give the same choice and therefore identical draws.
+ * - Starts: the chains start from the chosen pilot's draws moved START_EXPANSION× as far from the
+ *   bulk point (startsFromPilot), or, without pilots, from the widened Gaussian approximation there
+ *   (startsFromApproximation); rules keep the fit's dispersed starts.
  * - The engine is decided once per fit, before any chain starts (server/engine/fit.ts), and every
  *   chain runs it.
  */
