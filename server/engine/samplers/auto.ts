@@ -32,6 +32,7 @@ import type { Rng } from '../rng';
 import type { Cholesky } from '../linalg/cholesky';
 import { detectTransformShape } from './transform-hmc';
 import { detectStructure } from '../linalg/metric';
+import { eliminatedTarget } from '../geometry/elimination';
 
 export interface Shortlist {
   candidates: SamplerName[];
@@ -151,14 +152,16 @@ export interface PilotScore {
  */
 export function rhmcStepWork(p: PreparedTarget, dense = false): number {
   const n = p.n;
-  const s = detectStructure(p.rows, dense ? 'dense' : undefined);
+  // RHMC runs models with equalities in the sparse elimination coordinates (samplers/index.ts).
+  const rows = !dense && p.N ? (eliminatedTarget(p)?.q.rows ?? p.rows) : p.rows;
+  const s = detectStructure(rows, dense ? 'dense' : undefined);
   const k = s.lowRankRows.length;
   const band = s.bandwidth;
   let factor: number;
   let solve: number;
   if (s.kind === 'dense') {
     let gram = 0;
-    for (let i = 0; i < p.m; i++) gram += (p.rows.ptr[i + 1] - p.rows.ptr[i]) ** 2;
+    for (let i = 0; i < rows.m; i++) gram += (rows.ptr[i + 1] - rows.ptr[i]) ** 2;
     factor = (n * n * n) / 3 + gram;
     solve = n * n;
   } else {
@@ -166,7 +169,7 @@ export function rhmcStepWork(p: PreparedTarget, dense = false): number {
     factor = n * (band + 1) * (band + 1) + k * n * (band + 1) + (k * k * k) / 3;
     solve = n * (band + 1) + k * n;
   }
-  return 3 * factor + 12 * (solve + p.rows.val.length);
+  return 3 * factor + 12 * (solve + rows.val.length);
 }
 
 /**

@@ -6,6 +6,7 @@ import type { PreparedTarget } from '../geometry';
 import { isFlat } from '../geometry';
 import { Rng } from '../rng';
 import { bulkApproximation } from '../mode';
+import { eliminatedTarget } from '../geometry/elimination';
 import type { Cholesky } from '../linalg/cholesky';
 import { hitRunChain } from './hitrun';
 import { rhmcChain } from './rhmc';
@@ -94,8 +95,13 @@ function sampleWith(p: PreparedTarget, sampler: SamplerName, start: Float64Array
     throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
   }
   switch (sampler) {
-    case 'rhmc':
+    case 'rhmc': {
+      // With equalities, RHMC runs in the sparse elimination coordinates (geometry/elimination.ts)
+      // so the inequality rows, and with them the metric, keep their structure.
+      const el = p.N ? eliminatedTarget(p) : null;
+      if (el) return rhmcChain(el.q, el.fromZ(start), opts, rng, makeDrawCheck(el.q), {});
       return rhmcChain(p, start, opts, rng, check, {});
+    }
     case 'rhmc-gl':
       return rhmcChain(p, start, opts, rng, check, { integrator: 'leapfrog' });
     case 'hitrun':
