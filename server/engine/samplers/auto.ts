@@ -277,6 +277,15 @@ export function unpilotedReason(list: Shortlist): { sampler: SamplerName; reason
   };
 }
 
+/** Only candidate k can afford a pilot within the fit's share: it is used, without a pilot. */
+export function onlyAffordableReason(list: Shortlist, k: number): { sampler: SamplerName; reason: string } {
+  const others = list.candidates.filter((_, j) => j !== k);
+  return {
+    sampler: list.candidates[k],
+    reason: `Automatic: ${list.why}, so the candidates were ${list.candidates.join(', ')}; a pilot of ${others.join(' or ')} would cost more than its share of 8% of the fit's work (their work per iteration, from a 6-iteration probe or an estimate, is too high for this fit's length), so ${list.candidates[k]} was used without pilots.`,
+  };
+}
+
 /** A single candidate needs no pilot. */
 export function soleCandidateReason(list: Shortlist): { sampler: SamplerName; reason: string } {
   return { sampler: list.candidates[0], reason: `Automatic: ${list.why}, so ${list.candidates[0]} was used without pilots.` };

@@ -16,7 +16,7 @@ import { dikinWalkChain } from './dikin-walk';
 import { rwmChain } from './rwm';
 import { reflectHmcChain } from './reflect-hmc';
 import { transformHmcChain } from './transform-hmc';
-import { APPROXIMATION_STARTS_NOTE, startsFromApproximation, startsFromPilot, STARTS_FROM_PILOT_STREAM, STARTS_NOTE, modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, pooledVariance, PROBE_ITERATIONS, rhmcWorkEstimate, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
+import { onlyAffordableReason, APPROXIMATION_STARTS_NOTE, startsFromApproximation, startsFromPilot, STARTS_FROM_PILOT_STREAM, STARTS_NOTE, modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, pooledVariance, PROBE_ITERATIONS, rhmcWorkEstimate, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
 
 /**
  * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
@@ -192,8 +192,10 @@ export async function chooseEngine(
     plan[k] = pilotPlan(perIteration, o.fitIterations)[k];
   }
   const run = list.candidates.map((_, k) => k).filter((k) => plan[k] > 0);
-  if (run.length === 0) {
-    const u = unpilotedReason(list);
+  if (run.length <= 1) {
+    // Nothing to compare: the one candidate that can afford a pilot (or, if none can, the first by
+    // structure) is used without one.
+    const u = run.length === 1 ? onlyAffordableReason(list, run[0]) : unpilotedReason(list);
     // No pilot draws: the chains start from the Gaussian approximation at the bulk point, widened.
     if (!bulk || !o.chains) return u;
     const starts = startsFromApproximation(p, bulk.z, bulk.factor, o.chains, new Rng(o.seed ?? 1, STARTS_FROM_PILOT_STREAM));
