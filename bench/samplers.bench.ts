@@ -3,7 +3,8 @@
  * the same wall-clock budget, one thread, chains one after another in-process, all engines fitting
  * the same compiled model.
  *
- *   npm run bench -- samplers [--quick]        (or BENCH_QUICK=1; BENCH_BUDGET=seconds overrides)
+ *   npm run bench -- samplers [--quick]        (or BENCH_QUICK=1; BENCH_BUDGET=seconds overrides;
+ *   BENCH_PROBLEMS=P4,P5 and BENCH_ENGINES=rhmc,reflect-hmc restrict a development run)
  *
  * Per engine and problem: a short calibration chain (not counted) gives the seconds per iteration;
  * the chains then get iterations = budget / (chains × seconds per iteration), half warm-up, at
