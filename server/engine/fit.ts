@@ -92,6 +92,8 @@ export async function runFit(
         start: starts[0],
         fitIterations: settings.chains * (settings.warmup + settings.draws),
         evalCost: evaluationCostOf(spec, target.dim),
+        chains: settings.chains,
+        seed: settings.seed,
       },
       (pilots) =>
         Promise.all(
@@ -113,6 +115,7 @@ export async function runFit(
     );
     sampler = choice.sampler;
     samplerReason = choice.reason;
+    if (choice.starts) for (let c = 0; c < starts.length; c++) starts[c] = choice.starts[c];
   } else {
     sampler = settings.sampler;
     samplerReason = `Chosen in the fit settings (${settings.sampler}).`;
