@@ -172,7 +172,7 @@ interface Seeded {
 async function seedNotebook(db: Db): Promise<Seeded> {
   const now = new Date();
   const demo = await seedDemo(db, now);
-  await seedDemoNotebook(db, demo, now); // 8 more cells and two finished fits, computed by the engine
+  await seedDemoNotebook(db, demo, now); // 15 more cells, four finished fits and a comparison, computed by the engine
   const t = { userId: demo.userId, workspaceId: demo.workspaceId, notebookId: demo.notebookId };
   const where = and(eq(cells.workspaceId, t.workspaceId), eq(cells.notebookId, t.notebookId));
   const [{ last }] = await db.select({ last: max(cells.position) }).from(cells).where(where);

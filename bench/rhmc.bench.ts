@@ -6,12 +6,15 @@
  * dimension for each structure of the metric, with the log-log slope.
  *
  * Environment (to keep it short on busy machines): RHMC_BENCH_WARMUP, RHMC_BENCH_DRAWS (per chain,
- * default 200 / 300), RHMC_BENCH_MAXDIM (largest dimension of the scaling table, default 10000).
+ * default 200 / 300), RHMC_BENCH_MAXDIM (largest dimension of the scaling table, default 10000),
+ * RHMC_BENCH_FIT_DIM (the fit-sized check's dimension, default 1000), RHMC_BENCH_ONLY=fit (that check only).
  * Runnable alone: `npx tsx bench/rhmc.bench.ts`; recorded by `npm run bench -- rhmc`.
  */
 import { fileURLToPath } from 'node:url';
 import { dispersedStarts, prepareTarget } from '../server/engine/geometry';
-import { makeDrawCheck } from '../server/engine/samplers';
+import { chooseEngine, evaluationCostOf, makeDrawCheck, sampleChain } from '../server/engine/samplers';
+import { compileProgram } from '../server/engine/compile';
+import type { SamplerName } from '../server/engine/types';
 import { rhmcChain, type RhmcVariant } from '../server/engine/samplers/rhmc';
 import { DEFAULT_MIDPOINT, MidpointIntegrator, midpointChain, type BarrierRegion } from '../server/engine/samplers/rhmc-midpoint';
 import type { MetricKind } from '../server/engine/linalg/metric';
@@ -25,6 +28,7 @@ const CHAINS = 2;
 const WARMUP = Number(process.env.RHMC_BENCH_WARMUP ?? 200);
 const DRAWS = Number(process.env.RHMC_BENCH_DRAWS ?? 300);
 const MAXDIM = Number(process.env.RHMC_BENCH_MAXDIM ?? 10000);
+const FIT_DIM = Number(process.env.RHMC_BENCH_FIT_DIM ?? 1000);
 
 const median = (xs: number[]) => {
   const s = [...xs].sort((a, b) => a - b);
@@ -163,8 +167,55 @@ function slope(ds: number[], ts: number[]): number {
   return sxy / sxx;
 }
 
+/**
+ * The fit-sized scaling check: the uniform order simplex at d = FIT_DIM (beyond the product's
+ * MAX_UNKNOWNS = 500, so the engine is called directly), 4 chains × 1,000 warm-up + 1,000 draws, one
+ * after another on one thread, with the engine `auto` picks (its choice's time included), then RHMC
+ * on the same starts. Target: min ESS (bulk and tail) ≥ 400 within 60 s. RHMC gets
+ * RHMC_BENCH_FIT_RHMC_ITERATIONS (default 100 + 100) per chain and its time is also given scaled to
+ * 1,000 + 1,000 (its cost per iteration is steady after warm-up's first windows).
+ */
+async function fitScaling(out: Record<string, number | string>): Promise<void> {
+  const d = FIT_DIM;
+  const t0 = performance.now();
+  const target = compileProgram(`unknown x[${d}]\nconstrain 0 <= x[1]\nconstrain diff(x) >= 0\nconstrain x[${d}] <= 1\n`, {});
+  const p = prepareTarget(target);
+  const starts = dispersedStarts(p, 4, new Rng(2026, 0x5eed));
+  const prepared = (performance.now() - t0) / 1000;
+  const t1 = performance.now();
+  const choice = await chooseEngine(p, { start: starts[0], fitIterations: 8000, evalCost: evaluationCostOf(null, d), chains: 4, seed: 2026 }, async (jobs) =>
+    jobs.map((j) => sampleChain(p, j.engine, j.start, { warmup: j.warmup, draws: j.draws, seed: 2026, chain: j.chain })),
+  );
+  const chainsFor = (engine: SamplerName, warmup: number, draws: number) => {
+    const ts = performance.now();
+    const outs = (choice.starts ?? starts).map((st, c) => sampleChain(p, engine, st, { warmup, draws, seed: 2026, chain: c }));
+    const seconds = (performance.now() - ts) / 1000;
+    let minEss = Infinity;
+    for (let j = 0; j < d; j++) {
+      const ch = outs.map((o) => Float64Array.from({ length: draws }, (_, k) => o.draws[k * d + j]));
+      minEss = Math.min(minEss, essBulk(ch), essTail(ch));
+    }
+    return { seconds, minEss };
+  };
+  const a = chainsFor(choice.sampler, 1000, 1000);
+  const autoSeconds = (performance.now() - t1) / 1000;
+  out[`fit.order${d}.prepareSeconds`] = prepared;
+  out[`fit.order${d}.auto.engine`] = choice.sampler;
+  out[`fit.order${d}.auto.seconds`] = autoSeconds;
+  out[`fit.order${d}.auto.minEss`] = a.minEss;
+  out[`fit.order${d}.auto.target(minEss>=400,<=60s)`] = a.minEss >= 400 && autoSeconds + prepared <= 60 ? 'met' : 'missed';
+  const it = Number(process.env.RHMC_BENCH_FIT_RHMC_ITERATIONS ?? 100);
+  const r = chainsFor('rhmc', it, it);
+  out[`fit.order${d}.rhmc.iterations`] = `${it}+${it} per chain`;
+  out[`fit.order${d}.rhmc.seconds`] = r.seconds;
+  out[`fit.order${d}.rhmc.minEss`] = r.minEss;
+  out[`fit.order${d}.rhmc.secondsScaledTo1000+1000`] = (r.seconds * 1000) / it;
+}
+
 export async function run(): Promise<Record<string, number | string>> {
   const out: Record<string, number | string> = { chains: CHAINS, warmupDraws: `${WARMUP}/${DRAWS}` };
+  await fitScaling(out);
+  if (process.env.RHMC_BENCH_ONLY === 'fit') return out;
   const cases: [string, ModelTarget][] = [
     ['simplex50', uniformSimplexTarget(50)],
     ['order50', orderSimplexTarget(50)],

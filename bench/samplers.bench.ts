@@ -3,7 +3,8 @@
  * the same wall-clock budget, one thread, chains one after another in-process, all engines fitting
  * the same compiled model.
  *
- *   npm run bench -- samplers [--quick]        (or BENCH_QUICK=1; BENCH_BUDGET=seconds overrides)
+ *   npm run bench -- samplers [--quick]        (or BENCH_QUICK=1; BENCH_BUDGET=seconds overrides;
+ *   BENCH_PROBLEMS=P4,P5 and BENCH_ENGINES=rhmc,reflect-hmc restrict a development run)
  *
  * Per engine and problem: a short calibration chain (not counted) gives the seconds per iteration;
  * the chains then get iterations = budget / (chains × seconds per iteration), half warm-up, at
@@ -11,8 +12,8 @@
  * iterations are slow overruns the budget (its ESS/s stays honest: seconds are measured). ESS is the minimum over the unknowns' coordinates of the bulk and tail
  * ESS (server/engine/diagnostics); ESS/s divides it by the chains' wall time (warm-up included).
  * `auto` is timed from its pilots to its last draw: the pilots are sized for a fit of as many
- * iterations as the cheapest shortlisted engine does in the budget, and its chains get what is
- * left of the budget. gradientsPerDraw counts log-density-and-gradient evaluations per iteration
+ * iterations as the cheapest shortlisted engine does in the budget, and its chains run as many
+ * iterations as the chosen engine's own run (a fit of that length), from the starts auto gives. gradientsPerDraw counts log-density-and-gradient evaluations per iteration
  * (warm-up and kept alike). Writes latest.json (through bench/run.ts) and appends a dated table
  * to bench/results/samplers.md.
  */
@@ -39,6 +40,9 @@ const MIN_DRAWS = 10;
 const CALIBRATION = QUICK ? 1 : 6;
 const CHAINS = QUICK ? 2 : 4;
 const SEED = 20261203;
+/** Development filters (comma-separated): BENCH_PROBLEMS=P4,P5 and BENCH_ENGINES=rhmc,reflect-hmc. */
+const ONLY_PROBLEMS = process.env.BENCH_PROBLEMS?.split(',').filter(Boolean);
+const ONLY_ENGINES = process.env.BENCH_ENGINES?.split(',').filter(Boolean);
 
 const f3 = (x: number | undefined) => (x === undefined || !Number.isFinite(x) ? '–' : x >= 100 ? x.toFixed(0) : x >= 1 ? x.toFixed(1) : x.toPrecision(2));
 
@@ -124,6 +128,7 @@ async function benchProblem(id: string): Promise<ProblemResult> {
   const engines: EngineResult[] = [];
   const perIteration = new Map<string, number>();
   for (const engine of ENGINES) {
+    if (ONLY_ENGINES && !ONLY_ENGINES.includes(engine)) continue;
     if (engine === 'transform-hmc' && !shape.ok) {
       engines.push({ engine, applicable: false, note: 'not applicable: the region is not a product of bounds, simplices and orderings' });
       continue;
@@ -155,7 +160,13 @@ async function benchProblem(id: string): Promise<ProblemResult> {
     const t0 = performance.now();
     const choice = await chooseEngine(
       p,
-      { start: starts[0], fitIterations: CHAINS * (fitSize.warmup + fitSize.draws), evalCost: evaluationCostOf({ kind: 'program', source: pr.source, tables: pr.tables }, target.dim) },
+      {
+        start: starts[0],
+        fitIterations: CHAINS * (fitSize.warmup + fitSize.draws),
+        evalCost: evaluationCostOf({ kind: 'program', source: pr.source, tables: pr.tables }, target.dim),
+        chains: CHAINS,
+        seed: SEED,
+      },
       async (jobs) =>
         jobs.map((j) => {
           try {
@@ -166,9 +177,11 @@ async function benchProblem(id: string): Promise<ProblemResult> {
         }),
     );
     const pilotSeconds = (performance.now() - t0) / 1000;
+    // auto's chains run as many iterations as the chosen engine's own run got (a fit of that
+    // length); its seconds add the choice (bulk point, probes, pilots) to the chains' time.
     const spi = perIteration.get(choice.sampler) ?? calibrate(p, choice.sampler, starts[0]);
-    const { warmup, draws } = sizeFor(spi, Math.max(BUDGET - pilotSeconds, 0));
-    const { outs, seconds } = runChainsTimed(p, choice.sampler, starts, warmup, draws);
+    const { warmup, draws } = sizeFor(spi, BUDGET);
+    const { outs, seconds } = runChainsTimed(p, choice.sampler, choice.starts ?? starts, warmup, draws);
     const r = summarise(p, 'auto', outs, draws, warmup, seconds + pilotSeconds);
     r.chosen = choice.sampler;
     r.note = `pilots ${pilotSeconds.toFixed(2)} s; ${choice.reason}`;
@@ -233,7 +246,7 @@ docs/engine.md §9. Compare rows from the same machine.
 export async function run() {
   const date = new Date().toISOString().slice(0, 16).replace('T', ' ');
   const problems: ProblemResult[] = [];
-  for (const id of Object.keys(PROBLEMS)) problems.push(await benchProblem(id));
+  for (const id of Object.keys(PROBLEMS)) if (!ONLY_PROBLEMS || ONLY_PROBLEMS.includes(id)) problems.push(await benchProblem(id));
   const md = path.join(here, 'results', 'samplers.md');
   if (!existsSync(md)) writeFileSync(md, MD_HEAD);
   appendFileSync(md, markdown(problems, date));

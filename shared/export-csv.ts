@@ -13,12 +13,13 @@ export function drawsCsvHeader(names: readonly string[]): string {
 
 /**
  * Rows of one chain: `unknowns` is draws × dimU row-major, `derived` draws × dimD row-major.
- * Numbers are written in the shortest form that reads back to the same double.
+ * Numbers are written in the shortest form that reads back to the same double. `firstIteration`
+ * numbers the first row (a piece of a chain written in bounded chunks starts past 1).
  */
-export function* drawsCsvRows(chain: number, unknowns: Float64Array, dimU: number, derived: Float64Array, dimD: number): Generator<string> {
+export function* drawsCsvRows(chain: number, unknowns: Float64Array, dimU: number, derived: Float64Array, dimD: number, firstIteration = 1): Generator<string> {
   const n = dimU > 0 ? unknowns.length / dimU : dimD > 0 ? derived.length / dimD : 0;
   for (let t = 0; t < n; t++) {
-    const parts: string[] = [String(chain), String(t + 1)];
+    const parts: string[] = [String(chain), String(t + firstIteration)];
     for (let k = 0; k < dimU; k++) parts.push(csvField(unknowns[t * dimU + k]));
     for (let k = 0; k < dimD; k++) parts.push(csvField(derived[t * dimD + k]));
     yield parts.join(',');

@@ -3,6 +3,7 @@
  * zod schemas so the server and the client validate with the same objects.
  */
 import { z } from 'zod';
+import { CHECK_LIMITS, checkStatSchema, runChecksSchema } from './checks';
 
 /** Sampling engines a chain can run with (docs/engine.md §9). */
 export const ENGINES = [
@@ -42,6 +43,15 @@ export const fitSettingsSchema = z
     draws: z.number().int().min(FIT_LIMITS.draws.min).max(FIT_LIMITS.draws.max).default(1000),
     seed: z.number().int().min(0).max(2 ** 31 - 1).default(20261201),
     sampler: z.enum(SAMPLERS).default('auto'),
+    /**
+     * Before the data: fit with the likelihood terms left out (priors, constraints and derive lines
+     * only); the checks are then prior predictive checks. Absent = false.
+     */
+    priorOnly: z.boolean().optional(),
+    /** Data sets replicated for the model checks (absent = CHECK_LIMITS.replicates.default). */
+    replicates: z.number().int().min(CHECK_LIMITS.replicates.min).max(CHECK_LIMITS.replicates.max).optional(),
+    /** The user's own column statistic for the checks (checkStatSchema), beside the built-in ones. */
+    checkStat: checkStatSchema.optional(),
   })
   .strict();
 export type FitSettings = z.infer<typeof fitSettingsSchema>;
@@ -108,6 +118,12 @@ export const fitSummarySchema = z.object({
   seconds: z.number(),
   /** Maximum a posteriori point, when computed. */
   mode: z.record(z.string(), z.number()).optional(),
+  /**
+   * Model checks computed after the chains (predictive checks from the model's replicate lines,
+   * leave-one-out). Absent in summaries stored before the checks existed and in the engine's own
+   * summary (the run worker adds them).
+   */
+  checks: runChecksSchema.optional(),
 });
 export type FitSummary = z.infer<typeof fitSummarySchema>;
 

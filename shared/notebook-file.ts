@@ -14,14 +14,18 @@
  *       { "ref": "b2", "role": "data",    "folded": false, "text": "", "table_ref": "t1" },
  *       { "ref": "b3", "role": "model",   "folded": false, "text": "table plots\n…" },
  *       { "ref": "b4", "role": "fit",     "folded": false, "text": "", "model_ref": "b3", "settings": { … } },
- *       { "ref": "b5", "role": "compare", "folded": false, "text": "", "model_refs": ["b3"] }
+ *       { "ref": "b5", "role": "compare", "folded": false, "text": "", "model_refs": ["b3"],
+ *         "tests": [{ "model_ref": "b3", "lines": [6] }], "reference": { "model_ref": "b3", "without_lines": [6] },
+ *         "prior_odds": [], "replicates": 4, "seed": 20261201 }
  *     ],
  *     "tables": [ { "ref": "t1", "name": "plots", "csv": "water,set\n…" } ]
  *   }
  *
  * Blocks are the notebook's cells in order; `role` is the cell's kind and `text` its source. Refs
  * are local to the file (letters, digits, _ and -); `table_ref`, `model_ref` and `model_refs`
- * point at them and are re-pointed at new ids on import. Tables travel as CSV text and are parsed
+ * point at them and are re-pointed at new ids on import. A compare block's `tests` (constraint
+ * lines tested per model), `reference`, `prior_odds`, `replicates` and `seed` may be absent (files
+ * written before they existed): they default to none, the first model, equal odds, 4 and 20261201. Tables travel as CSV text and are parsed
  * again on import, exactly like an upload. Runs are not part of the file: fits are re-run from their
  * settings (seed included, so the same draws come back).
  */
@@ -37,6 +41,7 @@ import {
   type NbCellKind,
 } from './api/notebook';
 import { fitSettingsSchema, type FitSettings } from './fit';
+import { COMPARE_DEFAULTS, compareContentSchema } from './api/compare';
 
 export interface ExportCell {
   id: string;
@@ -75,7 +80,28 @@ export function remapContent(
     }
     case 'compare': {
       const ids = Array.isArray(c.modelCellIds) ? c.modelCellIds : [];
-      return { modelCellIds: ids.map((x) => (typeof x === 'string' ? cellRef(x) : undefined)).filter((x): x is string => !!x) };
+      const ref = (x: unknown) => (typeof x === 'string' ? cellRef(x) : undefined);
+      const key = (k: unknown) => {
+        const o = (k ?? {}) as { modelCellId?: unknown; without?: unknown };
+        const id = ref(o.modelCellId);
+        return id ? { modelCellId: id, without: Array.isArray(o.without) ? (o.without as number[]) : [] } : null;
+      };
+      const hyps = (Array.isArray(c.hypotheses) ? c.hypotheses : []) as { modelCellId?: unknown; lines?: unknown }[];
+      const odds = (Array.isArray(c.priorOdds) ? c.priorOdds : []) as { key?: unknown; odds?: unknown }[];
+      return {
+        modelCellIds: ids.map(ref).filter((x): x is string => !!x),
+        hypotheses: hyps.flatMap((h) => {
+          const id = ref(h.modelCellId);
+          return id && Array.isArray(h.lines) ? [{ modelCellId: id, lines: h.lines as number[] }] : [];
+        }),
+        reference: key(c.reference),
+        priorOdds: odds.flatMap((o) => {
+          const k = key(o.key);
+          return k && typeof o.odds === 'number' ? [{ key: k, odds: o.odds }] : [];
+        }),
+        replicates: (c.replicates as number | undefined) ?? COMPARE_DEFAULTS.replicates,
+        seed: (c.seed as number | undefined) ?? COMPARE_DEFAULTS.seed,
+      };
     }
     default:
       return null;
@@ -88,13 +114,25 @@ export function remapContent(
 
 const fileRef = z.string().min(1).max(64).regex(/^[A-Za-z0-9_-]+$/, 'Refs use letters, digits, _ and -');
 const folded = z.boolean().default(false);
+const lineNo = z.number().int().min(1).max(100_000);
 
 export const notebookBlockSchema = z.discriminatedUnion('role', [
   z.strictObject({ ref: fileRef, role: z.literal('notes'), folded, text: cellSourceSchema }),
   z.strictObject({ ref: fileRef, role: z.literal('data'), folded, text: cellSourceSchema.default(''), table_ref: fileRef.nullable() }),
   z.strictObject({ ref: fileRef, role: z.literal('model'), folded, text: cellSourceSchema }),
   z.strictObject({ ref: fileRef, role: z.literal('fit'), folded, text: cellSourceSchema.default(''), model_ref: fileRef.nullable(), settings: fitSettingsSchema }),
-  z.strictObject({ ref: fileRef, role: z.literal('compare'), folded, text: cellSourceSchema.default(''), model_refs: z.array(fileRef).max(8, 'At most 8 models') }),
+  z.strictObject({
+    ref: fileRef,
+    role: z.literal('compare'),
+    folded,
+    text: cellSourceSchema.default(''),
+    model_refs: z.array(fileRef).max(8, 'At most 8 models'),
+    tests: z.array(z.strictObject({ model_ref: fileRef, lines: z.array(lineNo).min(1).max(20) })).max(8).default([]),
+    reference: z.strictObject({ model_ref: fileRef, without_lines: z.array(lineNo).max(20).default([]) }).nullable().default(null),
+    prior_odds: z.array(z.strictObject({ model_ref: fileRef, without_lines: z.array(lineNo).max(20).default([]), odds: z.number().positive().max(1e12) })).max(64).default([]),
+    replicates: z.number().int().min(2).max(16).default(COMPARE_DEFAULTS.replicates),
+    seed: z.number().int().min(0).max(2_147_483_647).default(COMPARE_DEFAULTS.seed),
+  }),
 ]);
 export type NotebookBlock = z.infer<typeof notebookBlockSchema>;
 
@@ -134,7 +172,12 @@ export const notebookFileV2Schema = z
       if (b.role === 'data' && b.table_ref !== null && !tableRefs.has(b.table_ref))
         ctx.addIssue({ code: 'custom', path: ['blocks', i, 'table_ref'], message: `No table with ref "${b.table_ref}"` });
       if (b.role === 'fit' && b.model_ref !== null) modelRef(b.model_ref, ['blocks', i, 'model_ref']);
-      if (b.role === 'compare') b.model_refs.forEach((r, j) => modelRef(r, ['blocks', i, 'model_refs', j]));
+      if (b.role === 'compare') {
+        b.model_refs.forEach((r, j) => modelRef(r, ['blocks', i, 'model_refs', j]));
+        b.tests.forEach((t, j) => modelRef(t.model_ref, ['blocks', i, 'tests', j, 'model_ref']));
+        if (b.reference) modelRef(b.reference.model_ref, ['blocks', i, 'reference', 'model_ref']);
+        b.prior_odds.forEach((o, j) => modelRef(o.model_ref, ['blocks', i, 'prior_odds', j, 'model_ref']));
+      }
     });
   });
 export type NotebookFileV2 = z.infer<typeof notebookFileV2Schema>;
@@ -160,8 +203,20 @@ export function buildNotebookFile(
         return { ...head, role: 'data', table_ref: (content?.datasetId as string | null) ?? null };
       case 'fit':
         return { ...head, role: 'fit', model_ref: (content?.modelCellId as string | null) ?? null, settings: content?.settings as FitSettings };
-      case 'compare':
-        return { ...head, role: 'compare', model_refs: (content?.modelCellIds as string[] | undefined) ?? [] };
+      case 'compare': {
+        const cc = compareContentSchema.safeParse(content ?? {});
+        const k = cc.success ? cc.data : compareContentSchema.parse({ modelCellIds: [] });
+        return {
+          ...head,
+          role: 'compare',
+          model_refs: k.modelCellIds,
+          tests: k.hypotheses.map((h) => ({ model_ref: h.modelCellId, lines: h.lines })),
+          reference: k.reference ? { model_ref: k.reference.modelCellId, without_lines: k.reference.without } : null,
+          prior_odds: k.priorOdds.map((o) => ({ model_ref: o.key.modelCellId, without_lines: o.key.without, odds: o.odds })),
+          replicates: k.replicates,
+          seed: k.seed,
+        };
+      }
     }
   });
   return {
@@ -242,7 +297,14 @@ function blockContent(b: NotebookBlock): unknown {
     case 'fit':
       return { modelCellId: b.model_ref, settings: b.settings };
     case 'compare':
-      return { modelCellIds: b.model_refs };
+      return {
+        modelCellIds: b.model_refs,
+        hypotheses: b.tests.map((t) => ({ modelCellId: t.model_ref, lines: t.lines })),
+        reference: b.reference ? { modelCellId: b.reference.model_ref, without: b.reference.without_lines } : null,
+        priorOdds: b.prior_odds.map((o) => ({ key: { modelCellId: o.model_ref, without: o.without_lines }, odds: o.odds })),
+        replicates: b.replicates,
+        seed: b.seed,
+      };
     default:
       return null;
   }

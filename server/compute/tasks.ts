@@ -1,24 +1,31 @@
 /**
- * The work the compute pool runs off the main thread: parsing an uploaded or stored table, the
+ * The work the compute pool runs off the main thread: parsing an uploaded table (and encoding it as
+ * the typed columns stored beside the CSV), the
  * model check with its region test, and reading stored draws for plots and the CSV export.
  * Each task takes and returns structured-cloneable values (typed arrays travel as transfers).
  */
 import { parseCsv, type ParsedTable } from '../../shared/data';
 import { drawsCsvHeader, drawsCsvRows } from '../../shared/export-csv';
+import { encodeDrawsBody } from '../../shared/draws-binary';
 import type { CompileResponse, DatasetColumn, RegionSystem } from '../../shared/api/notebook';
 import type { DataTables, TargetSpec } from '../engine/types';
 import { planFit, runFitChain, type FitPlan } from '../engine/fit';
 import type { FitSettings } from '../../shared/fit';
-import { encodeDrawsBinary, type DrawsBinaryHeader } from '../../shared/api/draws-binary';
 import { decodeDraws, decodeFlags, encodeChain, type DrawNames, type EncodedChain } from '../runs/draws-codec';
 import type { ChainResult } from '../engine/types';
 import { checkModel, regionSystem } from '../notebook/model';
 import { columnsOf, describeCsvErrors } from '../notebook/tables';
+import { encodeTableColumns } from '../notebook/table-columns';
 import { PROJECTION_MAX_UNKNOWNS, regionProjections } from '../notebook/projections';
 import type { RegionProjection, RunDraws } from '../../shared/api/notebook';
+import { BUILTIN_CHECK_STATS, type RunChecks } from '../../shared/checks';
+import { checkProgram, dataSchemaOf } from '../../shared/lang/index';
+import { runModelChecks } from '../engine/predictive/checks';
+import { summariseChecks } from '../engine/predictive/summary';
+import type { ModelChecksInput } from '../runs/checks';
 
 export type ParseTableOutput =
-  | { ok: true; table: ParsedTable; columns: DatasetColumn[]; rows: number }
+  | { ok: true; table: ParsedTable; columns: DatasetColumn[]; rows: number; /** The table as stored typed columns (server/notebook/table-columns.ts). */ stored: Uint8Array }
   | { ok: false; message: string; field: string };
 
 export interface CheckModelInput {
@@ -46,7 +53,9 @@ export interface StoredChainInput {
 }
 export interface ThinDrawsOutput {
   thin: number;
-  chains: { chain: number; values: number[][]; divergent: number[] }[];
+  drawsPerChain: number;
+  /** The binary body of the draws response (shared/draws-binary.ts). */
+  body: Uint8Array;
 }
 
 type Task<I, O> = (input: I) => { output: O; transfer?: ArrayBuffer[] } | Promise<{ output: O; transfer?: ArrayBuffer[] }>;
@@ -58,8 +67,9 @@ const parseTable: Task<{ bytes: Uint8Array }, ParseTableOutput> = ({ bytes }) =>
   if (!result.table) {
     return { output: { ok: false, message: describeCsvErrors(result), field: result.issues.find((i) => i.severity === 'error')?.message ?? 'Not a usable CSV file' } };
   }
-  const transfer = Object.values(result.table.columns).map((c) => c.values.buffer as ArrayBuffer);
-  return { output: { ok: true, table: result.table, columns: columnsOf(result), rows: result.table.rows }, transfer };
+  const stored = encodeTableColumns(result.table);
+  const transfer = [...Object.values(result.table.columns).map((c) => c.values.buffer as ArrayBuffer), stored.buffer as ArrayBuffer];
+  return { output: { ok: true, table: result.table, columns: columnsOf(result), rows: result.table.rows, stored }, transfer };
 };
 
 const check: Task<CheckModelInput, CheckModelOutput> = ({ source, tables, region, regionNames }) => {
@@ -68,23 +78,22 @@ const check: Task<CheckModelInput, CheckModelOutput> = ({ source, tables, region
   return { output: { response: m.response, dim: m.check.dim, derivedNames: m.check.derivedNames.slice(), regionSystem: sys } };
 };
 
-/** Every `thin`-th draw of each chain, at most `max` per chain, per quantity. */
+/**
+ * Every `thin`-th draw of each chain, at most `max` per chain, encoded once as the columnar binary
+ * body the plots read (shared/draws-binary.ts: Float32 blocks per chain and quantity, then flags).
+ */
 const thinDraws: Task<{ chains: StoredChainInput[]; quantities: number; max: number }, ThinDrawsOutput> = ({ chains, quantities, max }) => {
   const n = chains[0]?.drawCount ?? 0;
   // A regular stride, so "every thin-th draw" is exact and iterations can be labelled.
   const thin = Math.max(1, Math.ceil(n / Math.max(1, max)));
   const idx: number[] = [];
   for (let t = 0; t < n; t += thin) idx.push(t);
-  const out = chains.map((c) => {
-    const draws = decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension);
-    const flags = decodeFlags(c.divergent, c.drawCount);
-    return {
-      chain: c.chain,
-      values: Array.from({ length: quantities }, (_, q) => idx.map((t) => draws[t * c.dimension + q])),
-      divergent: idx.map((t) => flags[t]),
-    };
-  });
-  return { output: { thin, chains: out } };
+  const body = encodeDrawsBody(
+    chains.map((c) => ({ rows: decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension), dimension: c.dimension, divergent: decodeFlags(c.divergent, c.drawCount) })),
+    quantities,
+    idx,
+  );
+  return { output: { thin, drawsPerChain: idx.length, body }, transfer: [body.buffer as ArrayBuffer] };
 };
 
 /**
@@ -106,47 +115,20 @@ const projections: Task<{ region: NonNullable<RunDraws['region']>; chains: Store
   return { output: regionProjections(region, ranges) };
 };
 
-/** The draws export as UTF-8 CSV: header, then every draw of every chain. */
-const drawsCsv: Task<{ names: string[]; chains: StoredChainInput[] }, Uint8Array> = ({ names, chains }) => {
-  const parts: string[] = [drawsCsvHeader(names) + '\n'];
-  for (const c of chains) {
-    const draws = decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension);
-    // Stored draws hold unknowns and derived quantities side by side in one row.
-    for (const row of drawsCsvRows(c.chain, draws, c.dimension, new Float64Array(0), 0)) parts.push(row + '\n');
-  }
+/**
+ * One bounded piece of the draws export as UTF-8 CSV: the header when `names` is given, then the
+ * rows of `drawCount` consecutive draws of one chain starting at iteration `firstIteration` (1-based).
+ * The server streams the pieces to the response one after another (server/runs/read.ts).
+ */
+const drawsCsvChunk: Task<{ names?: string[]; chain: number; firstIteration: number; draws: Uint8Array; drawCount: number; dimension: number }, Uint8Array> = (x) => {
+  const parts: string[] = x.names ? [drawsCsvHeader(x.names) + '\n'] : [];
+  const draws = decodeDraws(asBuffer(x.draws), x.drawCount, x.dimension);
+  // Stored draws hold unknowns and derived quantities side by side in one row.
+  for (const row of drawsCsvRows(x.chain, draws, x.dimension, new Float64Array(0), 0, x.firstIteration)) parts.push(row + '\n');
   const bytes = new TextEncoder().encode(parts.join(''));
   return { output: bytes, transfer: [bytes.buffer as ArrayBuffer] };
 };
 
-/** The draws for plots as the columnar binary of shared/api/draws-binary.ts, thinned like thinDraws. */
-const drawsBinary: Task<{ chains: StoredChainInput[]; max: number; header: Omit<DrawsBinaryHeader, 'chains' | 'thin'> }, Uint8Array> = ({ chains, max, header }) => {
-  const n = chains[0]?.drawCount ?? 0;
-  const thin = Math.max(1, Math.ceil(n / Math.max(1, max)));
-  const idx: number[] = [];
-  for (let t = 0; t < n; t += thin) idx.push(t);
-  const q = header.names.length;
-  const columns = chains.map((c) => {
-    const draws = decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension);
-    return Array.from({ length: q }, (_, k) => Float32Array.from(idx, (t) => draws[t * c.dimension + k]));
-  });
-  const meta = chains.map((c) => {
-    const flags = decodeFlags(c.divergent, c.drawCount);
-    return { chain: c.chain, n: idx.length, divergent: idx.flatMap((t, i) => (flags[t] ? [i] : [])) };
-  });
-  const bytes = encodeDrawsBinary({ ...header, thin, chains: meta }, columns);
-  return { output: bytes, transfer: [bytes.buffer as ArrayBuffer] };
-};
-
-/** One chain's rows of the draws export (no header), for writing the file chain by chain. */
-const drawsCsvChain: Task<{ chain: StoredChainInput }, Uint8Array> = ({ chain: c }) => {
-  const draws = decodeDraws(asBuffer(c.draws), c.drawCount, c.dimension);
-  const parts: string[] = [];
-  for (const row of drawsCsvRows(c.chain, draws, c.dimension, new Float64Array(0), 0)) parts.push(row + '\n');
-  const bytes = new TextEncoder().encode(parts.join(''));
-  return { output: bytes, transfer: [bytes.buffer as ArrayBuffer] };
-};
-
-/** A finished chain encoded for storage (its draws arrive back as a Uint8Array: see encodedChain). */
 const encode: Task<{ names: DrawNames; chain: ChainResult }, EncodedChain> = ({ names, chain }) => {
   const enc = encodeChain(names, chain);
   const own = enc.draws.byteOffset === 0 && enc.draws.byteLength === enc.draws.buffer.byteLength;
@@ -182,7 +164,21 @@ const pilotFit: Task<{ source: string; tables: DataTables; settings: FitSettings
   }
 };
 
-export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsv, drawsCsvChain, drawsBinary, encodeChain: encode, projections, pilotFit };
+/** A fit's model checks (server/runs/checks.ts): replicates, statistics, leave-one-out, in their stored form. */
+const modelChecks: Task<ModelChecksInput, RunChecks> = (x) => {
+  const check = checkProgram(x.source, dataSchemaOf(x.tables));
+  if (!check.ok) throw new Error(`the model no longer checks: ${check.messages[0]?.message ?? 'unknown problem'}`);
+  const c = runModelChecks(check, x.tables, { unknownNames: x.unknownNames, chains: x.chains }, {
+    seed: x.seed,
+    replicates: x.replicates,
+    extraStats: x.statistics.slice(BUILTIN_CHECK_STATS.length),
+    kind: x.priorOnly ? 'prior' : 'posterior',
+    looMaxCells: x.looMaxCells,
+  });
+  return { output: summariseChecks(c, x.statistics, { draws: x.draws, thin: x.thin }) };
+};
+
+export const TASKS = { parseTable, checkModel: check, thinDraws, drawsCsvChunk, encodeChain: encode, projections, modelChecks, pilotFit };
 export type TaskName = keyof typeof TASKS;
 export type TaskInput<K extends TaskName> = Parameters<(typeof TASKS)[K]>[0];
 export type TaskOutput<K extends TaskName> = Awaited<ReturnType<(typeof TASKS)[K]>>['output'];

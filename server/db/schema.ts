@@ -213,6 +213,11 @@ export const datasets = mysqlTable(
     bytes: int('bytes').notNull(),
     /** The uploaded file as received (CSV). */
     content: longblob('content').notNull(),
+    /**
+     * The table as parsed at upload, as typed columns (server/notebook/table-columns.ts), so reads
+     * never parse the CSV again. Null for tables stored before it existed: filled on first read.
+     */
+    tableColumns: longblob('table_columns'),
     createdBy: id('created_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: createdAt(),
   },

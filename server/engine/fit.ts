@@ -81,7 +81,9 @@ export async function runFit(
 
   const starts = dispersedStarts(p, settings.chains, new Rng(settings.seed, STARTS_STREAM));
 
-  const { sampler, samplerReason } = await choosePlan(spec, p, settings, starts, opts);
+  const plan = await choosePlan(spec, p, settings, starts, opts);
+  const { sampler, samplerReason } = plan;
+  if (plan.starts) for (let c = 0; c < starts.length; c++) starts[c] = Float64Array.from(plan.starts[c]);
 
   const jobs: ChainJob[] = starts.map((start, chain) => ({
     spec,
@@ -144,6 +146,8 @@ export async function runFit(
 export interface FitPlan {
   sampler: SamplerName;
   samplerReason: string;
+  /** Where the automatic choice starts each chain (from its pilots); absent: the fit's dispersed starts. */
+  starts?: number[][];
 }
 
 type PlanOptions = Pick<RunFitOptions, 'signal' | 'parallel' | 'maxWorkers'>;
@@ -159,6 +163,8 @@ async function choosePlan(spec: TargetSpec, p: PreparedTarget, settings: FitSett
       start: starts[0],
       fitIterations: settings.chains * (settings.warmup + settings.draws),
       evalCost: evaluationCostOf(spec, p.target.dim),
+      chains: settings.chains,
+      seed: settings.seed,
     },
     (pilots) =>
       Promise.all(
@@ -178,7 +184,7 @@ async function choosePlan(spec: TargetSpec, p: PreparedTarget, settings: FitSett
         }),
       ),
   );
-  return { sampler: choice.sampler, samplerReason: choice.reason };
+  return { sampler: choice.sampler, samplerReason: choice.reason, ...(choice.starts ? { starts: choice.starts.map((s) => Array.from(s)) } : {}) };
 }
 
 async function preparedWithStarts(spec: TargetSpec, settings: FitSettings) {
@@ -211,7 +217,7 @@ export async function runFitChain(
   if (opts.signal?.aborted) throw new FitCancelledError();
   if (!Number.isInteger(chain) || chain < 0 || chain >= settings.chains) throw new Error(`Chain ${chain + 1} is not a chain of this fit.`);
   const { p, starts } = await preparedWithStarts(spec, settings);
-  const job: ChainJob = { spec, sampler: plan.sampler, start: Array.from(starts[chain]), warmup: settings.warmup, draws: settings.draws, seed: settings.seed, chain };
+  const job: ChainJob = { spec, sampler: plan.sampler, start: plan.starts?.[chain] ?? Array.from(starts[chain]), warmup: settings.warmup, draws: settings.draws, seed: settings.seed, chain };
   const progress = makeProgressReporter(settings, opts.onProgress);
   const finished = new Map<number, ChainResult>();
   const [out] = opts.parallel === false ? await runInProcess(p, [job], progress, opts.signal, finished) : await runOnWorkers([job], progress, opts.signal, 1, finished);

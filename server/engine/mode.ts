@@ -9,12 +9,21 @@ import type { PreparedTarget } from './geometry';
 import { assertFiniteStart } from './geometry';
 import { Cholesky } from './linalg/cholesky';
 
-export function findMode(p: PreparedTarget): {
+export function findMode(
+  p: PreparedTarget,
+  opts: { lastMu?: number; maxIterations?: number; hessianEvery?: number } = {},
+): {
   theta: Float64Array;
+  /** The same point in the reduced coordinates. */
+  z: Float64Array;
+  /** Cholesky factor of the last Newton step's matrix (−∇²ℓ plus the barrier's Hessian, damped if needed). */
+  factor: Cholesky;
   logDensity: number;
   iterations: number;
   converged: boolean;
 } {
+  const maxIterations = opts.maxIterations ?? 100;
+  const hessianEvery = opts.hessianEvery ?? 1;
   const { n, m, rows, b } = p;
   const z = Float64Array.from(p.centre);
   const g = new Float64Array(n);
@@ -54,7 +63,7 @@ export function findMode(p: PreparedTarget): {
   let converged = false;
   for (let stage = 0; stage < 40; stage++) {
     let stageConverged = false;
-    for (let it = 0; it < 100; it++) {
+    for (let it = 0; it < maxIterations; it++) {
       iterations++;
       const fz = f(z, mu, g);
       // gradient of f
@@ -66,7 +75,7 @@ export function findMode(p: PreparedTarget): {
       for (let i = 0; i < m; i++)
         for (let q = rows.ptr[i]; q < rows.ptr[i + 1]; q++)
           colMax[rows.idx[q]] = Math.min(colMax[rows.idx[q]], (0.25 * s[i]) / Math.abs(rows.val[q]));
-      for (let j = 0; j < n; j++) {
+      for (let j = 0; j < n && it % hessianEvery === 0; j++) {
         const h = Math.min(1e-5 * Math.max(1, Math.abs(z[j])), colMax[j]);
         zt.set(z);
         zt[j] = z[j] + h;
@@ -75,7 +84,7 @@ export function findMode(p: PreparedTarget): {
         p.logDensity(zt, g2);
         for (let q = 0; q < n; q++) H[q * n + j] = -(g1[q] - g2[q]) / (2 * h);
       }
-      for (let i = 0; i < n; i++)
+      for (let i = 0; i < n && it % hessianEvery === 0; i++)
         for (let j = 0; j < i; j++) {
           const a = 0.5 * (H[i * n + j] + H[j * n + i]);
           H[i * n + j] = a;
@@ -119,7 +128,7 @@ export function findMode(p: PreparedTarget): {
       }
     }
     l = p.logDensity(z, g);
-    if (m === 0 || mu * m <= 1e-11 * (1 + Math.abs(l))) {
+    if (m === 0 || mu * m <= 1e-11 * (1 + Math.abs(l)) || (opts.lastMu !== undefined && mu <= opts.lastMu)) {
       converged = stageConverged;
       break;
     }
@@ -127,5 +136,27 @@ export function findMode(p: PreparedTarget): {
   }
   const theta = new Float64Array(p.target.dim);
   p.toTheta(z, theta);
-  return { theta, logDensity: l, iterations, converged };
+  return { theta, z, factor: chol, logDensity: l, iterations, converged };
+}
+
+/**
+ * A point in the bulk of the posterior: the first barrier stage only (μ = 1), i.e. the mode of the
+ * density times Πᵢ sᵢ. Where the density presses on a face with rate λ (log-density ≈ −λ·slack
+ * near it) this stage's slack is 1/λ, the mean slack under the density itself, so the point sits
+ * in the mass rather than on the face the exact mode lies on; a few damped Newton steps suffice
+ * (maxIterations; a point near the stage's optimum is enough). Used to start the automatic choice's pilot chains.
+ */
+export function bulkPoint(p: PreparedTarget, maxIterations = 10): Float64Array {
+  return bulkApproximation(p, maxIterations).z;
+}
+
+/**
+ * The bulk point and the Cholesky factor of the curvature there (−∇²ℓ plus the barrier's Hessian):
+ * a Gaussian approximation N(z, (LLᵀ)⁻¹) of the posterior that stays inside the region near faces.
+ * The likelihood's Hessian (2n evaluations) is refreshed every third Newton step; the barrier's
+ * part is exact.
+ */
+export function bulkApproximation(p: PreparedTarget, maxIterations = 10): { z: Float64Array; factor: Cholesky } {
+  const r = findMode(p, { lastMu: 1, maxIterations, hessianEvery: 3 });
+  return { z: r.z, factor: r.factor };
 }

@@ -1,6 +1,6 @@
 /**
- * Datasets: parse an upload with the shared CSV reader (on a compute thread), map rows, build
- * previews and data tables.
+ * Datasets: parse an upload with the shared CSV reader (on a compute thread) and store its typed
+ * columns beside the CSV; read tables back from those columns; map rows, page previews, build data tables.
  */
 import { and, eq, getTableColumns, inArray } from 'drizzle-orm';
 import { DATASET_PREVIEW_ROWS, type Dataset, type DatasetColumn, type PreviewValue, datasetIdOf } from '../../shared/api/notebook';
@@ -8,6 +8,7 @@ import { parseCsv, type CsvResult, type ParsedTable } from '../../shared/data';
 import { ComputeBusyError, ComputeTimeoutError, computePool } from '../compute/pool';
 import { columnsOf, describeCsvErrors, previewOf } from './tables';
 import { TableCache, tableCache } from './table-cache';
+import { decodeTableColumns } from './table-columns';
 import type { DataTables } from '../engine/types';
 import { cells, datasets } from '../db/schema';
 import type { Exec } from '../lib/audit';
@@ -16,7 +17,7 @@ import { DomainError } from '../lib/errors';
 
 export type DatasetRow = typeof datasets.$inferSelect;
 
-export const toDataset = (d: Omit<DatasetRow, 'content'>): Dataset => ({
+export const toDataset = (d: Omit<DatasetRow, 'content' | 'tableColumns'>): Dataset => ({
   id: d.id,
   workspaceId: d.workspaceId,
   name: d.name,
@@ -50,8 +51,14 @@ export function computeFailure(e: unknown, what: string): unknown {
   return e;
 }
 
-/** Parse CSV bytes on a compute thread; throws a 400 naming rows and columns when unusable. */
-export async function parseUpload(bytes: Buffer): Promise<{ table: ParsedTable; columns: DatasetColumn[]; rows: number }> {
+/** How often stored tables were parsed from CSV or read from their typed columns (tests read it). */
+export const tableReads = { parses: 0, decodes: 0 };
+
+/**
+ * Parse CSV bytes on a compute thread, which also encodes the typed columns to store beside them
+ * (`stored`); throws a 400 naming rows and columns when unusable.
+ */
+export async function parseUpload(bytes: Buffer): Promise<{ table: ParsedTable; columns: DatasetColumn[]; rows: number; stored: Buffer }> {
   const copy = new Uint8Array(bytes);
   const out = await computePool()
     .run('parseTable', { bytes: copy }, { transfer: [copy.buffer] })
@@ -59,29 +66,36 @@ export async function parseUpload(bytes: Buffer): Promise<{ table: ParsedTable; 
       throw computeFailure(e, 'Reading the file');
     });
   if (!out.ok) throw new DomainError('invalid', out.message, { file: out.field });
-  return out;
+  return { table: out.table, columns: out.columns, rows: out.rows, stored: Buffer.from(out.stored.buffer, out.stored.byteOffset, out.stored.byteLength) };
 }
 
-/** A dataset row without its content (the bytes are read only when the table must be parsed). */
-export type DatasetMeta = Omit<DatasetRow, 'content'>;
-const { content: _content, ...metaColumns } = getTableColumns(datasets);
+/** A dataset row without its content or typed columns (read only when the table is needed). */
+export type DatasetMeta = Omit<DatasetRow, 'content' | 'tableColumns'>;
+const { content: _content, tableColumns: _tableColumns, ...metaColumns } = getTableColumns(datasets);
 /** Columns to select for DatasetMeta. */
 export const datasetMetaColumns = metaColumns;
 
 /**
- * A stored dataset, parsed: from the table cache (by id and version), else parsed once on a
- * compute thread — reading the content first when the row came without it.
+ * A stored dataset as a table: from the table cache (by id and version), else from its stored typed
+ * columns (a copy of bytes, no parsing). A table stored before typed columns existed is parsed once
+ * on a compute thread and its typed columns are written back, so that is the last time.
  */
-export async function parsedTable(exec: Exec, d: DatasetMeta & { content?: Buffer }): Promise<ParsedTable> {
+export async function parsedTable(exec: Exec, d: DatasetMeta): Promise<ParsedTable> {
   return tableCache.getOrLoad(TableCache.key(d), async () => {
-    let content = d.content;
-    if (!content) {
-      const [row] = await exec.select({ content: datasets.content }).from(datasets).where(and(eq(datasets.workspaceId, d.workspaceId), eq(datasets.id, d.id))).limit(1);
-      if (!row) throw new DomainError('not_found', `The table "${d.name}" no longer exists`);
-      content = row.content;
+    const where = and(eq(datasets.workspaceId, d.workspaceId), eq(datasets.id, d.id));
+    const [stored] = await exec.select({ tableColumns: datasets.tableColumns }).from(datasets).where(where).limit(1);
+    if (!stored) throw new DomainError('not_found', `The table "${d.name}" no longer exists`);
+    if (stored.tableColumns) {
+      tableReads.decodes++;
+      return decodeTableColumns(stored.tableColumns);
     }
+    const [row] = await exec.select({ content: datasets.content }).from(datasets).where(where).limit(1);
+    if (!row) throw new DomainError('not_found', `The table "${d.name}" no longer exists`);
     try {
-      return (await parseUpload(content)).table;
+      tableReads.parses++;
+      const parsed = await parseUpload(row.content);
+      await exec.update(datasets).set({ tableColumns: parsed.stored }).where(where);
+      return parsed.table;
     } catch (e) {
       if (e instanceof DomainError && e.kind === 'invalid') throw new DomainError('invalid', `The stored table "${d.name}" can no longer be read`);
       throw e;
@@ -94,9 +108,9 @@ export function rememberTable(d: Pick<DatasetRow, 'id' | 'createdAt'>, table: Pa
   tableCache.set(TableCache.key(d), table);
 }
 
-/** The first rows of a stored dataset for the preview table. */
-export async function datasetPreview(exec: Exec, d: DatasetMeta, limit = DATASET_PREVIEW_ROWS): Promise<PreviewValue[][]> {
-  return previewOf(await parsedTable(exec, d), d.columns, limit);
+/** Rows `offset` … `offset + limit − 1` of a stored dataset for the preview table. */
+export async function datasetPreview(exec: Exec, d: DatasetMeta, limit = DATASET_PREVIEW_ROWS, offset = 0): Promise<PreviewValue[][]> {
+  return previewOf(await parsedTable(exec, d), d.columns, limit, offset);
 }
 
 export async function findDataset(exec: Exec, workspaceId: string, datasetId: string): Promise<DatasetMeta> {
@@ -127,7 +141,7 @@ export async function notebookTables(exec: Exec, workspaceId: string, notebookId
 }
 
 /** Stored datasets as the engine's data tables, each under the name given (cached, see parsedTable). */
-export async function loadDataTables(exec: Exec, rows: Iterable<DatasetMeta & { content?: Buffer }>): Promise<DataTables> {
+export async function loadDataTables(exec: Exec, rows: Iterable<DatasetMeta>): Promise<DataTables> {
   const list = [...rows];
   const tables = await Promise.all(list.map((d) => parsedTable(exec, d)));
   return Object.fromEntries(list.map((d, i) => [d.name, tables[i]]));

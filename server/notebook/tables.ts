@@ -25,12 +25,12 @@ export function columnsOf(result: CsvResult): DatasetColumn[] {
   }));
 }
 
-/** The first rows of a parsed table for the preview (numbers, labels, null when missing). */
-export function previewOf(table: ParsedTable, columns: readonly DatasetColumn[], limit = DATASET_PREVIEW_ROWS): PreviewValue[][] {
+/** Rows `offset` … `offset + limit − 1` of a parsed table for the preview (numbers, labels, null when missing). */
+export function previewOf(table: ParsedTable, columns: readonly DatasetColumn[], limit = DATASET_PREVIEW_ROWS, offset = 0): PreviewValue[][] {
   const names = columns.map((c) => c.name);
-  const n = Math.min(limit, table.rows);
+  const n = Math.min(offset + limit, table.rows);
   const out: PreviewValue[][] = [];
-  for (let i = 0; i < n; i++) {
+  for (let i = Math.max(0, offset); i < n; i++) {
     out.push(
       names.map((name) => {
         const col = table.columns[name];

@@ -76,7 +76,7 @@ export function notebookFileRouter(ctx: AppContext): Router {
         const bytes = Buffer.from(t.d.csv, 'utf8');
         await tx.insert(datasets).values({
           id: dataIds.get(t.d.key)!, workspaceId: ws.id, notebookId, cellId: null, name: t.d.name, columns: t.columns,
-          rowCount: t.rows, bytes: bytes.length, content: bytes, createdBy: req.user!.id, createdAt: now,
+          rowCount: t.rows, bytes: bytes.length, content: bytes, tableColumns: t.stored, createdBy: req.user!.id, createdAt: now,
         });
       }
       let position = 0;

@@ -12,6 +12,7 @@ import type { Db } from '../db/client';
 import { runs, users } from '../db/schema';
 import type { Clock } from '../lib/clock';
 import { withSummaries } from './read';
+import { isCompareSpec } from './compare-job';
 
 export interface RunEventsOptions {
   db: Db;
@@ -30,7 +31,8 @@ export async function liveNotebookRuns(db: Db, workspaceId: string, notebookId: 
     .where(and(eq(runs.workspaceId, workspaceId), eq(runs.notebookId, notebookId), or(inArray(runs.status, ['queued', 'running']), gte(runs.finishedAt, since))))
     .orderBy(desc(runs.createdAt), desc(runs.id))
     .limit(200);
-  return withSummaries(db, rows, now);
+  // Fits only: a compare cell follows its comparisons through its own list (compare-job.ts).
+  return withSummaries(db, rows.filter((x) => !isCompareSpec(x.r.spec)), now);
 }
 
 interface Subscriber {

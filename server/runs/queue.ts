@@ -158,11 +158,15 @@ export async function cancelRun(db: Db, workspaceId: string, runId: string, now:
   });
 }
 
-/** Runs queued or running in a workspace (for the per-workspace limit). */
-export async function activeRunCount(db: Pick<Db, 'select'>, workspaceId: string): Promise<number> {
+/**
+ * Runs queued or running in a workspace (for the per-workspace limit): fits, or with
+ * `kind: 'compare'` the comparisons (server/runs/compare-job.ts), each kind with a limit of its own.
+ */
+export async function activeRunCount(db: Pick<Db, 'select'>, workspaceId: string, kind: 'fit' | 'compare' = 'fit'): Promise<number> {
+  const isCompare = sql`COALESCE(JSON_VALUE(${runs.spec}, '$.kind'), '') = 'compare'`;
   const [row] = await db
     .select({ n: sql<number>`count(*)` })
     .from(runs)
-    .where(and(eq(runs.workspaceId, workspaceId), inArray(runs.status, [...ACTIVE_RUN_STATUSES])));
+    .where(and(eq(runs.workspaceId, workspaceId), inArray(runs.status, [...ACTIVE_RUN_STATUSES]), kind === 'compare' ? isCompare : sql`NOT ${isCompare}`));
   return Number(row?.n ?? 0);
 }

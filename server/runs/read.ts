@@ -10,9 +10,10 @@ import { queuePositions, type RunRow } from './queue';
 import { computeFailure, datasetMetaColumns, loadDataTables } from '../notebook/datasets';
 import { checkModelOffThread } from '../notebook/checks';
 import { computePool } from '../compute/pool';
-import { drawsCsvHeader } from '../../shared/export-csv';
 import { cachedRegionProjections } from '../notebook/projections';
 import type { StoredChainInput } from '../compute/tasks';
+import { encodeDrawsHead } from '../../shared/draws-binary';
+import { isCompareSpec } from './compare-job';
 
 /** Is the worker holding this running run silent (lease expired or heartbeat stale)? */
 export function workerLost(r: { status: string; leaseExpiresAt: Date | null; heartbeatAt: Date | null }, now: Date): boolean {
@@ -96,7 +97,8 @@ export async function findRun(exec: Exec, workspaceId: string, runId: string, no
     .leftJoin(users, eq(users.id, runs.requestedBy))
     .where(and(eq(runs.workspaceId, workspaceId), eq(runs.id, runId)))
     .limit(1);
-  if (!x) throw new DomainError('not_found', 'Run not found');
+  // Compare jobs share the table but not the shape (compare-job.ts reads them).
+  if (!x || isCompareSpec(x.r.spec)) throw new DomainError('not_found', 'Run not found');
   const [run] = await withSummaries(exec, [x], now);
   return { ...run, row: x.r };
 }
@@ -109,7 +111,7 @@ export async function cellRuns(exec: Exec, workspaceId: string, notebookId: stri
     .where(and(eq(runs.workspaceId, workspaceId), eq(runs.notebookId, notebookId), eq(runs.cellId, cellId)))
     .orderBy(desc(runs.createdAt), desc(runs.id))
     .limit(limit);
-  return withSummaries(exec, rows, now);
+  return withSummaries(exec, rows.filter((x) => !isCompareSpec(x.r.spec)), now);
 }
 
 /** Stored chains as the compute tasks take them (raw bytes; decoding happens on the thread). */
@@ -135,8 +137,47 @@ async function storedChainInputs(exec: Exec, workspaceId: string, runId: string)
   };
 }
 
-/** Draws per chain and quantity, thinned to at most `max` per chain, with the model's region. */
-export async function runDraws(exec: Exec, run: RunRow, max: number): Promise<RunDraws> {
+/** A draws response in its binary form (shared/draws-binary.ts): the head, then the body. */
+export interface DrawsBytes {
+  head: Uint8Array;
+  body: Uint8Array;
+}
+
+/**
+ * Encoded draws responses by run, finish time and thinning: a finished run's draws never change,
+ * so the thinning and encoding happen once per (run, max). Bounded by bytes, least recently used out.
+ */
+const DRAWS_CACHE = new Map<string, DrawsBytes>();
+const DRAWS_CACHE_BYTES = 64 * 1024 * 1024;
+let drawsCacheBytes = 0;
+const sizeOf = (x: DrawsBytes) => x.head.byteLength + x.body.byteLength;
+
+function cacheDraws(key: string, value: DrawsBytes): void {
+  if (sizeOf(value) > DRAWS_CACHE_BYTES / 4) return;
+  DRAWS_CACHE.set(key, value);
+  drawsCacheBytes += sizeOf(value);
+  while (drawsCacheBytes > DRAWS_CACHE_BYTES) {
+    const [k, v] = DRAWS_CACHE.entries().next().value!;
+    DRAWS_CACHE.delete(k);
+    drawsCacheBytes -= sizeOf(v);
+  }
+}
+
+/** How many draws responses were encoded (not served from the cache); tests read it. */
+export const drawsEncodings = { count: 0 };
+
+/**
+ * Draws per chain and quantity, thinned to at most `max` per chain on the compute pool and encoded
+ * there as Float32 columns, with the model's region in the JSON header.
+ */
+export async function runDraws(exec: Exec, run: RunRow, max: number): Promise<DrawsBytes> {
+  const key = `${run.id}:${run.finishedAt?.getTime() ?? ''}:${max}`;
+  const hit = DRAWS_CACHE.get(key);
+  if (hit) {
+    DRAWS_CACHE.delete(key);
+    DRAWS_CACHE.set(key, hit);
+    return hit;
+  }
   const loaded = await storedChainInputs(exec, run.workspaceId, run.id);
   const [thinned, region] = await Promise.all([
     computePool()
@@ -155,72 +196,76 @@ export async function runDraws(exec: Exec, run: RunRow, max: number): Promise<Ru
           }),
       )
     : [];
-  return { names: loaded.names, unknownCount: loaded.unknownNames.length, thin: thinned.thin, chains: thinned.chains, region, projections };
+  const head = encodeDrawsHead({
+    dtype: 'float32',
+    names: loaded.names,
+    unknownCount: loaded.unknownNames.length,
+    thin: thinned.thin,
+    drawsPerChain: thinned.drawsPerChain,
+    chains: loaded.chains.map((c) => c.chain),
+    region,
+    projections,
+  });
+  drawsEncodings.count++;
+  const out = { head, body: thinned.body };
+  cacheDraws(key, out);
+  return out;
+}
+
+/** Binary draws of one chain per CSV piece: about this many bytes of stored draws (≈ 3× as CSV). */
+const CSV_CHUNK_BYTES = 256 * 1024;
+
+/** Where the CSV export goes: the response (or any sink with the same few methods). */
+export interface CsvSink {
+  /** Called once, before the first bytes: the export can still fail with a clean error until then. */
+  begin(): void;
+  /** Write a piece; resolves when the sink can take more (backpressure). */
+  write(bytes: Uint8Array): Promise<void>;
+  end(): void;
 }
 
 /**
- * The draws export streamed: the header, then each chain's rows as a compute thread writes them
- * (one stored chain is read and held at a time, so the whole file is never in memory). Throws
- * before anything is written when the run has no draws; `write` resolves when the bytes are sent.
+ * The draws export (header and every draw of every chain) as UTF-8 CSV, formatted on the compute
+ * pool in bounded pieces (a few thousand rows each) and written to `sink` one after another, so the
+ * main thread never holds the whole file. The next piece is formatted while the last is written.
  */
-export async function streamRunDrawsCsv(
-  exec: Exec,
-  workspaceId: string,
-  runId: string,
-  start: () => void,
-  write: (bytes: Uint8Array) => Promise<void>,
-): Promise<void> {
-  const index = await exec
-    .select({ id: runChains.id, stats: runChains.stats })
-    .from(runChains)
-    .where(and(eq(runChains.workspaceId, workspaceId), eq(runChains.runId, runId)))
-    .orderBy(asc(runChains.chainIndex));
-  if (index.length === 0) throw new DomainError('not_found', 'This run has no stored draws');
-  const stats = index[0].stats as ChainStats;
-  start();
-  await write(new TextEncoder().encode(drawsCsvHeader([...stats.unknownNames, ...stats.derivedNames]) + '\n'));
-  for (const { id } of index) {
-    const [r] = await exec.select().from(runChains).where(and(eq(runChains.workspaceId, workspaceId), eq(runChains.id, id)));
-    if (!r) continue;
-    const input = {
-      chain: r.chainIndex + 1,
-      draws: new Uint8Array(r.draws.buffer, r.draws.byteOffset, r.draws.byteLength),
-      drawCount: r.drawCount,
-      dimension: r.dimension,
-      divergent: (r.stats as ChainStats).divergent,
-    };
-    await write(await computePool().run('drawsCsvChain', { chain: input }));
-  }
-}
-
-/** The draws for plots as columnar Float32 binary (shared/api/draws-binary.ts), built on a compute thread. */
-export async function runDrawsBinary(exec: Exec, run: RunRow, max: number): Promise<Uint8Array> {
-  const loaded = await storedChainInputs(exec, run.workspaceId, run.id);
-  const region = await runRegion(exec, run, loaded.unknownNames);
-  const projections = region
-    ? await cachedRegionProjections(run.id, () =>
-        computePool()
-          .run('projections', { region, chains: loaded.chains })
-          .catch((e: unknown) => {
-            throw computeFailure(e, 'Drawing the region');
-          }),
-      )
-    : [];
-  return computePool()
-    .run('drawsBinary', { chains: loaded.chains, max, header: { names: loaded.names, unknownCount: loaded.unknownNames.length, region, projections } })
-    .catch((e: unknown) => {
-      throw computeFailure(e, 'Reading the draws');
-    });
-}
-
-/** The draws export (header and every draw of every chain) as UTF-8 CSV, built on a compute thread. */
-export async function runDrawsCsv(exec: Exec, workspaceId: string, runId: string): Promise<Uint8Array> {
+export async function streamRunDrawsCsv(exec: Exec, workspaceId: string, runId: string, sink: CsvSink, chunkBytes = CSV_CHUNK_BYTES): Promise<void> {
   const loaded = await storedChainInputs(exec, workspaceId, runId);
-  return computePool()
-    .run('drawsCsv', { names: loaded.names, chains: loaded.chains })
-    .catch((e: unknown) => {
-      throw computeFailure(e, 'Writing the draws file');
-    });
+  const pieces: { c: StoredChainInput; t: number; count: number }[] = [];
+  for (const c of loaded.chains) {
+    const per = Math.max(1, Math.floor(chunkBytes / Math.max(1, c.dimension * 8)));
+    for (let t = 0; t < c.drawCount; t += per) pieces.push({ c, t, count: Math.min(per, c.drawCount - t) });
+  }
+  // A run whose chains kept no draw still has its header.
+  if (pieces.length === 0) pieces.push({ c: loaded.chains[0], t: 0, count: 0 });
+  const format = (i: number) => {
+    const { c, t, count } = pieces[i];
+    const rowBytes = c.dimension * 8;
+    return computePool()
+      .run('drawsCsvChunk', {
+        ...(i === 0 ? { names: loaded.names } : {}),
+        chain: c.chain,
+        firstIteration: t + 1,
+        // A copy of just these rows: the thread gets (and is handed) no more than it formats.
+        draws: c.draws.slice(t * rowBytes, (t + count) * rowBytes),
+        drawCount: count,
+        dimension: c.dimension,
+      })
+      .catch((e: unknown) => {
+        throw computeFailure(e, 'Writing the draws file');
+      });
+  };
+  let next = format(0);
+  for (let i = 0; i < pieces.length; i++) {
+    const piece = await next;
+    if (i + 1 < pieces.length) {
+      next = format(i + 1);
+      next.catch(() => {}); // awaited on the next turn; a failed write must not leave it unhandled
+    }
+    if (i === 0) sink.begin();
+    await sink.write(piece);
+  }
+  sink.end();
 }
 
 /** The constraint rows of the model a run fitted (data filled in), or null when unavailable. */

@@ -33,6 +33,8 @@ import { claimUnit, endChainUnit, failUnitRun, finishUnitRun, heartbeatUnit, sto
 import { wholeRunJobs } from './jobs';
 import { computePool } from '../compute/pool';
 import { describe, isTransientDbError, retryDb } from './retry';
+import './compare-job';
+import { computeRunChecks } from './checks';
 
 export interface WorkerOptions {
   db: Db;
@@ -244,7 +246,7 @@ export class RunWorker {
   }
 
   /** The model and data a run fits, loaded as the run's spec froze them. */
-  private async targetOf(run: RunRow): Promise<TargetSpec> {
+  private async targetOf(run: RunRow, settings: FitSettings): Promise<TargetSpec> {
     const spec = run.spec;
     if (!spec) throw new Error(`Run ${run.id} was queued without its model and data`);
     const ids = Object.values(spec.tables);
@@ -255,7 +257,8 @@ export class RunWorker {
     const missing = Object.entries(spec.tables).filter(([, id]) => !byId.has(id)).map(([name]) => name);
     if (missing.length) throw new Error(`The data of table ${missing.map((m) => `"${m}"`).join(', ')} was deleted before the fit ran.`);
     const tables = await loadDataTables(this.db, Object.entries(spec.tables).map(([name, id]) => ({ ...byId.get(id)!, name })));
-    return { kind: 'program', source: spec.source, tables };
+    // Before the data: the engine fits the program with its likelihood terms left out.
+    return { kind: 'program', source: spec.source, tables, ...(settings.priorOnly ? { priorOnly: true } : {}) };
   }
 
   /** The engine every chain of the run uses: stored by the first chain that decided it. */
@@ -279,7 +282,7 @@ export class RunWorker {
       ended = await this.leased(claim, this.wallSeconds * 1000, async (h) => {
         try {
           const settings = fitSettingsSchema.parse(run.settings);
-          const target = await this.targetOf(run);
+          const target = await this.targetOf(run, settings);
           const prepared = (await preparedFor(target)).target;
           const names: DrawNames = { unknownNames: prepared.names.slice(), derivedNames: prepared.derived?.names.slice() ?? [] };
           const plan = await this.planOf(claim, target, settings, h.signal);
@@ -335,7 +338,7 @@ export class RunWorker {
       await this.leased(claim, null, async (h) => {
         try {
           const settings = fitSettingsSchema.parse(run.settings);
-          const target = await this.targetOf(run);
+          const target = await this.targetOf(run, settings);
           const stored = await this.write(`reading the stored chains of run ${run.id}`, () => storedChains(this.db, run));
           if (stored.length === 0) {
             const ok = await this.write(`failing run ${run.id}`, () =>
@@ -347,7 +350,11 @@ export class RunWorker {
           const plan = await this.planOf(claim, target, settings, h.signal);
           // The summary is computed over the chains numbered 0..k-1; the stored rows keep their own numbers.
           const sorted = stored.sort((a, b) => a.chain - b.chain);
+          const tSummary = performance.now();
           const result = await summariseFitChains(target, settings, sorted.map((c, k) => ({ ...c, chain: k })), plan, { onWorker: this.parallel });
+          const tChecks = performance.now();
+          // Model checks on the compute pool (a failure or the time limit is reported in the checks).
+          const checks = target.kind === 'program' ? await computeRunChecks(target.source, target.tables, { unknownNames: result.unknownNames, chains: sorted }, settings) : undefined;
           const partial = sorted.length < settings.chains;
           const start = run.startedAt?.getTime() ?? this.clock.now().getTime();
           const ok = await this.write(`finishing run ${run.id}`, () =>
@@ -355,9 +362,9 @@ export class RunWorker {
               this.db,
               claim,
               this.id,
-              { summary: result.summary, chainsDone: sorted.length, total: settings.warmup + settings.draws },
+              { summary: { ...result.summary, ...(checks ? { checks } : {}) }, chainsDone: sorted.length, total: settings.warmup + settings.draws },
               this.clock.now(),
-              { summary: Math.round(performance.now() - started), total: Math.max(0, this.clock.now().getTime() - start) },
+              { summary: Math.round(tChecks - tSummary), checks: Math.round(performance.now() - tChecks), total: Math.max(0, this.clock.now().getTime() - start) },
               partial,
             ),
           );

@@ -1,8 +1,12 @@
 /**
  * The demo notebook's content, in the invented Alder Creek sediment survey: a mixing-proportions
  * model (shares of three sediment sources on a simplex) and a monotone dose–response (sediment
- * load per storm rising with rain class), each with notes, data, a model and a finished fit.
- * The fits are computed by the real engine when the demo is seeded, and stored like any run.
+ * load per storm rising with rain class), each with notes, data, a model and a finished fit; a
+ * deliberately misspecified twin of the dose–response model whose model checks fail; then a model
+ * with one mean for every class and a compare cell that tests the ordering (its Bayes factor,
+ * masses and leave-one-out differences). The fits and the comparison are computed by the real
+ * engine when the demo is seeded (the comparison by the compare job's own code), and stored like
+ * any run.
  * Idempotent: it only fills a demo notebook that has no model cell yet.
  */
 import { createHash } from 'node:crypto';
@@ -12,8 +16,12 @@ import { cells, datasets, runs } from '../db/schema';
 import type { CellContent } from '../../shared/api/notebook';
 import { newId } from '../lib/ids';
 import { readUpload } from '../notebook/datasets';
+import { encodeTableColumns } from '../notebook/table-columns';
 import { runFit } from '../engine/fit';
 import { finishRun, type RunSpec } from '../runs/queue';
+import { compareRunValues, compareSpecOf, compareThreadInput, computeOnThread, finishCompare } from '../runs/compare-job';
+import { compareContentSchema, type CompareResult } from '../../shared/api/compare';
+import { computeRunChecks } from '../runs/checks';
 import { parseCsv } from '../../shared/data';
 import type { FitSettings } from '../../shared/fit';
 
@@ -94,6 +102,18 @@ term ld_normal(load, 3, 5) + ld_halfnormal(sd, 3)
 constrain load[1] <= load[2] <= load[3] <= load[4] <= load[5]
 constrain sd >= 0.01
 derive heavy_minus_light = load[5] - load[1]
+replicate load_new = ld_normal(load_t, load[rain_class], sd)
+`;
+
+/** The same storms with the scatter fixed far too small: a deliberately wrong model whose checks fail. */
+export const DEMO_TWIN_MODEL = `# Twin: the same storms, scatter fixed at 0.25 t/km² (deliberately wrong)
+table storms
+const sd_fixed = 0.25
+unknown load[5]
+term ld_normal(load_t, load[rain_class], sd_fixed)
+term ld_normal(load, 3, 5)
+constrain load[1] <= load[2] <= load[3] <= load[4] <= load[5]
+replicate load_new = ld_normal(load_t, load[rain_class], sd_fixed)
 `;
 
 export const DEMO_MIXING_NOTES = `## Reading the shares
@@ -117,9 +137,47 @@ reporting a dip that is most likely noise.
 
 Conclusions depend on the model's assumptions (normal scatter with one spread for all classes,
 ordered means). Decisions with regulatory or safety consequences need a qualified statistician.
+
+The model's last line, \`replicate load_new = …\`, asks the fit for *checks against the data*:
+it simulates new storm loads from the fitted model, many times over, and the fit shows whether
+the real loads look like those simulated ones (their spread, extremes and class by class).
 `;
 
-const DEMO_SETTINGS: FitSettings = { chains: 4, warmup: 500, draws: 500, seed: 20261201, sampler: 'auto' };
+export const DEMO_TWIN_NOTES = `## A twin that is wrong on purpose
+
+The model below fits the same storms but pretends to know that a storm's load strays only
+**0.25 t/km²** from its class mean — as if every storm of a class carried almost the same load.
+The data say otherwise: within a class, loads differ by a tonne or more.
+
+The fit itself runs fine (its settings use the sampler on transformed coordinates, which handles
+this sharply peaked posterior well), and its class means look reasonable. The mistake shows only when the
+model is asked to reproduce the data: open its *Checks against the data*. Data simulated from
+this model are far too tidy, so the observed spread, smallest and largest loads fall outside
+what the model produces, and those statistics are marked **extreme**. Leave-one-out names the
+storms the model cannot account for. Compare with the checks of the fit above, where the spread
+is an unknown learnt from the data.
+`;
+
+export const DEMO_FLAT_MODEL = `# One mean for every rain class
+table storms
+unknown level, sd
+term ld_normal(load_t, level, sd)
+term ld_normal(level, 3, 5) + ld_halfnormal(sd, 3)
+constrain sd >= 0.01
+`;
+
+/** The ordering line of DEMO_MONOTONE_MODEL (1-based), the hypothesis the demo's compare cell tests. */
+export const DEMO_ORDER_LINE = 6;
+
+export const DEMO_COMPARE_NOTES = `## Is the ordering supported by the data?
+
+The compare cell below tests the ordering line of the dose–response model: the Bayes factor of
+the model *with* the ordering against the same model *without* it is the posterior mass of the
+ordered region divided by its prior mass. A model with one mean for every class is compared too,
+with leave-one-out predictive accuracy from its fit beside the Bayes factors.
+`;
+
+const DEMO_SETTINGS: FitSettings = { chains: 4, warmup: 500, draws: 500, seed: 20261201, sampler: 'auto', replicates: 200, checkStat: 'iqr' };
 
 export interface DemoNotebookTarget {
   userId: string;
@@ -140,12 +198,13 @@ export function notebookWriter(db: Db, t: DemoNotebookTarget, startPosition: num
     },
     async addDataset(name: string, csv: string): Promise<string> {
       const bytes = Buffer.from(csv, 'utf8');
-      const { columns, rows } = readUpload(bytes);
+      const { result, columns, rows } = readUpload(bytes);
       const id = newId();
-      await db.insert(datasets).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId: null, name, columns, rowCount: rows, bytes: bytes.length, content: bytes, createdBy: t.userId, createdAt: now });
+      const tableColumns = Buffer.from(encodeTableColumns(result.table!));
+      await db.insert(datasets).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId: null, name, columns, rowCount: rows, bytes: bytes.length, content: bytes, tableColumns, createdBy: t.userId, createdAt: now });
       return id;
     },
-    async addCell(kind: 'notes' | 'data' | 'model' | 'fit', source: string, content: CellContent): Promise<string> {
+    async addCell(kind: 'notes' | 'data' | 'model' | 'fit' | 'compare', source: string, content: CellContent): Promise<string> {
       const id = newId();
       await db.insert(cells).values({ id, workspaceId: t.workspaceId, notebookId: t.notebookId, kind, position: position++, source, content, version: 1, collapsed: false, createdBy: t.userId, updatedBy: t.userId, createdAt: now, updatedAt: now });
       return id;
@@ -155,11 +214,12 @@ export function notebookWriter(db: Db, t: DemoNotebookTarget, startPosition: num
 
 /** Fill the demo notebook (after its first notes cell) and compute both fits. */
 export async function seedDemoNotebook(db: Db, t: DemoNotebookTarget, now: Date = new Date(), settings: FitSettings = DEMO_SETTINGS): Promise<string[]> {
+  const defaultSettings = settings;
   const existing = await db.select().from(cells).where(and(eq(cells.workspaceId, t.workspaceId), eq(cells.notebookId, t.notebookId)));
   if (existing.some((c) => c.kind === 'model')) return [];
   const created: string[] = [];
   const { addDataset, addCell } = notebookWriter(db, t, existing.length, now);
-  const addFinishedFit = async (fitCellId: string, source: string, tables: Record<string, { id: string; csv: string }>) => {
+  const addFinishedFit = async (fitCellId: string, source: string, tables: Record<string, { id: string; csv: string }>, settings: FitSettings = defaultSettings) => {
     const spec: RunSpec = { source, tables: Object.fromEntries(Object.entries(tables).map(([k, v]) => [k, v.id])) };
     const parsed = Object.fromEntries(Object.entries(tables).map(([k, v]) => [k, parseCsv(v.csv).table!]));
     const runId = newId();
@@ -170,7 +230,13 @@ export async function seedDemoNotebook(db: Db, t: DemoNotebookTarget, now: Date 
     });
     const started = performance.now();
     const result = await runFit({ kind: 'program', source, tables: parsed }, settings, {});
-    await finishRun(db, { workspaceId: t.workspaceId, id: runId }, 'demo-seed', result, now, { fit: Math.round(performance.now() - started) });
+    const tFit = performance.now();
+    const checks = await computeRunChecks(source, parsed, result, settings);
+    const summary = { ...result.summary, checks };
+    await finishRun(db, { workspaceId: t.workspaceId, id: runId }, 'demo-seed', { ...result, summary }, now, {
+      fit: Math.round(tFit - started),
+      checks: Math.round(performance.now() - tFit),
+    });
     return result.summary.verdict.level;
   };
 
@@ -189,5 +255,49 @@ export async function seedDemoNotebook(db: Db, t: DemoNotebookTarget, now: Date 
   const monoModel = await addCell('model', DEMO_MONOTONE_MODEL, null);
   const monoFit = await addCell('fit', '', { modelCellId: monoModel, settings });
   created.push(`dose–response fit (${await addFinishedFit(monoFit, DEMO_MONOTONE_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } })})`);
+
+  // Part 3: the dose–response model's deliberately misspecified twin, on the same table.
+  await addCell('notes', DEMO_TWIN_NOTES, null);
+  const twinModel = await addCell('model', DEMO_TWIN_MODEL, null);
+  // Its posterior is sharply peaked against the ordering: the sampler on transformed coordinates
+  // mixes it well where the automatic choice would ask to run longer.
+  const twinSettings: FitSettings = { ...settings, sampler: 'transform-hmc' };
+  const twinFit = await addCell('fit', '', { modelCellId: twinModel, settings: twinSettings });
+  created.push(`misspecified twin fit (${await addFinishedFit(twinFit, DEMO_TWIN_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } }, twinSettings)})`);
+
+  // Part 4: the ordering tested, and a model without any effect of rain class.
+  await addCell('notes', DEMO_COMPARE_NOTES, null);
+  const flatModel = await addCell('model', DEMO_FLAT_MODEL, null);
+  const flatFit = await addCell('fit', '', { modelCellId: flatModel, settings });
+  created.push(`one-mean fit (${await addFinishedFit(flatFit, DEMO_FLAT_MODEL, { storms: { id: storms, csv: DEMO_STORMS_CSV } })})`);
+  const compareContent = compareContentSchema.parse({
+    modelCellIds: [monoModel, flatModel],
+    hypotheses: [{ modelCellId: monoModel, lines: [DEMO_ORDER_LINE] }],
+    reference: { modelCellId: monoModel, without: [DEMO_ORDER_LINE] },
+  });
+  const compareCell = await addCell('compare', '', compareContent);
+  await addFinishedComparison(db, t, compareCell, now);
+  created.push('comparison');
   return created;
+}
+
+/**
+ * Queue-free run of a compare cell at seed time: the job's own reading (compareSpecOf,
+ * compareThreadInput), computation (computeOnThread) and storing (finishCompare), under a lease
+ * held by the seed.
+ */
+export async function addFinishedComparison(db: Db, t: DemoNotebookTarget, cellId: string, now: Date): Promise<CompareResult> {
+  const [cell] = await db.select().from(cells).where(and(eq(cells.workspaceId, t.workspaceId), eq(cells.id, cellId)));
+  const { spec, settings } = await compareSpecOf(db, t.workspaceId, t.notebookId, cell.content, false);
+  const runId = newId();
+  const row = {
+    id: runId, workspaceId: t.workspaceId, notebookId: t.notebookId, cellId, status: 'running' as const, settings, seed: settings.seed,
+    modelHash: createHash('sha256').update(JSON.stringify({ spec, settings })).digest('hex'), spec, progress: null, attempts: 1,
+    leaseOwner: 'demo-seed', leaseExpiresAt: new Date(now.getTime() + 3_600_000), requestedBy: t.userId, createdAt: now, startedAt: now,
+  };
+  await db.insert(runs).values(compareRunValues(row));
+  const started = performance.now();
+  const result = await computeOnThread(await compareThreadInput(db, row));
+  await finishCompare(db, { id: runId, workspaceId: t.workspaceId }, 'demo-seed', result, now, { compute: Math.round(performance.now() - started) });
+  return result;
 }

@@ -3,13 +3,16 @@
  * the shared route table (routes.ts) so the one authorization middleware, the validation and the
  * role-matrix test cover them like every other route.
  *
- * Routes answering files (CSV, notebook JSON) have no response schema; multipart routes declare
+ * Routes answering files (CSV, notebook JSON) have no response schema, nor do binary answers (they
+ * name their content type in `produces`); multipart routes declare
  * the schema of their text fields as `body` (the file itself travels in the `file` field).
  */
 import { z } from 'zod';
 import type { RouteDef } from './routes';
 import * as nb from './notebook';
 import { notebookPageResponse, runEventsQuery } from './notebook-page';
+import { DRAWS_CONTENT_TYPE } from '../draws-binary';
+import * as cmp from './compare';
 
 const ws = z.strictObject({ workspaceId: nb.nbIdSchema });
 const nbParams = z.strictObject({ workspaceId: nb.nbIdSchema, notebookId: nb.nbIdSchema });
@@ -75,6 +78,11 @@ export const notebookRoutes = {
     purpose: 'A dataset with its column types, missing counts and the first rows',
     params: nb.datasetParams, response: nb.datasetPreviewResponse,
   },
+  getDatasetRows: {
+    method: 'GET', path: '/api/workspaces/:workspaceId/datasets/:datasetId/rows', access: 'viewer', status: 200,
+    purpose: 'A page of a dataset\'s rows (`offset`, `limit` up to 500) for the preview, read from its stored typed columns',
+    params: nb.datasetParams, query: nb.datasetRowsQuery, response: nb.datasetRowsResponse,
+  },
 
   // ---- model check ----
   compileModel: {
@@ -94,6 +102,21 @@ export const notebookRoutes = {
     purpose: 'Runs of a fit cell, newest first',
     params: nb.cellParams, response: nb.runListResponse,
   },
+  queueCompareRun: {
+    method: 'POST', path: `${nbBase}/cells/:cellId/compare-runs`, access: 'editor', status: 201,
+    purpose: 'Queue the comparison a compare cell describes (log Z, Bayes factors, leave-one-out), optionally with prior scales halved and doubled',
+    params: nb.cellParams, body: cmp.queueCompareBody, response: cmp.compareRunResponse,
+  },
+  listCompareRuns: {
+    method: 'GET', path: `${nbBase}/cells/:cellId/compare-runs`, access: 'viewer', status: 200,
+    purpose: 'Comparison jobs of a compare cell, newest first, with progress and results',
+    params: nb.cellParams, response: cmp.compareRunListResponse,
+  },
+  cancelCompareRun: {
+    method: 'POST', path: '/api/workspaces/:workspaceId/compare-runs/:runId/cancel', access: 'editor', status: 200,
+    purpose: 'Cancel a queued or running comparison',
+    params: nb.runParams, body: z.strictObject({}), response: cmp.compareRunResponse,
+  },
   getRun: {
     method: 'GET', path: '/api/workspaces/:workspaceId/runs/:runId', access: 'viewer', status: 200,
     purpose: 'A run\'s status, per-chain progress and, when done, its summary',
@@ -106,17 +129,12 @@ export const notebookRoutes = {
   },
   getRunDraws: {
     method: 'GET', path: '/api/workspaces/:workspaceId/runs/:runId/draws', access: 'viewer', status: 200,
-    purpose: 'Draws per chain for plotting (evenly thinned to `max`), with the constraint system',
-    params: nb.runParams, query: nb.runDrawsQuery, response: nb.runDrawsResponse,
-  },
-  getRunDrawsBinary: {
-    method: 'GET', path: '/api/workspaces/:workspaceId/runs/:runId/draws.bin', access: 'viewer', status: 200,
-    purpose: 'The draws for plotting as Float32 columns with a small JSON header (shared/api/draws-binary.ts), thinned to `max` on the server',
-    params: nb.runParams, query: nb.runDrawsQuery,
+    purpose: 'Draws per chain for plotting (evenly thinned to `max`) as Float32 columns after a JSON header with the constraint system (shared/draws-binary.ts)',
+    params: nb.runParams, query: nb.runDrawsQuery, produces: DRAWS_CONTENT_TYPE,
   },
   exportRunDraws: {
     method: 'GET', path: '/api/workspaces/:workspaceId/runs/:runId/draws.csv', access: 'viewer', status: 200,
-    purpose: 'Every kept draw as CSV: chain, iteration, one column per quantity',
+    purpose: 'Every kept draw as CSV: chain, iteration, one column per quantity (streamed)',
     params: nb.runParams,
   },
   exportRunSummary: {
@@ -175,14 +193,24 @@ export const notebookRoutes = {
     purpose: 'Runs of a fit cell of the shared notebook',
     params: shareCell, response: nb.runListResponse,
   },
+  sharedCompareRuns: {
+    method: 'GET', path: '/api/share/:token/cells/:cellId/compare-runs', access: 'share-token', status: 200,
+    purpose: 'Finished comparisons of a compare cell of the shared notebook',
+    params: shareCell, response: cmp.compareRunListResponse,
+  },
   sharedRunDraws: {
     method: 'GET', path: '/api/share/:token/runs/:runId/draws', access: 'share-token', status: 200,
-    purpose: 'Draws for plotting of a run of the shared notebook',
-    params: shareRun, query: nb.runDrawsQuery, response: nb.runDrawsResponse,
+    purpose: 'Draws for plotting of a run of the shared notebook (the same binary form as getRunDraws)',
+    params: shareRun, query: nb.runDrawsQuery, produces: DRAWS_CONTENT_TYPE,
   },
   sharedDataset: {
     method: 'GET', path: '/api/share/:token/datasets/:datasetId', access: 'share-token', status: 200,
     purpose: 'Preview of a dataset shown by a data cell of the shared notebook',
     params: shareDataset, response: nb.sharedDatasetPreviewResponse,
+  },
+  sharedDatasetRows: {
+    method: 'GET', path: '/api/share/:token/datasets/:datasetId/rows', access: 'share-token', status: 200,
+    purpose: 'A page of the rows of a dataset shown by a data cell of the shared notebook',
+    params: shareDataset, query: nb.datasetRowsQuery, response: nb.datasetRowsResponse,
   },
 } as const satisfies Record<string, RouteDef>;

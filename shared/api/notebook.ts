@@ -8,6 +8,7 @@ import { fitProgressSchema, fitSettingsSchema, fitSummarySchema } from '../fit';
 import { idSchema, isoDateSchema, issuesToFields } from './common';
 import { CELL_KINDS, cellKindSchema, cellSchema } from './notebooks';
 import { ACTIVE_RUN_STATUSES, RUN_STATUSES } from '../terms';
+import { compareContentSchema, type CompareContent } from './compare';
 
 /** Identifiers, dates, cell kinds and cells are the foundation's own schemas (one definition each). */
 export const nbIdSchema = idSchema;
@@ -40,7 +41,8 @@ export const cellSourceSchema = z.string().max(CELL_SOURCE_MAX, `At most ${CELL_
  * - data:    source unused (''); content names the dataset the cell shows.
  * - model:   source is the model program; content null.
  * - fit:     source unused; content names the model cell it fits and the settings.
- * - compare: source unused; content lists the model cells to compare.
+ * - compare: source unused; content lists the model cells to compare, the constraint lines to
+ *            test, the reference row, prior odds and replicates (shared/api/compare.ts).
  */
 export const notesContentSchema = z.null();
 export const dataContentSchema = z.strictObject({ datasetId: nbIdSchema.nullable() });
@@ -49,12 +51,10 @@ export const fitContentSchema = z.strictObject({
   modelCellId: nbIdSchema.nullable(),
   settings: fitSettingsSchema,
 });
-export const compareContentSchema = z.strictObject({
-  modelCellIds: z.array(nbIdSchema).max(8, 'At most 8 models'),
-});
+export { compareContentSchema };
 export type DataContent = z.infer<typeof dataContentSchema>;
 export type FitContent = z.infer<typeof fitContentSchema>;
-export type CompareContent = z.infer<typeof compareContentSchema>;
+export type { CompareContent };
 /** A cell's content, whatever its kind (notes and model cells have none). */
 export type CellContent = DataContent | FitContent | CompareContent | null;
 
@@ -77,7 +77,7 @@ export function defaultCellContent(kind: NbCellKind): CellContent {
     case 'fit':
       return { modelCellId: null, settings: fitSettingsSchema.parse({}) };
     case 'compare':
-      return { modelCellIds: [] };
+      return compareContentSchema.parse({ modelCellIds: [] });
     default:
       return null;
   }
@@ -226,6 +226,19 @@ export type DatasetPreviewResponse = z.infer<typeof datasetPreviewResponse>;
 export const sharedDatasetPreviewResponse = datasetPreviewResponse.extend({ dataset: datasetSchema.omit({ workspaceId: true }) });
 
 export const datasetParams = z.strictObject({ workspaceId: nbIdSchema, datasetId: nbIdSchema });
+/** A page of a dataset's rows for the preview. */
+export const datasetRowsQuery = z.strictObject({
+  offset: z.coerce.number().int().min(0).default(0),
+  limit: z.coerce.number().int().min(1).max(DATASET_PREVIEW_ROWS).default(DATASET_PREVIEW_ROWS),
+});
+export const datasetRowsResponse = z.object({
+  /** Index (0-based) of the first row of `rows`. */
+  offset: z.number().int(),
+  /** Rows in the whole dataset. */
+  total: z.number().int(),
+  rows: z.array(z.array(previewValueSchema)),
+});
+export type DatasetRowsResponse = z.infer<typeof datasetRowsResponse>;
 /** Multipart fields accompanying the uploaded `file`. */
 export const uploadDatasetFields = z.strictObject({ name: tableNameSchema });
 
@@ -370,7 +383,11 @@ export const regionProjectionSchema = z.object({
 });
 export type RegionProjection = z.infer<typeof regionProjectionSchema>;
 
-/** Draws for plotting: per chain, per quantity, the kept draws (possibly thinned). */
+/**
+ * Draws for plotting as plain arrays: per chain, per quantity, the kept draws (possibly thinned).
+ * The draws routes send the same content in binary (shared/draws-binary.ts); the plots accept
+ * either (PlotDraws), and the region types here are shared by both.
+ */
 export const runDrawsResponse = z.object({
   names: z.array(z.string()),
   /** Number of unknown coordinates; names after these are derived quantities. */

@@ -33,6 +33,8 @@ export interface RouteDef {
   query?: z.ZodType;
   body?: z.ZodType;
   response?: z.ZodType;
+  /** Content type of a binary answer (no response schema): the client reads it with `callRouteBytes`. */
+  produces?: string;
 }
 
 const empty = z.strictObject({});

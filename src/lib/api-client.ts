@@ -181,6 +181,41 @@ export async function callRoute<N extends RouteName>(name: N, opts: CallOptions<
   return parsed.data as RouteResponse<N>;
 }
 
+/** Routes of the table that answer bytes of their own content type (`produces`). */
+export type BinaryRouteName = { [N in RouteName]: Routes[N] extends { produces: string } ? N : never }[RouteName];
+
+/**
+ * Calls a binary route of the shared table (method and path from the table) and resolves with the
+ * answer's bytes once its content type is the one the route names; errors as `apiFetch`.
+ */
+export async function callRouteBytes<N extends BinaryRouteName>(name: N, opts: Pick<CallOptions<N>, 'params' | 'query' | 'signal'> = {}): Promise<ArrayBuffer> {
+  const def = routes[name] as { method: 'GET' | 'POST' | 'PATCH' | 'DELETE'; produces: string };
+  let url = routePath(name, (opts.params ?? {}) as Record<string, string>);
+  const qs = new URLSearchParams();
+  for (const [k, v] of Object.entries((opts.query ?? {}) as Record<string, string | number | undefined>)) if (v !== undefined) qs.set(k, String(v));
+  if (qs.toString()) url += `?${qs.toString()}`;
+  let res: Response;
+  try {
+    res = await fetch(url, { method: def.method, headers: { Accept: `${def.produces}, application/json` }, credentials: 'same-origin', signal: opts.signal });
+  } catch (e) {
+    if (e instanceof DOMException && e.name === 'AbortError') throw e;
+    throw new ApiError(0, 'network', 'Could not reach the server. Check your connection and try again.');
+  }
+  if (!res.ok) {
+    let data: unknown = undefined;
+    try {
+      data = JSON.parse(await res.text());
+    } catch {
+      data = undefined;
+    }
+    throw toApiError(res.status, data);
+  }
+  if (!(res.headers.get('Content-Type') ?? '').startsWith(def.produces)) {
+    throw new ApiError(res.status, 'bad_response', 'The server sent an answer this page does not understand. Reload and try again.');
+  }
+  return res.arrayBuffer();
+}
+
 /** A human sentence for any error thrown by a query or mutation. */
 export function errorMessage(e: unknown): string {
   if (isApiError(e)) return e.message;

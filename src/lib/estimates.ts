@@ -24,6 +24,29 @@ export function formatDataValue(x: number, digits = 4): string {
   return Number(x.toPrecision(digits)).toString().replace(/^-/, '−');
 }
 
+/**
+ * Decimals that show every value of a data column as read (each at most `digits` significant digits),
+ * so a column can be printed with one count of decimals: 29.70 beside 29.02, not 29.7. Null when a
+ * value needs exponent form (then each value keeps its own form).
+ */
+export function columnDecimals(values: readonly number[], digits = 4): number | null {
+  let decimals = 0;
+  for (const x of values) {
+    if (!Number.isFinite(x) || x === 0) continue;
+    const s = formatDataValue(x, digits);
+    if (/e/i.test(s)) return null;
+    const dot = s.indexOf('.');
+    if (dot >= 0) decimals = Math.max(decimals, s.length - dot - 1);
+  }
+  return decimals;
+}
+
+/** A data value with a column's count of decimals (see columnDecimals); null decimals: formatDataValue. */
+export function formatDataFixed(x: number, decimals: number | null, digits = 4): string {
+  if (decimals === null || !Number.isFinite(x)) return formatDataValue(x, digits);
+  return x.toFixed(decimals).replace(/^-/, '−');
+}
+
 /** R̂ to two decimals below 1.1 is too coarse (1.005 vs 1.014 matters): three decimals. */
 export function formatRhat(x: number): string {
   return Number.isFinite(x) ? x.toFixed(3) : formatEstimate(x);

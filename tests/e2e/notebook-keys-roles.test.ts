@@ -1,6 +1,7 @@
 /**
- * The notebook's keyboard, each role's view of a model cell and its comments, and the page on a
- * phone-sized screen (390 px wide), in a real browser against the demo notebook.
+ * The notebook's keyboard, each role's view of a model cell and its comments, and the pages on a
+ * phone-sized screen (390 px wide: the notebook as owner, reviewer and share-link visitor, the
+ * notebook list, the members and activity pages), in a real browser against the demo notebook.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
@@ -236,12 +237,129 @@ describe('on a phone (390 px wide)', () => {
         });
         expect(cutoff).toBe(0);
         expect(await fit.getByTestId('quantity-row').count()).toBeGreaterThan(0);
+        // No quantity name is cut short (roads_minus_fields wraps instead of ending in an ellipsis).
+        const cutNames = await fit.evaluate((cell) =>
+          [...cell.querySelectorAll<HTMLElement>('[data-testid="quantity-name"]')].filter((n) => n.scrollWidth > n.clientWidth + 0.5).map((n) => n.textContent),
+        );
+        expect(cutNames).toEqual([]);
+        await fit.getByTestId('mixing-figures').locator('summary').click();
+        // The mixing figures behind the fold are all on screen: no column cut off or scrolled away.
+        const mixing = await fit.getByTestId('mixing-table').evaluate((t) => ({
+          scroll: t.parentElement!.scrollWidth,
+          client: t.parentElement!.clientWidth,
+          cells: t.querySelectorAll('tbody td').length,
+          offscreen: [...t.querySelectorAll('tbody td, tbody th')].filter((c) => c.getBoundingClientRect().right > 390 || c.getBoundingClientRect().width === 0).length,
+        }));
+        expect(mixing.scroll).toBeLessThanOrEqual(mixing.client);
+        expect(mixing.cells).toBeGreaterThan(0);
+        expect(mixing.offscreen).toBe(0);
+        await fit.getByTestId('mixing-figures').screenshot({ path: await screenshotPath('phone-mixing-figures.png') });
         await page.screenshot({ path: await screenshotPath('phone-notebook.png'), fullPage: true });
         await page.evaluate(() => window.scrollTo(0, 0));
         await page.screenshot({ path: await screenshotPath('phone-top.png') });
         await page.locator('section[data-kind="model"]').first().scrollIntoViewIfNeeded();
         await page.screenshot({ path: await screenshotPath('phone-model.png') });
         await fit.screenshot({ path: await screenshotPath('phone-fit-cell.png') });
+      } finally {
+        await page.setViewportSize({ width: 1280, height: 860 });
+      }
+    }));
+});
+
+describe('the other pages on a phone (390 px wide)', () => {
+  /** The page's own width does not exceed the screen: nothing scrolls sideways. */
+  async function expectNoSidewaysScroll(what: string) {
+    await page.waitForTimeout(300);
+    const w = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, client: document.documentElement.clientWidth }));
+    expect(w.scroll, `${what}: page width ${w.scroll} on a ${w.client} px screen`).toBeLessThanOrEqual(w.client);
+  }
+
+  it('the notebook list, the members page and the activity page do not scroll sideways', () =>
+    withShot('phone-pages', async () => {
+      await signInAs(DEMO_USER.email, DEMO_USER.password);
+      await page.setViewportSize({ width: 390, height: 844 });
+      try {
+        await page.goto(`${server.url}/w/${workspaceId}`);
+        await page.getByRole('link', { name: DEMO_NOTEBOOK }).waitFor();
+        await expectNoSidewaysScroll('notebook list');
+        // The list's own table does not hide its actions behind a sideways scroll either.
+        const table = page.getByRole('table', { name: 'Notebooks' });
+        const inner = await table.evaluate((t) => ({ scroll: t.parentElement!.scrollWidth, client: t.parentElement!.clientWidth }));
+        expect(inner.scroll).toBeLessThanOrEqual(inner.client);
+        for (const name of [`Rename ${DEMO_NOTEBOOK}`, `Delete ${DEMO_NOTEBOOK}`]) {
+          const box = await page.getByRole('button', { name, exact: true }).boundingBox();
+          expect(box).not.toBeNull();
+          expect(box!.x + box!.width, name).toBeLessThanOrEqual(390);
+        }
+        await page.screenshot({ path: await screenshotPath('phone-list.png'), fullPage: true });
+        await page.goto(`${server.url}/w/${workspaceId}/members`);
+        await page.getByRole('heading', { name: /Members/ }).first().waitFor();
+        await expectNoSidewaysScroll('members page');
+        // Every member's role picker and Remove, and every share link's Revoke, are on screen, not
+        // behind a table's own sideways scroll (the link made above is listed, so both tables are here).
+        await page.getByRole('table', { name: 'Share links' }).waitFor();
+        for (const name of ['Members', 'Share links']) {
+          const table = page.getByRole('table', { name });
+          const own = await table.evaluate((t) => ({ scroll: t.parentElement!.scrollWidth, client: t.parentElement!.clientWidth }));
+          expect(own.scroll, `${name} table`).toBeLessThanOrEqual(own.client);
+          for (const control of await table.locator('select, button').all()) {
+            const box = await control.boundingBox();
+            expect(box).not.toBeNull();
+            expect(box!.x + box!.width, `${name} table control`).toBeLessThanOrEqual(390);
+          }
+        }
+        await page.screenshot({ path: await screenshotPath('phone-members.png'), fullPage: true });
+        await page.goto(`${server.url}/w/${workspaceId}/activity`);
+        await page.getByRole('heading').first().waitFor();
+        await expectNoSidewaysScroll('activity page');
+        await page.goto(`${server.url}/`);
+        await page.getByRole('link', { name: /Alder Creek/ }).first().waitFor();
+        await expectNoSidewaysScroll('workspaces page');
+      } finally {
+        await page.setViewportSize({ width: 1280, height: 860 });
+      }
+    }));
+
+  it('a reviewer on a phone reads the model with its region, the results and the comments', () =>
+    withShot('phone-reviewer', async () => {
+      const c = server.client();
+      const person = await signUp(c, { name: 'Pia Phone' });
+      await server.db.db.insert(memberships).values({ workspaceId, userId: person.id, role: 'reviewer', createdAt: server.clock.now() });
+      await signInAs(person.email, TEST_PASSWORD);
+      await page.setViewportSize({ width: 390, height: 844 });
+      try {
+        await page.goto(notebookUrl);
+        const model = page.locator('section[data-kind="model"]').first();
+        const panel = model.getByTestId('model-side-panel');
+        await panel.getByTestId('region-status').filter({ hasText: 'interior found' }).waitFor();
+        expect(await panel.innerText()).toContain('share');
+        const fit = page.locator('section[data-kind="fit"]').first();
+        await fit.getByTestId('quantity-row').first().waitFor();
+        await fit.getByTestId('triangle-figure').waitFor();
+        await model.getByRole('button', { name: /^Comments on this model cell/ }).click();
+        await page.getByTestId('comment-thread').filter({ hasText: 'same lab' }).waitFor();
+        await expectNoSidewaysScroll('notebook with the comments open, as a reviewer');
+        // The side panel, the results and the comment box are on screen horizontally.
+        for (const el of [panel, fit.getByTestId('quantity-row').first(), page.getByLabel('Comment on this cell…')]) {
+          const box = await el.boundingBox();
+          expect(box).not.toBeNull();
+          expect(box!.x).toBeGreaterThanOrEqual(0);
+          expect(box!.x + box!.width).toBeLessThanOrEqual(390);
+        }
+        await page.screenshot({ path: await screenshotPath('phone-reviewer-comments.png') });
+
+        // A share-link visitor on the same phone: the read-only side panel and the results, nothing sideways.
+        const owner = new TestClient(server.url);
+        await signIn(owner, DEMO_USER.email, DEMO_USER.password);
+        const link = await owner.post(`/api/workspaces/${workspaceId}/notebooks/${notebookId}/share-links`, {});
+        expect(link.status).toBe(201);
+        await page.context().clearCookies();
+        await page.goto(`${server.url}${link.body.path}`);
+        const sharedPanel = page.locator('section[data-kind="model"]').first().getByTestId('model-side-panel');
+        await sharedPanel.getByTestId('region-status').filter({ hasText: 'interior found' }).waitFor();
+        await page.locator('section[data-kind="fit"]').first().getByTestId('quantity-row').first().waitFor();
+        await expectNoSidewaysScroll('shared notebook');
+        await page.locator('section[data-kind="fit"]').first().screenshot({ path: await screenshotPath('phone-shared-fit.png') });
       } finally {
         await page.setViewportSize({ width: 1280, height: 860 });
       }

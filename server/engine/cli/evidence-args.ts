@@ -3,7 +3,7 @@
  *
  *   npm run evidence -- <model file> [--data name=path.csv | --data path.csv]... [--against <model>]
  *       [--hypothesis <line numbers>] [--replicates N] [--target-se X] [--seed N]
- *       [--reference auto|uniform|gaussian] [--json]
+ *       [--reference auto|uniform|gaussian] [--prior-scale F] [--json]
  */
 import { parseArgs } from 'node:util';
 import { intOption, parseData, UsageError, type DataArg } from './args';
@@ -28,6 +28,8 @@ Options:
   --target-se X            add replicates (up to 64) until each log Z has a standard error ≤ X
   --seed N                 random seed (0–2147483647, default 20261201)
   --reference NAME         auto (default), uniform (bounded regions) or gaussian
+  --prior-scale F          multiply the scale of every prior density by F (rates divided by F)
+                           before computing, as the compare cell's sensitivity runs do
   --json                   print the result as JSON (see docs/engine.md)
   --help                   show this text`;
 
@@ -40,6 +42,8 @@ export interface EvidenceCliArgs {
   targetSe?: number;
   seed?: number;
   reference?: 'auto' | 'uniform' | 'gaussian';
+  /** Multiply every prior scale by this (shared/lang/prior-scale.ts). */
+  priorScale?: number;
   json: boolean;
   help: boolean;
 }
@@ -59,6 +63,7 @@ export function parseEvidenceArgs(argv: string[]): EvidenceCliArgs {
         'target-se': { type: 'string' },
         seed: { type: 'string' },
         reference: { type: 'string' },
+        'prior-scale': { type: 'string' },
         json: { type: 'boolean' },
         help: { type: 'boolean', short: 'h' },
       },
@@ -92,6 +97,11 @@ export function parseEvidenceArgs(argv: string[]): EvidenceCliArgs {
   if (reference !== undefined && !['auto', 'uniform', 'gaussian'].includes(reference)) {
     throw new UsageError(`--reference must be one of auto, uniform, gaussian, got "${reference}".`);
   }
+  let priorScale: number | undefined;
+  if (values['prior-scale'] !== undefined) {
+    priorScale = Number(values['prior-scale']);
+    if (!(priorScale > 0) || !Number.isFinite(priorScale)) throw new UsageError(`--prior-scale needs a positive number, got "${values['prior-scale']}".`);
+  }
   const data = (values.data ?? []).map(parseData);
   const names = new Set<string>();
   for (const d of data) {
@@ -110,6 +120,7 @@ export function parseEvidenceArgs(argv: string[]): EvidenceCliArgs {
     targetSe,
     seed: intOption('seed', values.seed, 0, 2 ** 31 - 1),
     reference: reference as EvidenceCliArgs['reference'],
+    priorScale,
     json: values.json ?? false,
     help: false,
   };

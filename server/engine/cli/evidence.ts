@@ -10,6 +10,8 @@ import { pathToFileURL } from 'node:url';
 import type { EvidenceOptions, EvidenceResult } from '../evidence';
 import { programEvidence, testHypothesis, type HypothesisResult } from '../evidence/program';
 import { loadTables, processIo, readOrFail, type CliIo } from './fit';
+import { scalePriors } from '../../../shared/lang/prior-scale';
+import { dataSchemaOf as schemaOf } from '../../../shared/lang/index';
 import { EVIDENCE_USAGE, parseEvidenceArgs, UsageError, type EvidenceCliArgs } from './evidence-args';
 
 export interface EvidenceCliOptions {
@@ -82,7 +84,9 @@ export async function main(argv: string[], io: CliIo = processIo, opts: Evidence
   try {
     const started = performance.now();
     const tables = loadTables(args, io);
-    const source = new TextDecoder('utf-8').decode(readOrFail(io, args.modelPath, 'model file'));
+    const written = new TextDecoder('utf-8').decode(readOrFail(io, args.modelPath, 'model file'));
+    const scaled = args.priorScale !== undefined && args.priorScale !== 1 ? scalePriors(written, schemaOf(tables), args.priorScale) : null;
+    const source = scaled?.source ?? written;
     const model = path.basename(args.modelPath);
     const eo: EvidenceOptions = {
       replicates: args.replicates,
@@ -140,7 +144,8 @@ export async function main(argv: string[], io: CliIo = processIo, opts: Evidence
       return 0;
     }
     currentModel = args.againstPath;
-    const otherSource = new TextDecoder('utf-8').decode(readOrFail(io, args.againstPath, 'model file'));
+    const otherWritten = new TextDecoder('utf-8').decode(readOrFail(io, args.againstPath, 'model file'));
+    const otherSource = args.priorScale !== undefined && args.priorScale !== 1 ? scalePriors(otherWritten, schemaOf(tables), args.priorScale).source : otherWritten;
     const other = path.basename(args.againstPath);
     const b = programEvidence(otherSource, tables, { ...eo, seed: (args.seed ?? 20261201) + 1 });
     clear();

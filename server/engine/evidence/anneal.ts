@@ -63,6 +63,76 @@ export interface Frame {
   logJac: number;
   toZ(y: Float64Array, out: Float64Array): Float64Array;
   toY(z: Float64Array, out: Float64Array): Float64Array;
+  /**
+   * A body given by an oracle instead of rows (m = 0): the chord along an axis and a bound on the
+   * Gaussian mass outside. Used for bodies whose H-representation is too large to read per move
+   * (the cross-polytope {Σ|yⱼ| ≤ r} has 2^d rows); only the Gaussian cooling (volume) reads it.
+   */
+  oracle?: BodyOracle;
+}
+
+export interface BodyOracle {
+  /** The interval of t with y + t·eⱼ inside (y inside), written to out[0], out[1]. */
+  chord(y: Float64Array, j: number, out: Float64Array): void;
+  inside(y: Float64Array): boolean;
+  /** An upper bound on the mass of N(μ, sd² I) outside the body. */
+  outsideMass(mu: Float64Array, sd: number): number;
+}
+
+/**
+ * The ℓ1 ball {Σ|yⱼ| ≤ r} as an oracle: a chord costs O(d) instead of reading 2^d rows. The outside
+ * mass bound: the ball holds the ℓ2 ball of radius ρ/√d around μ, ρ = r − |μ|₁, and
+ * P(χ²_d ≥ d + 2√(dx) + 2x) ≤ e^(−x) ("Adaptive estimation of a quadratic functional by model
+ * selection", Annals of Statistics 2000).
+ */
+export function l1BallOracle(d: number, r: number): BodyOracle {
+  const l1 = (y: Float64Array) => {
+    let s = 0;
+    for (let q = 0; q < d; q++) s += Math.abs(y[q]);
+    return s;
+  };
+  return {
+    chord(y, j, out) {
+      const rho = r - (l1(y) - Math.abs(y[j]));
+      out[0] = -rho - y[j];
+      out[1] = rho - y[j];
+    },
+    inside: (y) => l1(y) < r,
+    outsideMass(mu, sd) {
+      const rho = r - l1(mu);
+      if (!(rho > 0)) return Infinity;
+      const u = (rho * rho) / (d * sd * sd);
+      if (u <= d) return 1;
+      const sx = (-Math.sqrt(d) + Math.sqrt(2 * u - d)) / 2;
+      return Math.exp(-sx * sx);
+    },
+  };
+}
+
+/** The frame of an oracle body in its own coordinates (identity map, no rows). */
+export function oracleFrame(n: number, oracle: BodyOracle): Frame {
+  const I = identity(n);
+  return {
+    n,
+    m: 0,
+    rows: new RowMatrix(new Float64Array(0), 0, n),
+    Ay: new Float64Array(0),
+    b: new Float64Array(0),
+    rowNorm: new Float64Array(0),
+    D: null,
+    dirNorm2: new Float64Array(n).fill(1),
+    G: I,
+    colPtr: new Int32Array(n + 1),
+    colIdx: new Int32Array(0),
+    colVal: new Float64Array(0),
+    colInv: new Float64Array(0),
+    origin: new Float64Array(n),
+    L: I,
+    logJac: 0,
+    toZ: (y, out) => (out.set(y), out),
+    toY: (z, out) => (out.set(z), out),
+    oracle,
+  };
 }
 
 function identity(n: number): Float64Array {
@@ -195,6 +265,8 @@ export interface AnnealSettings {
   /** Refuse to run more stages than this (the schedule did not converge). */
   maxStages: number;
   signal?: AbortSignal;
+  /** Called at the start of every stage (for progress). */
+  onStage?(): void;
 }
 
 export interface StageLog {
@@ -279,6 +351,10 @@ export function makeWalker(f: Frame, y: Float64Array): Walker {
 }
 
 function resetSlacks(f: Frame, w: Walker): void {
+  if (f.oracle) {
+    if (!f.oracle.inside(w.y)) throw new Error('Internal error: an annealing walker left the region.');
+    return;
+  }
   f.rows.mul(w.y, w.s);
   for (let i = 0; i < f.m; i++) {
     w.s[i] = f.b[i] - w.s[i];
@@ -292,6 +368,8 @@ function resetSlacks(f: Frame, w: Walker): void {
  * q(y) ∝ exp(−P |y − μ|²/2) on the polytope (P = β + κ, μ = βc/P), or the uniform distribution when
  * P = 0: the point on the chord is drawn exactly. Costs one column of the rows.
  */
+const chordBuf = new Float64Array(2);
+
 function gaussMove(f: Frame, w: Walker, P: number, mu: Float64Array | null, rng: Rng): void {
   const n = f.n;
   const j = rng.int(n);
@@ -301,6 +379,11 @@ function gaussMove(f: Frame, w: Walker, P: number, mu: Float64Array | null, rng:
   const q1 = colPtr[j + 1];
   let tmin = -Infinity;
   let tmax = Infinity;
+  if (f.oracle) {
+    f.oracle.chord(w.y, j, chordBuf);
+    tmin = chordBuf[0];
+    tmax = chordBuf[1];
+  }
   for (let q = q0; q < q1; q++) {
     const r = s[colIdx[q]] * colInv[q];
     if (colVal[q] > 0) {
@@ -325,6 +408,13 @@ function gaussMove(f: Frame, w: Walker, P: number, mu: Float64Array | null, rng:
     const m0 = -proj / d2;
     t = m0 + sd * truncatedStdNormal((tmin - m0) / sd, (tmax - m0) / sd, rng);
   }
+  if (f.oracle) {
+    const before = w.y[j];
+    w.y[j] = before + t;
+    // Round-off put the point on the boundary: undo the move.
+    if (!f.oracle.inside(w.y)) w.y[j] = before;
+    return;
+  }
   let ok = true;
   for (let q = q0; q < q1; q++) {
     const v = (s[colIdx[q]] -= t * colVal[q]);
@@ -341,6 +431,7 @@ function gaussMove(f: Frame, w: Walker, P: number, mu: Float64Array | null, rng:
 
 /** Union bound on the mass of N(μ, sd² I) outside the polytope: Σ Φ̄(sᵢ / (|aᵢ| sd)), with Φ̄(x) ≤ φ(x)/x. */
 function outsideMassBound(f: Frame, mu: Float64Array, sd: number): number {
+  if (f.oracle) return f.oracle.outsideMass(mu, sd);
   let total = 0;
   for (let i = 0; i < f.m; i++) {
     let s = f.b[i];
@@ -398,6 +489,7 @@ export function gaussianAnneal(f: Frame, c: Float64Array, kappa: 0 | 1, rng: Rng
   const v = new Float64Array(perWalker * cfg.walkers);
   for (;;) {
     abortIfNeeded(cfg.signal);
+    cfg.onStage?.();
     if (log.stages >= cfg.maxStages) throw new Error(`The annealing schedule needed more than ${cfg.maxStages} stages.`);
     const P = beta + kappa;
     muOf(beta, mu);
@@ -441,6 +533,7 @@ function exactInside(f: Frame, mu: Float64Array, sd: number, rng: Rng): Float64A
     f.rows.mul(y, s);
     let ok = true;
     for (let i = 0; i < f.m; i++) if (!(f.b[i] - s[i] > 0)) ok = false;
+    if (f.oracle && !f.oracle.inside(y)) ok = false;
     if (ok) return y;
   }
   throw new Error('Internal error: could not place a walker inside the region.');
@@ -502,6 +595,7 @@ export function temper(
   let logRatio = 0;
   for (;;) {
     abortIfNeeded(cfg.signal);
+    cfg.onStage?.();
     if (log.stages >= cfg.maxStages) throw new Error(`The tempering schedule needed more than ${cfg.maxStages} stages.`);
     let j = 0;
     if (t === 0) {

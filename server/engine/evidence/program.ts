@@ -69,7 +69,7 @@ export interface HypothesisResult {
   seconds: number;
 }
 
-function hypothesisLines(source: string, tables: DataTables, lines: number[]): void {
+export function hypothesisLines(source: string, tables: DataTables, lines: number[]): void {
   const c = checked(source, tables);
   const byLine = new Map<number, Statement>();
   for (const s of c.program.statements) byLine.set(s.line, s);
@@ -95,8 +95,31 @@ function labelled<T>(what: string, f: () => T): T {
   }
 }
 
+/**
+ * Options of testHypothesis and of the compare job: `cache` keeps log Z results by seed and source
+ * (a log Z is a function of the program, the tables, the seed and the settings, so a job testing
+ * several hypotheses of one model computes the model's own log Z once); `onStep` names each log Z
+ * before it starts.
+ */
+export interface ProgramEvidenceOptions extends EvidenceOptions {
+  cache?: Map<string, EvidenceResult>;
+  onStep?(what: string): void;
+}
+
+/** log Z of a program with its prior or posterior named in errors, through the cache. */
+export function cachedEvidence(what: string, src: string, tables: DataTables, opts: ProgramEvidenceOptions, seed: number): EvidenceResult {
+  const key = `${seed}\u0000${src}`;
+  const hit = opts.cache?.get(key);
+  if (hit) return hit;
+  opts.onStep?.(what);
+  const { cache: _c, onStep: _s, ...eo } = opts;
+  const r = labelled(what, () => programEvidence(src, tables, { ...eo, seed, volume: false }));
+  opts.cache?.set(key, r);
+  return r;
+}
+
 /** Bayes factor of the constraint lines `lines` (with against without), from one program. */
-export function testHypothesis(source: string, tables: DataTables, lines: number[], opts: EvidenceOptions = {}): HypothesisResult {
+export function testHypothesis(source: string, tables: DataTables, lines: number[], opts: ProgramEvidenceOptions = {}): HypothesisResult {
   const started = performance.now();
   hypothesisLines(source, tables, lines);
   const seed = opts.seed ?? 20261201;
@@ -104,8 +127,7 @@ export function testHypothesis(source: string, tables: DataTables, lines: number
   const prior = priorOnlySource(source, tables);
   const priorBase = withoutLines(prior.source, lines);
   const linesText = lines.join(', ');
-  const run = (what: string, src: string, k: number) =>
-    labelled(what, () => programEvidence(src, tables, { ...opts, seed: seed + k, volume: false }));
+  const run = (what: string, src: string, k: number) => cachedEvidence(what, src, tables, opts, seed + k);
   const post1 = run(`the posterior with line(s) ${linesText}`, source, 0);
   const post0 = run(`the posterior without line(s) ${linesText}`, base, 1);
   const pri1 = run(`the prior with line(s) ${linesText}`, prior.source, 2);

@@ -49,6 +49,8 @@ export interface PreparedTarget {
   bounded: boolean;
   /** Lower Cholesky factor (row-major n × n) of the Dikin matrix Aᵀ S⁻² A (+ ρ I if unbounded) at the centre. */
   dikinL: Float64Array;
+  /** First non-zero column of each row of dikinL (its envelope; absent = dense). */
+  dikinFirst?: Int32Array;
   /** A in row-compressed form. */
   rows: RowMatrix;
   /** θ₀ and N (dim × n row-major, null when there are no equalities). */
@@ -534,6 +536,7 @@ export function prepareTarget(target: ModelTarget): PreparedTarget {
     rowLabels: reg.ineq.labels,
     bounded: reg.bounded,
     dikinL: reg.dikinL,
+    dikinFirst: lowerProfile(reg.dikinL, n),
     rows: reg.rows,
     theta0,
     N,
@@ -584,7 +587,7 @@ export function isFlat(p: PreparedTarget): boolean {
     rng.normals(u);
     const nu = Math.sqrt(dot(u, u));
     for (let q = 0; q < n; q++) u[q] /= 2 * nu;
-    backwardL(p.dikinL, n, u, z);
+    backwardL(p.dikinL, n, u, z, p.dikinFirst);
     for (let q = 0; q < n; q++) z[q] += p.centre[q];
     const l = p.logDensity(z, grad);
     if (!(l === l0) || !grad.every((v) => v === 0)) flat = false;
@@ -594,14 +597,26 @@ export function isFlat(p: PreparedTarget): boolean {
 }
 
 /** out = L⁻ᵀ u for a row-major lower factor L (a direction of Dikin length |u|). */
-export function backwardL(L: Float64Array, n: number, u: Float64Array, out: Float64Array): Float64Array {
+export function backwardL(L: Float64Array, n: number, u: Float64Array, out: Float64Array, first?: Int32Array): Float64Array {
   if (out !== u) out.set(u);
   for (let i = n - 1; i >= 0; i--) {
     const xi = out[i] / L[i * n + i];
     out[i] = xi;
-    for (let k = 0; k < i; k++) out[k] -= L[i * n + k] * xi;
+    // Entries left of the row's first non-zero are exact zeros: skipping them changes nothing.
+    for (let k = first ? first[i] : 0; k < i; k++) out[k] -= L[i * n + k] * xi;
   }
   return out;
+}
+
+/** First non-zero column of each row of a lower-triangular row-major n × n matrix. */
+export function lowerProfile(L: Float64Array, n: number): Int32Array {
+  const first = new Int32Array(n);
+  for (let i = 0; i < n; i++) {
+    let k = 0;
+    while (k < i && L[i * n + k] === 0) k++;
+    first[i] = k;
+  }
+  return first;
 }
 
 export function assertFiniteStart(p: PreparedTarget, l: number, z: Float64Array): void {

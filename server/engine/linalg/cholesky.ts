@@ -34,11 +34,14 @@ export class Cholesky {
   /** Number of successful or attempted factorisations since construction. */
   count = 0;
   private readonly tmp: Float64Array;
+  /** Column of the first possibly non-zero entry of each row of L (0 = dense row). */
+  readonly first: Int32Array;
 
   constructor(n: number) {
     this.n = n;
     this.L = new Float64Array(n * n);
     this.tmp = new Float64Array(n);
+    this.first = new Int32Array(n);
   }
 
   /** Factorises G (row-major, symmetric). Returns false when G is not positive definite. */
@@ -50,12 +53,21 @@ export class Cholesky {
   private factorInPlace(G: Float64Array): boolean {
     const n = this.n;
     const L = this.L;
+    const first = this.first;
+    // Envelope (profile) of G: row i of L is zero left of row i of G's first non-zero, so sums
+    // start at the later of the two rows' first columns. The skipped terms are exact zeros, so the
+    // factor is bit-for-bit the dense loop's; a banded G costs n·b² instead of n³/3.
     for (let i = 0; i < n; i++) {
       const ri = i * n;
-      for (let j = 0; j <= i; j++) {
+      let fi = 0;
+      while (fi < i && G[ri + fi] === 0) fi++;
+      first[i] = fi;
+      for (let j = 0; j < fi; j++) L[ri + j] = 0;
+      for (let j = fi; j <= i; j++) {
         const rj = j * n;
         let sum = G[ri + j];
-        for (let k = 0; k < j; k++) sum -= L[ri + k] * L[rj + k];
+        const k0 = fi > first[j] ? fi : first[j];
+        for (let k = k0; k < j; k++) sum -= L[ri + k] * L[rj + k];
         if (i === j) {
           if (!(sum > 0) || !Number.isFinite(sum)) return false;
           L[ri + i] = Math.sqrt(sum);
@@ -73,6 +85,7 @@ export class Cholesky {
     const rows: number[][] = [];
     for (let i = 0; i < n; i++) rows.push(Array.from(G.subarray(i * n, i * n + n)));
     // ml-matrix checks symmetry exactly; G is built symmetric by construction.
+    this.first.fill(0);
     const cho = new CholeskyDecomposition(new Matrix(rows));
     if (!cho.isPositiveDefinite()) return false;
     const Lm = cho.lowerTriangularMatrix;
@@ -88,7 +101,7 @@ export class Cholesky {
     for (let i = 0; i < n; i++) {
       const ri = i * n;
       let sum = rhs[i];
-      for (let k = 0; k < i; k++) sum -= L[ri + k] * out[k];
+      for (let k = this.first[i]; k < i; k++) sum -= L[ri + k] * out[k];
       out[i] = sum / L[ri + i];
     }
     return out;
@@ -102,7 +115,7 @@ export class Cholesky {
     for (let i = n - 1; i >= 0; i--) {
       const xi = out[i] / L[i * n + i];
       out[i] = xi;
-      for (let k = 0; k < i; k++) out[k] -= L[i * n + k] * xi;
+      for (let k = this.first[i]; k < i; k++) out[k] -= L[i * n + k] * xi;
     }
     return out;
   }
@@ -120,7 +133,7 @@ export class Cholesky {
     for (let i = n - 1; i >= 0; i--) {
       const ri = i * n;
       let sum = 0;
-      for (let k = 0; k <= i; k++) sum += L[ri + k] * x[k];
+      for (let k = this.first[i]; k <= i; k++) sum += L[ri + k] * x[k];
       out[i] = sum;
     }
     return out;

@@ -157,6 +157,7 @@ class DenseMetric implements MetricFactor {
   }
   copyFrom(o: MetricFactor): void {
     this.chol.L.set((o as DenseMetric).chol.L);
+    this.chol.first.set((o as DenseMetric).chol.first);
   }
 }
 
@@ -385,6 +386,7 @@ class BandedLowRankMetric implements MetricFactor {
       this.P.set(b.P);
       this.K.set(b.K);
       this.kChol.L.set(b.kChol.L);
+      this.kChol.first.set(b.kChol.first);
     }
   }
 }

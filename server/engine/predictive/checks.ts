@@ -28,7 +28,12 @@ export interface ModelCheckOptions {
   extraStats?: string[];
   /** 'prior' when the fit dropped the likelihood terms: no leave-one-out then. */
   kind?: 'posterior' | 'prior';
+  /** Largest draws × rows matrix of pointwise log-likelihoods (default LOO_MAX_CELLS); more draws are thinned. */
+  looMaxCells?: number;
 }
+
+/** What the checks read of a fit: the unknowns' names and each chain's draws (draws × unknowns, row-major). */
+export type CheckedFit = Pick<FitResult, 'unknownNames'> & { chains: { draws: Float64Array }[] };
 
 export interface ReplicatedData {
   spec: ReplicateSpec;
@@ -70,7 +75,7 @@ export interface ModelChecks {
 }
 
 /** Pooled draw θ_s (chain after chain) as a view. */
-function drawAt(result: FitResult, dim: number, s: number): Float64Array {
+function drawAt(result: CheckedFit, dim: number, s: number): Float64Array {
   let k = s;
   for (const c of result.chains) {
     const n = c.draws.length / dim;
@@ -80,7 +85,7 @@ function drawAt(result: FitResult, dim: number, s: number): Float64Array {
   throw new Error('draw index out of range');
 }
 
-export function runModelChecks(check: CheckResult, tables: DataTables, result: FitResult, opts: ModelCheckOptions): ModelChecks {
+export function runModelChecks(check: CheckResult, tables: DataTables, result: CheckedFit, opts: ModelCheckOptions): ModelChecks {
   const kind = opts.kind ?? 'posterior';
   const dim = result.unknownNames.length;
   const total = result.chains.reduce((n, c) => n + (dim > 0 ? c.draws.length / dim : 0), 0);
@@ -106,7 +111,7 @@ export function runModelChecks(check: CheckResult, tables: DataTables, result: F
     return out;
   }
   const { rows, tables: order } = pw.pointwise;
-  const thin = Math.max(1, Math.ceil((total * rows) / LOO_MAX_CELLS));
+  const thin = Math.max(1, Math.ceil((total * rows) / (opts.looMaxCells ?? LOO_MAX_CELLS)));
   // Per chain, every thin-th draw; r_eff per row from the ESS of exp(ll) within the chains.
   const perChain: number[][] = result.chains.map((c) => {
     const n = c.draws.length / dim;

@@ -30,7 +30,7 @@ function pick(values: ArrayLike<number>, idx?: ArrayLike<number>): Float64Array 
 }
 
 /** Quantile by linear interpolation between order statistics at h = (n − 1)p (definition 7 of the common taxonomy; as the fit summaries). */
-function quantile(x: Float64Array, p: number): number {
+export function quantile(x: Float64Array, p: number): number {
   const s = x.slice().sort();
   if (s.length === 0) return NaN;
   const h = (s.length - 1) * p;
@@ -97,6 +97,9 @@ export interface StatCheck {
   /** Mean and sd of the statistic over the replicates. */
   replicatedMean: number;
   replicatedSd: number;
+  /** 5% and 95% quantiles of the statistic over the replicates (finite values only). */
+  replicatedQ05: number;
+  replicatedQ95: number;
   /** Predictive p-value, ties counted half. */
   p: number;
 }
@@ -109,6 +112,7 @@ export function checkStatistic(stat: Statistic, observed: ArrayLike<number>, rep
   let s = 0;
   let s2 = 0;
   let n = 0;
+  const finite = new Float64Array(replicates.length);
   for (const r of replicates) {
     const v = stat.of(r, idx);
     if (v > t) above++;
@@ -116,12 +120,21 @@ export function checkStatistic(stat: Statistic, observed: ArrayLike<number>, rep
     if (Number.isFinite(v)) {
       s += v;
       s2 += v * v;
-      n++;
+      finite[n++] = v;
     }
   }
   const m = n ? s / n : NaN;
   const sd = n > 1 ? Math.sqrt(Math.max(0, (s2 - n * m * m) / (n - 1))) : 0;
-  return { stat: stat.name, observed: t, replicatedMean: m, replicatedSd: sd, p: (above + 0.5 * ties) / replicates.length };
+  const fin = finite.subarray(0, n);
+  return {
+    stat: stat.name,
+    observed: t,
+    replicatedMean: m,
+    replicatedSd: sd,
+    replicatedQ05: quantile(fin, 0.05),
+    replicatedQ95: quantile(fin, 0.95),
+    p: (above + 0.5 * ties) / replicates.length,
+  };
 }
 
 export interface GroupCheck {

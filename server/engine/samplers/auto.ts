@@ -1,31 +1,38 @@
 /**
- * The automatic choice of engine ('auto'): a shortlist from the model's structure, then short
- * pilot chains of the shortlisted engines, compared by effective draws per unit of modelled work.
+ * The automatic choice of engine ('auto'): rules from the model's structure where the answer is
+ * clear, otherwise short pilot chains of the shortlisted engines compared by effective draws per
+ * unit of modelled work (docs/engine.md §9.2).
  *
- * - Shortlist (structure): transform-based HMC when the region is a product of bounds, simplices
- *   and orderings; reflective HMC always (it is plain HMC without inequalities); for a flat density
- *   on a bounded region the exact-chord walks (rounded and coordinate hit-and-run); for a varying
- *   density barrier-metric RHMC, coordinate and rounded hit-and-run.
- * - Pilots: a probe of PROBE_ITERATIONS iterations measures each candidate's modelled work per
- *   iteration; then one pilot chain per candidate, from the fit's first dispersed start, seeded with
- *   the fit's seed and a chain index of its own (PILOT_CHAIN_BASE + k), half warm-up. All pilots
- *   together cost about PILOT_SHARE (8%) of the fit's work at the cheapest candidate's rate, each
- *   between PILOT_MIN and PILOT_MAX iterations (pilotPlan). Pilot draws are warm-up: they are never
- *   returned or summarised.
+ * - Rules (no pilots): no inequalities → reflective HMC (plain HMC); a flat density on a box →
+ *   coordinate hit-and-run; a flat density on a product of bounds, simplices and orderings →
+ *   transform-based HMC.
+ * - Candidates otherwise: flat on a general polytope → rounded hit-and-run and reflective HMC; a
+ *   varying density → transform-based HMC (when the shape allows it), RHMC and reflective HMC.
+ * - Pilots: start at the bulk point (mode.ts bulkApproximation; the analytic centre for a flat
+ *   density). A probe of PROBE_ITERATIONS iterations measures each candidate's modelled work per
+ *   iteration; then one pilot chain per candidate, seeded with the fit's seed and a chain index of
+ *   its own (PILOT_CHAIN_BASE + k), half warm-up. All pilots together cost about PILOT_SHARE (8%)
+ *   of the fit's work at the cheapest candidate's rate, each between PILOT_MIN and PILOT_MAX
+ *   iterations (pilotPlan). Pilot draws are warm-up: they are never returned or summarised.
  * - Score: ESS per kept iteration from the pilot's mean squared jumps against the variance of all
- *   pilots pooled (scorePilot), minimum over coordinates, divided by the modelled work per iteration = density evaluations × the model's evaluation cost (a count from
- *   its data: 50 + 10·dim + 12·data cells) + the engine's own linear-algebra flops (ChainOutput.work;
- *   for RHMC about three factorisations and a few solves per evaluation). Work is counted, not
- *   timed, so the same model and seed always give the same choice and therefore identical draws;
- *   the benchmark (npm run bench -- samplers) checks the choice against measured ESS per second.
+ *   pilots pooled (scorePilot), minimum over coordinates, divided by the modelled work per
+ *   iteration = density evaluations × the model's evaluation cost (50 + 10·dim + 12·data cells)
+ *   + the engine's own linear-algebra flops. Work is counted, not timed, so the same model and seed
+ *   always give the same choice and therefore identical draws.
+ * - Starts: the chains start from the chosen pilot's draws moved START_EXPANSION× as far from the
+ *   bulk point (startsFromPilot), or, without pilots, from the widened Gaussian approximation there
+ *   (startsFromApproximation); rules keep the fit's dispersed starts.
  * - The engine is decided once per fit, before any chain starts (server/engine/fit.ts), and every
  *   chain runs it.
  */
 import type { ChainOutput, DataTables, SamplerName, TargetSpec } from '../types';
 import type { PreparedTarget } from '../geometry';
 import { isFlat } from '../geometry';
+import type { Rng } from '../rng';
+import type { Cholesky } from '../linalg/cholesky';
 import { detectTransformShape } from './transform-hmc';
 import { detectStructure } from '../linalg/metric';
+import { eliminatedTarget } from '../geometry/elimination';
 
 export interface Shortlist {
   candidates: SamplerName[];
@@ -38,27 +45,52 @@ export function shortlistEngines(p: PreparedTarget): Shortlist {
   if (flat && !p.bounded) {
     throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
   }
-  const shape = detectTransformShape(p.target);
   // Without inequalities both HMC engines are plain HMC (no faces, no transforms to make).
   if (p.m === 0) return { candidates: ['reflect-hmc'], why: 'there are no inequality constraints, so plain HMC applies' };
+  const shape = detectTransformShape(p.target);
+  if (flat) {
+    // Rules for a flat density, where the answer does not depend on a likelihood.
+    // A box (every kept row bounds one reduced coordinate): the coordinates are independent
+    // uniforms, so each coordinate move of coordinate hit-and-run is an exact draw of its
+    // coordinate, at the cost of one chord (no density evaluation).
+    if (isBox(p)) {
+      return {
+        candidates: ['coord-hitrun'],
+        why: 'the density is flat on a box (every constraint bounds one coordinate), so the coordinates are independent uniforms that coordinate hit-and-run draws exactly, one move each',
+      };
+    }
+    // A product of bounds, simplices and orderings: the transforms turn the uniform into a smooth
+    // unconstrained density without faces, on which HMC moves far per gradient.
+    if (shape.ok) {
+      return {
+        candidates: ['transform-hmc'],
+        why: `the density is flat and the region is a product of standard shapes (${shape.plan.description}), whose exact transforms give HMC a smooth density without faces`,
+      };
+    }
+    // A general polytope: rounded hit-and-run (affine-invariant, exact chords, no gradient) against
+    // reflective HMC (long moves when the shape is well scaled along the coordinates).
+    return { candidates: ['hitrun', 'reflect-hmc'], why: 'the density is flat on a general polytope' };
+  }
+  // A varying density: the gradient-based engines (the walks' slice moves cost many evaluations
+  // per draw and were never ahead on a varying density in the benchmark, bench/results/samplers.md).
   const c: SamplerName[] = [];
   const parts: string[] = [];
   if (shape.ok) {
     c.push('transform-hmc');
     parts.push(`the region is a product of standard shapes (${shape.plan.description})`);
   } else parts.push('the region is a general polytope');
-  c.push('reflect-hmc');
-  if (flat) {
-    c.push('hitrun', 'coord-hitrun');
-    parts.push('the density is flat on a bounded region');
-  } else {
-    // Measured (bench/results/samplers.md): barrier RHMC wins the isotonic posterior, where
-    // binding orderings give transformed coordinates a funnel; coordinate moves suit near-
-    // independent coordinates.
-    c.push('rhmc', 'coord-hitrun', 'hitrun');
-    parts.push('the density varies');
-  }
+  // Order matters only when the fit is too short for pilots (the first candidate is used): RHMC
+  // before reflective HMC unless its barrier metric has to be factorised densely.
+  if (detectStructure(p.rows).kind === 'dense') c.push('reflect-hmc', 'rhmc');
+  else c.push('rhmc', 'reflect-hmc');
+  parts.push('the density varies');
   return { candidates: c, why: parts.join(' and ') };
+}
+
+/** True when every kept inequality row involves a single reduced coordinate (a box, possibly half-open). */
+export function isBox(p: PreparedTarget): boolean {
+  for (let i = 0; i < p.m; i++) if (p.rows.ptr[i + 1] - p.rows.ptr[i] !== 1) return false;
+  return true;
 }
 
 /** Modelled cost of one log-density evaluation, in flops, from the model's size. */
@@ -88,13 +120,13 @@ export function pilotPlan(workPerIteration: number[], fitIterations: number): nu
   const finite = workPerIteration.filter((w) => Number.isFinite(w) && w > 0);
   const wMin = finite.length ? Math.min(...finite) : 1;
   const each = (PILOT_SHARE * fitIterations * wMin) / Math.max(1, finite.length);
-  // A candidate whose PILOT_MIN iterations would cost more than three shares is not piloted (0):
-  // engines differ a lot in work per iteration (the walks thin by n), so some overrun is allowed.
+  // A candidate whose PILOT_MIN iterations would cost more than its share is not piloted (0): a
+  // candidate that expensive per iteration would need to mix far better to pay for itself, and its
+  // pilot alone would cost more than the choice may.
   return workPerIteration.map((w) => {
     if (!Number.isFinite(w)) return 0;
     const it = Math.floor(each / Math.max(w, 1e-12));
-    if (it >= PILOT_MIN) return Math.min(PILOT_MAX, it);
-    return PILOT_MIN * w <= 3 * each ? PILOT_MIN : 0;
+    return it >= PILOT_MIN ? Math.min(PILOT_MAX, it) : 0;
   });
 }
 
@@ -120,14 +152,16 @@ export interface PilotScore {
  */
 export function rhmcStepWork(p: PreparedTarget, dense = false): number {
   const n = p.n;
-  const s = detectStructure(p.rows, dense ? 'dense' : undefined);
+  // RHMC runs models with equalities in the sparse elimination coordinates (samplers/index.ts).
+  const rows = !dense && p.N ? (eliminatedTarget(p)?.q.rows ?? p.rows) : p.rows;
+  const s = detectStructure(rows, dense ? 'dense' : undefined);
   const k = s.lowRankRows.length;
   const band = s.bandwidth;
   let factor: number;
   let solve: number;
   if (s.kind === 'dense') {
     let gram = 0;
-    for (let i = 0; i < p.m; i++) gram += (p.rows.ptr[i + 1] - p.rows.ptr[i]) ** 2;
+    for (let i = 0; i < rows.m; i++) gram += (rows.ptr[i + 1] - rows.ptr[i]) ** 2;
     factor = (n * n * n) / 3 + gram;
     solve = n * n;
   } else {
@@ -135,7 +169,7 @@ export function rhmcStepWork(p: PreparedTarget, dense = false): number {
     factor = n * (band + 1) * (band + 1) + k * n * (band + 1) + (k * k * k) / 3;
     solve = n * (band + 1) + k * n;
   }
-  return 3 * factor + 12 * (solve + p.rows.val.length);
+  return 3 * factor + 12 * (solve + rows.val.length);
 }
 
 /**
@@ -243,7 +277,109 @@ export function unpilotedReason(list: Shortlist): { sampler: SamplerName; reason
   };
 }
 
+/** Only candidate k can afford a pilot within the fit's share: it is used, without a pilot. */
+export function onlyAffordableReason(list: Shortlist, k: number): { sampler: SamplerName; reason: string } {
+  const others = list.candidates.filter((_, j) => j !== k);
+  return {
+    sampler: list.candidates[k],
+    reason: `Automatic: ${list.why}, so the candidates were ${list.candidates.join(', ')}; a pilot of ${others.join(' or ')} would cost more than its share of 8% of the fit's work (their work per iteration, from a 6-iteration probe or an estimate, is too high for this fit's length), so ${list.candidates[k]} was used without pilots.`,
+  };
+}
+
 /** A single candidate needs no pilot. */
 export function soleCandidateReason(list: Shortlist): { sampler: SamplerName; reason: string } {
   return { sampler: list.candidates[0], reason: `Automatic: ${list.why}, so ${list.candidates[0]} was used without pilots.` };
+}
+
+/** Random stream of the starts drawn from a pilot (distinct from the fit's dispersed starts). */
+export const STARTS_FROM_PILOT_STREAM = 0x57a7;
+/** Expansion of a pilot draw away from the bulk point: starts with 1.5² times the posterior's spread. */
+export const START_EXPANSION = 1.5;
+export const STARTS_NOTE = `Its chains start from the chosen pilot's draws moved ${START_EXPANSION}× as far from the bulk point (the first barrier stage of the mode search), so they are overdispersed relative to the posterior the pilots saw.`;
+
+/**
+ * Starts for `count` chains: kept draws of the chosen engine's pilot (spread over its run), each
+ * moved START_EXPANSION times as far from the pilots' start `bulk`, pulled back towards the draw
+ * until strictly inside with a margin. Starting from an overdispersed approximation of the
+ * posterior found from its mode is the recommendation of "Inference from iterative simulation using
+ * multiple sequences" (Statistical Science, 1992); the region-wide dispersed starts can be far
+ * out in the tails of a concentrated posterior, where a gradient-based warm-up adapts badly.
+ * Returns null when the pilot kept too few draws.
+ */
+export function startsFromPilot(p: PreparedTarget, bulk: Float64Array, pilot: ChainOutput, count: number, rng: Rng): Float64Array[] | null {
+  const dim = p.target.dim;
+  const n = p.n;
+  const draws = pilot.draws.length / dim;
+  if (draws < 2) return null;
+  const out: Float64Array[] = [];
+  const z = new Float64Array(n);
+  const y = new Float64Array(n);
+  const s = new Float64Array(p.m);
+  for (let c = 0; c < count; c++) {
+    // Draws from the second half of the pilot's kept draws, one per chain, in a random order.
+    const i = draws - 1 - Math.floor(rng.uniform() * Math.max(1, Math.floor(draws / 2)));
+    toReduced(p, pilot.draws.subarray(i * dim, (i + 1) * dim), z);
+    let f = START_EXPANSION;
+    let ok = false;
+    for (let k = 0; k < 30 && !ok; k++) {
+      for (let q = 0; q < n; q++) y[q] = bulk[q] + f * (z[q] - bulk[q]);
+      p.rows.mul(y, s);
+      ok = true;
+      for (let r = 0; r < p.m; r++) if (!(p.b[r] - s[r] > 1e-9 * (1 + Math.abs(p.b[r])))) ok = false;
+      if (ok && !Number.isFinite(p.logDensity(y, new Float64Array(n)))) ok = false;
+      f = 1 + (f - 1) * 0.5;
+    }
+    if (!ok) return null;
+    out.push(Float64Array.from(y));
+  }
+  return out;
+}
+
+export const APPROXIMATION_STARTS_NOTE = `Its chains start from draws of the Gaussian approximation at the bulk point (the first barrier stage of the mode search), its spread widened ${START_EXPANSION}×.`;
+
+/**
+ * Starts when no pilot ran: z = bulk + START_EXPANSION · L⁻ᵀ ξ, ξ standard normal, where LLᵀ is the
+ * curvature at the bulk point (mode.ts bulkApproximation) — an overdispersed Gaussian
+ * approximation centred in the mass ("Inference from iterative simulation using multiple
+ * sequences", Statistical Science, 1992); each pulled towards the bulk point until strictly inside.
+ */
+export function startsFromApproximation(p: PreparedTarget, bulk: Float64Array, factor: Cholesky, count: number, rng: Rng): Float64Array[] | null {
+  const n = p.n;
+  const out: Float64Array[] = [];
+  const xi = new Float64Array(n);
+  const d = new Float64Array(n);
+  const y = new Float64Array(n);
+  const s = new Float64Array(p.m);
+  for (let c = 0; c < count; c++) {
+    rng.normals(xi);
+    factor.backward(xi, d);
+    let f = START_EXPANSION;
+    let ok = false;
+    for (let k = 0; k < 40 && !ok; k++) {
+      for (let q = 0; q < n; q++) y[q] = bulk[q] + f * d[q];
+      p.rows.mul(y, s);
+      ok = true;
+      for (let r = 0; r < p.m; r++) if (!(p.b[r] - s[r] > 1e-9 * (1 + Math.abs(p.b[r])))) ok = false;
+      if (ok && !Number.isFinite(p.logDensity(y, new Float64Array(n)))) ok = false;
+      f *= 0.7;
+    }
+    if (!ok) return null;
+    out.push(Float64Array.from(y));
+  }
+  return out;
+}
+
+/** θ → z: z = Nᵀ(θ − θ₀) (N orthonormal), or θ itself without equalities. */
+function toReduced(p: PreparedTarget, theta: Float64Array, z: Float64Array): void {
+  const n = p.n;
+  if (!p.N) {
+    for (let q = 0; q < n; q++) z[q] = theta[q];
+    return;
+  }
+  z.fill(0);
+  const dim = p.target.dim;
+  for (let j = 0; j < dim; j++) {
+    const d = theta[j] - p.theta0[j];
+    for (let q = 0; q < n; q++) z[q] += p.N[j * n + q] * d;
+  }
 }

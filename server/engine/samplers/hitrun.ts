@@ -81,7 +81,7 @@ export function hitRunStep(p: PreparedTarget, st: HitRunState, rng: Rng, adapt: 
   rng.normals(u);
   const nu = Math.sqrt(dot(u, u));
   for (let q = 0; q < n; q++) u[q] /= nu;
-  if (st.rounded) backwardL(p.dikinL, n, u, d);
+  if (st.rounded) backwardL(p.dikinL, n, u, d, p.dikinFirst);
   else d.set(u);
   p.rows.mul(d, Ad);
   const [tmin, tmax] = chord(s, Ad, m);

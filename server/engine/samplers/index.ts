@@ -5,6 +5,9 @@ import type { ChainOptions, ChainOutput, SamplerName } from '../types';
 import type { PreparedTarget } from '../geometry';
 import { isFlat } from '../geometry';
 import { Rng } from '../rng';
+import { bulkApproximation } from '../mode';
+import { eliminatedTarget } from '../geometry/elimination';
+import type { Cholesky } from '../linalg/cholesky';
 import { hitRunChain } from './hitrun';
 import { rhmcChain } from './rhmc';
 import { ballWalkChain } from './ball-walk';
@@ -13,7 +16,7 @@ import { dikinWalkChain } from './dikin-walk';
 import { rwmChain } from './rwm';
 import { reflectHmcChain } from './reflect-hmc';
 import { transformHmcChain } from './transform-hmc';
-import { modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, pooledVariance, PROBE_ITERATIONS, rhmcWorkEstimate, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
+import { onlyAffordableReason, APPROXIMATION_STARTS_NOTE, startsFromApproximation, startsFromPilot, STARTS_FROM_PILOT_STREAM, STARTS_NOTE, modelledWork, PILOT_CHAIN_BASE, pickByPilots, pilotPlan, pooledVariance, PROBE_ITERATIONS, rhmcWorkEstimate, scorePilot, shortlistEngines, soleCandidateReason, unpilotedReason } from './auto';
 
 /**
  * Checker for kept draws: maps z to θ and verifies A θ ≤ b and E θ = e on the ORIGINAL rows, with a
@@ -92,8 +95,13 @@ function sampleWith(p: PreparedTarget, sampler: SamplerName, start: Float64Array
     throw new Error('The log-density is constant and the region is unbounded, so the distribution is improper: add a prior or bounds.');
   }
   switch (sampler) {
-    case 'rhmc':
+    case 'rhmc': {
+      // With equalities, RHMC runs in the sparse elimination coordinates (geometry/elimination.ts)
+      // so the inequality rows, and with them the metric, keep their structure.
+      const el = p.N ? eliminatedTarget(p) : null;
+      if (el) return rhmcChain(el.q, el.fromZ(start), opts, rng, makeDrawCheck(el.q), {});
       return rhmcChain(p, start, opts, rng, check, {});
+    }
     case 'rhmc-gl':
       return rhmcChain(p, start, opts, rng, check, { integrator: 'leapfrog' });
     case 'hitrun':
@@ -117,6 +125,26 @@ function sampleWith(p: PreparedTarget, sampler: SamplerName, start: Float64Array
   }
 }
 
+/** The pilots' start: the analytic centre for a flat density, else a bulk point; `fallback` if that fails. */
+export function pilotStart(p: PreparedTarget, fallback: Float64Array): Float64Array {
+  if (isFlat(p)) return p.centre;
+  return safeBulk(p)?.z ?? fallback;
+}
+
+/** The bulk approximation (mode.ts) when it is strictly inside with a finite density, else null. */
+function safeBulk(p: PreparedTarget): { z: Float64Array; factor: Cholesky } | null {
+  try {
+    const r = bulkApproximation(p);
+    const s = new Float64Array(p.m);
+    p.rows.mul(r.z, s);
+    for (let i = 0; i < p.m; i++) if (!(p.b[i] - s[i] > 0)) return null;
+    if (!Number.isFinite(p.logDensity(r.z, new Float64Array(p.n)))) return null;
+    return r;
+  } catch {
+    return null;
+  }
+}
+
 export { shortlistEngines, evaluationCostOf, PILOT_CHAIN_BASE } from './auto';
 
 /** A pilot run: one chain of `engine` from `start` with the given warm-up, draws and chain index. */
@@ -131,17 +159,23 @@ export type PilotRunner = (
  */
 export async function chooseEngine(
   p: PreparedTarget,
-  o: { start: Float64Array; fitIterations: number; evalCost: number },
+  o: { start: Float64Array; fitIterations: number; evalCost: number; chains?: number; seed?: number },
   runPilots: PilotRunner,
-): Promise<{ sampler: SamplerName; reason: string }> {
+): Promise<{ sampler: SamplerName; reason: string; starts?: Float64Array[] }> {
   const list = shortlistEngines(p);
   if (list.candidates.length === 1) return soleCandidateReason(list);
+  // Pilots start in the bulk of the mass, not at the fit's dispersed start: a flat density's bulk
+  // is around the analytic centre; otherwise the first barrier stage of the mode search (mode.ts
+  // bulkPoint). Pilots then measure mixing, not the journey towards the mass.
+  const flat = isFlat(p);
+  const bulk = flat ? null : safeBulk(p);
+  const start = flat ? p.centre : (bulk?.z ?? o.start);
   // Probes: a few iterations of each candidate give its modelled work per iteration. RHMC's probe
   // alone (its step-size search) can cost more than the other pilots together, so it is probed
   // only when its estimated work (rhmcWorkEstimate) would let it afford a pilot.
   const cheap = list.candidates.map((_, k) => k).filter((k) => list.candidates[k] !== 'rhmc');
   const cheapProbes = await runPilots(
-    cheap.map((k) => ({ engine: list.candidates[k], start: o.start, warmup: PROBE_ITERATIONS / 2, draws: PROBE_ITERATIONS / 2, chain: PILOT_CHAIN_BASE + k })),
+    cheap.map((k) => ({ engine: list.candidates[k], start, warmup: PROBE_ITERATIONS / 2, draws: PROBE_ITERATIONS / 2, chain: PILOT_CHAIN_BASE + k })),
   );
   const probes: (ChainOutput | Error | null)[] = list.candidates.map((_, k) => (cheap.includes(k) ? cheapProbes[cheap.indexOf(k)] : null));
   const perIteration = list.candidates.map((engine, k) => {
@@ -152,17 +186,25 @@ export async function chooseEngine(
   const plan = pilotPlan(perIteration, o.fitIterations);
   for (let k = 0; k < list.candidates.length; k++) {
     if (probes[k] !== null || plan[k] === 0) continue;
-    const [out] = await runPilots([{ engine: list.candidates[k], start: o.start, warmup: PROBE_ITERATIONS / 2, draws: PROBE_ITERATIONS / 2, chain: PILOT_CHAIN_BASE + k }]);
+    const [out] = await runPilots([{ engine: list.candidates[k], start, warmup: PROBE_ITERATIONS / 2, draws: PROBE_ITERATIONS / 2, chain: PILOT_CHAIN_BASE + k }]);
     probes[k] = out;
     perIteration[k] = out instanceof Error ? Infinity : modelledWork(p, list.candidates[k], out, o.evalCost) / PROBE_ITERATIONS;
     plan[k] = pilotPlan(perIteration, o.fitIterations)[k];
   }
   const run = list.candidates.map((_, k) => k).filter((k) => plan[k] > 0);
-  if (run.length === 0) return unpilotedReason(list);
+  if (run.length <= 1) {
+    // Nothing to compare: the one candidate that can afford a pilot (or, if none can, the first by
+    // structure) is used without one.
+    const u = run.length === 1 ? onlyAffordableReason(list, run[0]) : unpilotedReason(list);
+    // No pilot draws: the chains start from the Gaussian approximation at the bulk point, widened.
+    if (!bulk || !o.chains) return u;
+    const starts = startsFromApproximation(p, bulk.z, bulk.factor, o.chains, new Rng(o.seed ?? 1, STARTS_FROM_PILOT_STREAM));
+    return starts ? { ...u, reason: `${u.reason} ${APPROXIMATION_STARTS_NOTE}`, starts } : u;
+  }
   const outs = await runPilots(
     run.map((k) => ({
       engine: list.candidates[k],
-      start: o.start,
+      start,
       warmup: Math.floor(plan[k] / 2),
       draws: plan[k] - Math.floor(plan[k] / 2),
       chain: PILOT_CHAIN_BASE + list.candidates.length + k,
@@ -176,5 +218,15 @@ export async function chooseEngine(
     if (r < 0) return pr instanceof Error ? scorePilot(p, engine, pr, 0, o.evalCost) : { engine, essPerIteration: 0, workPerIteration: Infinity, score: 0 };
     return scorePilot(p, engine, outs[r], Math.floor(plan[k] / 2), o.evalCost, V);
   });
-  return pickByPilots(list, scores, plan);
+  const pick = pickByPilots(list, scores, plan);
+  if (!o.chains) return pick;
+  // The fit's chains start from the chosen engine's pilot draws pushed away from the bulk point
+  // (overdispersed relative to the posterior the pilots saw), instead of from the region's spread.
+  const chosen = run.indexOf(list.candidates.indexOf(pick.sampler));
+  const pilot = chosen >= 0 ? outs[chosen] : undefined;
+  const rng = new Rng(o.seed ?? 1, STARTS_FROM_PILOT_STREAM);
+  const starts = pilot && !(pilot instanceof Error) ? startsFromPilot(p, start, pilot, o.chains, rng) : null;
+  if (starts) return { ...pick, reason: `${pick.reason} ${STARTS_NOTE}`, starts };
+  const approx = bulk ? startsFromApproximation(p, bulk.z, bulk.factor, o.chains, rng) : null;
+  return approx ? { ...pick, reason: `${pick.reason} ${APPROXIMATION_STARTS_NOTE}`, starts: approx } : pick;
 }

@@ -162,6 +162,7 @@ export class PointState {
     this.z.set(o.z);
     this.s.set(o.s);
     this.chol.L.set(o.chol.L);
+    this.chol.first.set(o.chol.first);
     this.gradL.set(o.gradL);
     this.gradU.set(o.gradU);
     this.l = o.l;

@@ -14,6 +14,10 @@ import { storedChains } from '../../../server/runs/queue';
 import { claimUnit, endChainUnit, failUnitRun, heartbeatUnit, writeUnitProgress } from '../../../server/runs/units';
 import { RunWorker } from '../../../server/runs/worker';
 import { RUN_LIMITS } from '../../../shared/api/notebook';
+import { decodeRunDraws, DRAWS_CONTENT_TYPE } from '../../../shared/draws-binary';
+import { drawsCsvHeader, drawsCsvRows } from '../../../shared/export-csv';
+import { decodeDraws } from '../../../server/runs/draws-codec';
+import { drawsEncodings, streamRunDrawsCsv } from '../../../server/runs/read';
 import { notebookWorld, postFile, type NotebookWorld } from './setup';
 
 let w: NotebookWorld;
@@ -254,15 +258,38 @@ describe('a fit end to end', () => {
     const list = await w.viewer.get(`${w.base}/cells/${fit.id}/runs`);
     expect(list.body.runs[0].id).toBe(runId);
 
-    const draws = await w.viewer.get(`/api/workspaces/${w.ws}/runs/${runId}/draws?max=100`);
-    expect(draws.status).toBe(200);
-    expect(draws.body.names).toEqual(['rate']);
-    expect(draws.body.thin).toBe(3);
-    expect(draws.body.chains).toHaveLength(2);
-    expect(draws.body.chains[0].values[0].length).toBe(100);
-    expect(draws.body.region.A).toEqual([[-1], [1]]);
+    // The plots' draws: Float32 columns after a JSON header, for members and share-link visitors alike.
+    const drawsOf = async (path: string, cookie?: string) => {
+      const res = await fetch(w.viewer.baseUrl + path, { headers: cookie ? { cookie } : {} });
+      expect(res.status).toBe(200);
+      expect(res.headers.get('content-type')).toBe(DRAWS_CONTENT_TYPE);
+      return { bytes: new Uint8Array(await res.arrayBuffer()) };
+    };
+    const member = await drawsOf(`/api/workspaces/${w.ws}/runs/${runId}/draws?max=100`, w.viewer.cookieHeader);
+    const draws = decodeRunDraws(member.bytes.slice().buffer);
+    expect(draws.names).toEqual(['rate']);
+    expect(draws.thin).toBe(3);
+    expect(draws.chains).toHaveLength(2);
+    expect(draws.chains[0].values[0].length).toBe(100);
+    expect(draws.region!.A).toEqual([[-1], [1]]);
     // One unknown: no pair to project the region onto.
-    expect(draws.body.projections).toEqual([]);
+    expect(draws.projections).toEqual([]);
+    // Each plotted value is the stored Float64 draw (every 3rd) rounded to Float32 (Math.fround: ECMAScript's binary32 rounding).
+    const stored = await w.server.db.db.select().from(runChains).where(eq(runChains.runId, runId)).orderBy(asc(runChains.chainIndex));
+    for (const [ci, c] of stored.entries()) {
+      const all = decodeDraws(c.draws, c.drawCount, c.dimension);
+      for (let i = 0; i < 100; i++) expect(draws.chains[ci].values[0][i]).toBe(Math.fround(all[i * 3 * c.dimension]));
+    }
+    // A second read is served from the cache: no second thinning on the compute pool.
+    const encoded = drawsEncodings.count;
+    expect((await drawsOf(`/api/workspaces/${w.ws}/runs/${runId}/draws?max=100`, w.viewer.cookieHeader)).bytes).toEqual(member.bytes);
+    expect(drawsEncodings.count).toBe(encoded);
+    const link = await w.owner.post(`${w.base}/share-links`, {});
+    expect(link.status).toBe(201);
+    const token = (link.body as { token: string }).token;
+    const visitor = await drawsOf(`/api/share/${token}/runs/${runId}/draws?max=100`);
+    expect(visitor.bytes).toEqual(member.bytes);
+    expect((await w.viewer.get(`/api/share/${token}/runs/${newId()}/draws`)).status).toBe(404);
 
     const csvRes = await w.viewer.get(`/api/workspaces/${w.ws}/runs/${runId}/draws.csv`);
     expect(csvRes.status).toBe(200);
@@ -271,6 +298,14 @@ describe('a fit end to end', () => {
     expect(rows[0]).toEqual(['chain', 'iteration', 'rate']);
     expect(rows.length - 1).toBe(settings.chains * settings.draws);
     expect(rows.slice(1).every((r) => Number(r[2]) >= 1 && Number(r[2]) <= 20)).toBe(true);
+    // The streamed file equals the file as it was written whole before (header, then each chain's rows),
+    // through the route and in pieces of 7 rows (100 bytes of stored draws) alike.
+    const whole = [drawsCsvHeader(['rate']), ...stored.flatMap((c) => [...drawsCsvRows(c.chainIndex + 1, decodeDraws(c.draws, c.drawCount, c.dimension), c.dimension, new Float64Array(0), 0)])].join('\n') + '\n';
+    expect(csvRes.text).toBe(whole);
+    const pieces: Uint8Array[] = [];
+    await streamRunDrawsCsv(w.server.db.db, w.ws, runId, { begin: () => {}, write: async (b) => void pieces.push(b), end: () => {} }, 100);
+    expect(pieces.length).toBe(2 * Math.ceil(settings.draws / 12));
+    expect(Buffer.concat(pieces).toString('utf8')).toBe(whole);
 
     const sum = await w.viewer.get(`/api/workspaces/${w.ws}/runs/${runId}/summary.csv`);
     const srows = Papa.parse<string[]>(sum.text.trim()).data;

@@ -7,6 +7,8 @@ import type { Db } from '../../../server/db/client';
 import { cells, comments, datasets, runs } from '../../../server/db/schema';
 import { newId } from '../../../server/lib/ids';
 import { finishRun } from '../../../server/runs/queue';
+import { compareRunValues } from '../../../server/runs/compare-job';
+import { compareContentSchema } from '../../../shared/api/compare';
 import { readUpload } from '../../../server/notebook/datasets';
 import type { FitSummary } from '../../../shared/fit';
 
@@ -17,6 +19,8 @@ export interface NotebookMatrixWorld {
   modelCell: string;
   doneRun: string;
   queuedRun: string;
+  compareCell: string;
+  queuedCompare: string;
   comment: string;
 }
 
@@ -78,7 +82,17 @@ export async function notebookMatrixWorld(db: Db, ws: string, nb: string, ownerI
     { fit: 1 },
   );
   if (!ok) throw new Error('could not store the matrix run');
+  // A compare cell of the model and a queued comparison of it (compare-job.ts).
+  const compareCell = newId();
+  await db.insert(cells).values({ ...base, id: compareCell, kind: 'compare', position: 5, source: '', content: compareContentSchema.parse({ modelCellIds: [modelCell] }) });
+  const queuedCompare = newId();
+  await db.insert(runs).values(compareRunValues({
+    id: queuedCompare, workspaceId: ws, notebookId: nb, cellId: compareCell, status: 'queued',
+    settings: { modelCellIds: [modelCell], hypotheses: [], reference: null, priorOdds: [], replicates: 2, seed: 1, factors: [1] }, seed: 1, modelHash: 'c'.repeat(64),
+    spec: { kind: 'compare', models: [{ cellId: modelCell, label: 'Matrix model', source: 'unknown b\nterm ld_normal(b, 0, 1)\nconstrain b >= 0', tables: {}, fitRunId: null }] },
+    progress: null, attempts: 0, requestedBy: ownerId, createdAt: now,
+  }));
   const comment = newId();
   await db.insert(comments).values({ id: comment, workspaceId: ws, notebookId: nb, cellId: notesCell, parentId: null, authorId: reviewerId, body: 'Why this prior?', resolved: false, createdAt: now, updatedAt: now });
-  return { notesCell, dataset, fitCell, modelCell, doneRun, queuedRun, comment };
+  return { notesCell, dataset, fitCell, modelCell, doneRun, queuedRun, compareCell, queuedCompare, comment };
 }

@@ -6,7 +6,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { RunWorker } from '../../../server/runs/worker';
 import { DATASET_PREVIEW_ROWS } from '../../../shared/api/notebook';
-import { decodeDrawsBinary } from '../../../shared/api/draws-binary';
 import { notebookWorld, postFile, type NotebookWorld } from './setup';
 
 let w: NotebookWorld;
@@ -51,20 +50,5 @@ describe('GET …/notebooks/:id/page', () => {
     expect(b.comments).toEqual((await w.viewer.get(`${w.base}/comments`)).body.comments);
 
     expect((await w.outsider.get(`${w.base}/page`)).status).toBe(404);
-
-    // The draws in columnar binary equal the JSON draws rounded to single precision (IEEE 754
-    // binary32, Math.fround), with the same thinning, divergences, region and projections.
-    const runId = b.cellRuns[0].runs[0].id;
-    const json = (await w.viewer.get(`/api/workspaces/${w.ws}/runs/${runId}/draws?max=50`)).body;
-    const res = await fetch(`${w.server.url}/api/workspaces/${w.ws}/runs/${runId}/draws.bin?max=50`, { headers: { cookie: w.viewer.cookieHeader } });
-    expect(res.status).toBe(200);
-    expect(res.headers.get('content-type')).toBe('application/octet-stream');
-    const bin = decodeDrawsBinary(await res.arrayBuffer());
-    expect(bin.chains.map((c) => c.values.map((col) => col.length))).toEqual(json.chains.map((c: { values: number[][] }) => c.values.map((col) => col.length)));
-    expect(bin).toEqual({
-      ...json,
-      chains: json.chains.map((c: { chain: number; values: number[][]; divergent: number[] }) => ({ ...c, values: c.values.map((col) => col.map(Math.fround)) })),
-    });
-    expect((await fetch(`${w.server.url}/api/workspaces/${w.ws}/runs/${runId}/draws.bin`, { headers: { cookie: w.outsider.cookieHeader } })).status).toBe(404);
   });
 });

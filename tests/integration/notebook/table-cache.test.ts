@@ -1,7 +1,7 @@
 /**
  * Tables parsed once: a stored CSV is parsed at upload and then served from the table cache to
  * previews, share-link readers, model checks and fits; concurrent readers of a table that is not
- * cached share one parse.
+ * cached share one load (of its stored typed columns: see dataset-columns.test.ts).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { tableCache } from '../../../server/notebook/table-cache';

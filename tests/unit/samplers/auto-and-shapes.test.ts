@@ -6,7 +6,10 @@ import { describe, expect, it } from 'vitest';
 import { prepareTarget } from '../../../server/engine/geometry';
 import { compileProgram } from '../../../server/engine/compile';
 import { detectTransformShape, TransformMap } from '../../../server/engine/samplers/transform-hmc';
-import { chooseEngine, sampleChain } from '../../../server/engine/samplers';
+import { chooseEngine, pilotStart, sampleChain } from '../../../server/engine/samplers';
+import { startsFromApproximation, startsFromPilot } from '../../../server/engine/samplers/auto';
+import { bulkApproximation } from '../../../server/engine/mode';
+import normal from '@stdlib/stats-base-dists-normal';
 import { runFit } from '../../../server/engine/fit';
 import { Rng } from '../../../server/engine/rng';
 import { PROBLEMS } from '../../../bench/problems';
@@ -102,14 +105,65 @@ describe('transform-based HMC: shapes', () => {
 });
 
 describe('automatic choice', () => {
-  it('same model and seed ⇒ the same engine and identical draws; the reason names the pilots', async () => {
+  it('a flat density on standard shapes takes transform-based HMC by rule, without pilots; same model and seed ⇒ identical draws', async () => {
     const spec = { kind: 'program' as const, source: 'unknown x[4]\nconstrain 0 <= x[1]\nconstrain diff(x) >= 0\nconstrain x[4] <= 1', tables: {} };
     const a = await runFit(spec, { chains: 2, warmup: 150, draws: 150, seed: 3 }, { parallel: false });
     const b = await runFit(spec, { chains: 2, warmup: 150, draws: 150, seed: 3 }, { parallel: false });
-    expect(a.summary.diagnostics.samplerUsed).toBe(b.summary.diagnostics.samplerUsed);
-    expect(a.summary.diagnostics.samplerReason).toMatch(/Pilot chains/);
+    expect(a.summary.diagnostics.samplerUsed).toBe('transform-hmc');
+    expect(a.summary.diagnostics.samplerReason).toMatch(/without pilots/);
     expect(a.summary.diagnostics.samplerReason).toBe(b.summary.diagnostics.samplerReason);
     expect(Array.from(a.chains[1].draws)).toEqual(Array.from(b.chains[1].draws));
+    // The same draws as the engine chosen explicitly (the rule adds nothing to the chains).
+    const c = await runFit(spec, { chains: 2, warmup: 150, draws: 150, seed: 3, sampler: 'transform-hmc' }, { parallel: false });
+    expect(Array.from(a.chains[1].draws)).toEqual(Array.from(c.chains[1].draws));
+  }, 60_000);
+
+  it('pilots from the bulk point, chains from the chosen pilot\'s overdispersed draws: truncated normal means match the handbook within 4 MCSE', async () => {
+    // x ~ N(0, 1) truncated to x ≥ 1, y ~ N(0, 1) truncated to y ≥ 0.5: mean φ(a)/(1 − Φ(a))
+    // ("Continuous Univariate Distributions", vol. 1, 2nd ed., Wiley 1994, ch. 13, truncated normal).
+    const spec = { kind: 'program' as const, source: 'unknown x, y\nterm ld_normal(x, 0, 1) + ld_normal(y, 0, 1)\nconstrain x >= 1\nconstrain y >= 0.5', tables: {} };
+    const r = await runFit(spec, { chains: 4, warmup: 500, draws: 500, seed: 11 }, { parallel: false });
+    expect(r.summary.diagnostics.samplerReason).toMatch(/Pilot chains/);
+    expect(r.summary.diagnostics.samplerReason).toMatch(/overdispersed/);
+    for (const [name, a] of [['x', 1], ['y', 0.5]] as const) {
+      const qs = r.summary.quantities.find((x) => x.name === name)!;
+      const truth = normal.pdf(a, 0, 1) / (1 - normal.cdf(a, 0, 1));
+      expect(Math.abs(qs.mean - truth)).toBeLessThan(4 * qs.mcseMean);
+      expect(qs.rhat).toBeLessThan(1.01);
+    }
+    // Starts from a pilot: strictly inside, deterministic in the seed, and not all equal.
+    const p = prepareTarget(compileProgram(spec.source, {}));
+    const bulk = pilotStart(p, p.centre);
+    const pilot = sampleChain(p, 'reflect-hmc', bulk, { warmup: 50, draws: 50, seed: 1, chain: 1000 });
+    const s1 = startsFromPilot(p, bulk, pilot, 4, new Rng(1, 2))!;
+    const s2 = startsFromPilot(p, bulk, pilot, 4, new Rng(1, 2))!;
+    expect(s1.map((z) => Array.from(z))).toEqual(s2.map((z) => Array.from(z)));
+    for (const z of s1) {
+      expect(z[0]).toBeGreaterThan(1);
+      expect(z[1]).toBeGreaterThan(0.5);
+    }
+    expect(new Set(s1.map((z) => z[0])).size).toBeGreaterThan(1);
+  }, 60_000);
+
+  it('a fit too short for pilots starts its chains from the widened Gaussian approximation at the bulk point: truncated normal means within 4 MCSE', async () => {
+    // Same targets and handbook means as above; 8 chains × (50 + 50) leaves no room for pilots.
+    const spec = { kind: 'program' as const, source: 'unknown x, y\nterm ld_normal(x, 0, 1) + ld_normal(y, 0, 1)\nconstrain x >= 1\nconstrain y >= 0.5', tables: {} };
+    const r = await runFit(spec, { chains: 8, warmup: 50, draws: 50, seed: 12 }, { parallel: false });
+    expect(r.summary.diagnostics.samplerReason).toMatch(/too short for pilots/);
+    expect(r.summary.diagnostics.samplerReason).toMatch(/Gaussian approximation/);
+    for (const [name, a] of [['x', 1], ['y', 0.5]] as const) {
+      const qs = r.summary.quantities.find((x) => x.name === name)!;
+      const truth = normal.pdf(a, 0, 1) / (1 - normal.cdf(a, 0, 1));
+      expect(Math.abs(qs.mean - truth)).toBeLessThan(4 * qs.mcseMean);
+    }
+    const p = prepareTarget(compileProgram(spec.source, {}));
+    const b = bulkApproximation(p);
+    const s1 = startsFromApproximation(p, b.z, b.factor, 8, new Rng(3, 4))!;
+    expect(s1.map((z) => Array.from(z))).toEqual(startsFromApproximation(p, b.z, b.factor, 8, new Rng(3, 4))!.map((z) => Array.from(z)));
+    for (const z of s1) {
+      expect(z[0]).toBeGreaterThan(1);
+      expect(z[1]).toBeGreaterThan(0.5);
+    }
   }, 60_000);
 
   it('a varying density on a simplex shortlists transform-based HMC and pilots decide deterministically', async () => {

@@ -21,6 +21,34 @@ function randomSpd(n: number, rng: Rng): Float64Array {
 }
 
 describe('Cholesky', () => {
+  it('a matrix with an envelope (banded rows, one dense last row, a dense block) factors like ml-matrix and solves exactly; the factor is reused after another matrix', () => {
+    const n = 30;
+    const rng = new Rng(17);
+    const G = new Float64Array(n * n);
+    const set = (i: number, j: number, v: number) => ((G[i * n + j] = v), (G[j * n + i] = v));
+    for (let i = 0; i < n; i++) set(i, i, 6 + rng.uniform());
+    for (let i = 1; i < n; i++) set(i, i - 1, rng.normal());
+    for (let i = 2; i < n; i += 3) set(i, i - 2, 0.5 * rng.normal());
+    for (let j = 0; j < n - 1; j++) set(n - 1, j, 0.1 * rng.normal());
+    for (let i = 10; i < 15; i++) for (let j = 10; j < i; j++) set(i, j, 0.3 * rng.normal());
+    for (let i = 0; i < n; i++) G[(n - 1) * n + (n - 1)] += Math.abs(G[(n - 1) * n + i]);
+    const rows = Array.from({ length: n }, (_, i) => Array.from(G.subarray(i * n, i * n + n)));
+    const ref = new CholeskyDecomposition(new Matrix(rows)).lowerTriangularMatrix;
+    setCholeskyKernel('inplace');
+    const c = new Cholesky(n);
+    // First a dense matrix, then the banded one: the profile of the earlier factor must not linger.
+    expect(c.factor(randomSpd(n, rng))).toBe(true);
+    expect(c.factor(G)).toBe(true);
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) expect(Math.abs(c.L[i * n + j] - ref.get(i, j))).toBeLessThan(1e-12);
+    const b = Float64Array.from({ length: n }, () => rng.normal());
+    const x = c.solve(b, new Float64Array(n));
+    for (let i = 0; i < n; i++) {
+      let s = 0;
+      for (let j = 0; j < n; j++) s += G[i * n + j] * x[j];
+      expect(Math.abs(s - b[i])).toBeLessThan(1e-11);
+    }
+  });
+
   it('in-place factor equals ml-matrix’s lower factor; solve, log det and L·x agree', () => {
     const n = 12;
     const rng = new Rng(4);

@@ -5,10 +5,19 @@
 import { describe, expect, it } from 'vitest';
 import { dispersedStarts, prepareTarget } from '../../../server/engine/geometry';
 import { sampleChain, shortlistEngines } from '../../../server/engine/samplers';
-import { findMode } from '../../../server/engine/mode';
+import { pilotPlan } from '../../../server/engine/samplers/auto';
+import { bulkPoint, findMode } from '../../../server/engine/mode';
+import normal from '@stdlib/stats-base-dists-normal';
 import { Rng } from '../../../server/engine/rng';
 import type { ModelTarget } from '../../../server/engine/types';
-import { gaussianOnSimplexTarget, normalMeanTarget, orderedMeansTarget, uniformSimplexTarget } from './targets';
+import { emptySystem, gaussianOnSimplexTarget, normalMeanTarget, orderedMeansTarget, system, truncatedNormalTarget, uniformSimplexTarget } from './targets';
+
+/** Uniform on the unit box [0, 1]^d. */
+function boxTarget(d: number): ModelTarget {
+  const rows: { a: Record<number, number>; b: number }[] = [];
+  for (let j = 0; j < d; j++) rows.push({ a: { [j]: -1 }, b: 0 }, { a: { [j]: 1 }, b: 1 });
+  return { dim: d, names: Array.from({ length: d }, (_, j) => `x${j + 1}`), logDensity: (_t, g) => (g.fill(0), 0), inequalities: system(d, rows), equalities: emptySystem(d) };
+}
 
 /**
  * Pool-adjacent-violators for the least-squares fit under μ₁ ≤ … ≤ μₙ with equal weights
@@ -102,17 +111,60 @@ describe('chains', () => {
   });
 });
 
-describe('automatic choice: the structural shortlist (the pilots are tested in auto.test.ts)', () => {
-  it('flat density on a bounded polytope → the exact-chord walks are candidates', () => {
-    const c = shortlistEngines(prepareTarget(uniformSimplexTarget(4)));
-    expect(c.candidates).toEqual(expect.arrayContaining(['hitrun', 'coord-hitrun', 'reflect-hmc']));
-    expect(c.why).toMatch(/flat/);
+describe('automatic choice: the structural shortlist (the pilots are tested in auto-and-shapes.test.ts)', () => {
+  it('flat density: a box → coordinate hit-and-run alone; standard shapes → transform-based HMC alone; a general polytope → pilots of rounded hit-and-run and reflective HMC', () => {
+    const box = shortlistEngines(prepareTarget(boxTarget(3)));
+    expect(box.candidates).toEqual(['coord-hitrun']);
+    expect(box.why).toMatch(/box/);
+    const simplex = shortlistEngines(prepareTarget(uniformSimplexTarget(4)));
+    expect(simplex.candidates).toEqual(['transform-hmc']);
+    expect(simplex.why).toMatch(/flat/);
+    // x ≥ 0, y ≥ 0, x + 2y ≤ 1: not a simplex of the transforms (coefficient 2).
+    const general: ModelTarget = {
+      dim: 2,
+      names: ['x', 'y'],
+      logDensity: (_t, g) => (g.fill(0), 0),
+      inequalities: system(2, [
+        { a: { 0: -1 }, b: 0 },
+        { a: { 1: -1 }, b: 0 },
+        { a: { 0: 1, 1: 2 }, b: 1 },
+      ]),
+      equalities: emptySystem(2),
+    };
+    expect(shortlistEngines(prepareTarget(general)).candidates).toEqual(['hitrun', 'reflect-hmc']);
   });
-  it('a varying density on a simplex → transform-based HMC is a candidate; no inequalities → plain HMC alone', () => {
-    expect(shortlistEngines(prepareTarget(gaussianOnSimplexTarget({ d: 3, centre: 0.2, sd: 0.1 }))).candidates[0]).toBe('transform-hmc');
+  it('a varying density on a simplex → transform-based HMC, RHMC and reflective HMC; no inequalities → plain HMC alone', () => {
+    expect(shortlistEngines(prepareTarget(gaussianOnSimplexTarget({ d: 3, centre: 0.2, sd: 0.1 }))).candidates).toEqual(['transform-hmc', 'rhmc', 'reflect-hmc']);
     const c = shortlistEngines(prepareTarget(normalMeanTarget({ y: [1], sigma: 1, mu0: 0, tau0: 1 })));
     expect(c.candidates).toEqual(['reflect-hmc']);
     expect(c.why).toMatch(/no inequality/);
+  });
+});
+
+describe('bulk point (the first barrier stage of the mode search)', () => {
+  it('standard normal truncated to x ≥ 1: the μ = 1 stage maximises −x²/2 + log(x − 1), at x = (1 + √5)/2, inside the bulk', () => {
+    // Stationarity −x + 1/(x − 1) = 0 ⇔ x² − x − 1 = 0 (elementary calculus, derived here).
+    const p = prepareTarget(truncatedNormalTarget({ lo: 1, hi: Infinity }));
+    const z = bulkPoint(p, 50);
+    expect(z[0]).toBeCloseTo((1 + Math.sqrt(5)) / 2, 6);
+    // Between the 10% and 90% quantiles of N(0,1) truncated at 1: Φ⁻¹(Φ(1) + q(1 − Φ(1))) with
+    // Φ(1) = 0.8413 (normal table, e.g. "Handbook of Mathematical Functions", 1964, table 26.1):
+    // about 1.03 and 2.24 (@stdlib's normal distribution functions).
+    const Phi1 = normal.cdf(1, 0, 1);
+    const q = (u: number) => normal.quantile(Phi1 + u * (1 - Phi1), 0, 1);
+    expect(z[0]).toBeGreaterThan(q(0.1));
+    expect(z[0]).toBeLessThan(q(0.9));
+    // The full mode search still ends on the face (the exact mode is x = 1).
+    expect(findMode(p).theta[0]).toBeCloseTo(1, 6);
+  });
+});
+
+describe('pilot plan', () => {
+  it('equal shares of 8% of the fit at the cheapest rate; a candidate whose minimum pilot costs more than its share is not piloted', () => {
+    // 4000 fit iterations at work 1 → 320 for two candidates → 160 each.
+    expect(pilotPlan([1, 2], 4000)).toEqual([160, 80]);
+    expect(pilotPlan([1, 10], 4000)).toEqual([160, 0]);
+    expect(pilotPlan([1, Infinity], 40000)).toEqual([300, 0]);
   });
 });
 

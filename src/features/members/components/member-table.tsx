@@ -36,6 +36,21 @@ export function MemberTable({
     (a, b) => ROLES.indexOf(a.role) - ROLES.indexOf(b.role) || a.name.localeCompare(b.name),
   );
 
+  const removeButton = (m: Member, lastOwner: boolean) => (
+    <Button
+      variant="quiet"
+      size="sm"
+      disabled={lastOwner}
+      title={lastOwner ? LAST_OWNER_TITLE : undefined}
+      onClick={() => {
+        changeRole.reset();
+        setRemoving(m);
+      }}
+    >
+      Remove
+    </Button>
+  );
+
   return (
     <div className="flex flex-col gap-3">
       {failure && (
@@ -47,12 +62,13 @@ export function MemberTable({
       <Table caption="Members">
         <THead>
           <tr>
-            <Th>Name</Th>
-            <Th>E-mail</Th>
-            <Th>Role</Th>
-            <Th numeric>Joined</Th>
+            <Th className="max-sm:px-2!">Name</Th>
+            {/* On a phone the e-mail moves under the name, the join date gives way cells narrow their padding. */}
+            <Th className="hidden sm:table-cell">E-mail</Th>
+            <Th className="max-sm:px-2!">Role</Th>
+            <Th numeric className="hidden sm:table-cell">Joined</Th>
             {canManage && (
-              <Th className="w-0">
+              <Th className="w-0 max-sm:px-2!">
                 <span className="sr-only">Actions</span>
               </Th>
             )}
@@ -64,12 +80,13 @@ export function MemberTable({
             const you = m.userId === currentUserId;
             return (
               <Tr key={m.userId} data-testid={`member-${m.email}`}>
-                <Td>
+                <Td className="max-sm:px-2!">
                   <span className="font-medium">{m.name}</span>
                   {you && <span className="ml-2 text-xs text-ink-faint">(you)</span>}
+                  <span className="block text-xs break-all text-ink-soft sm:hidden">{m.email}</span>
                 </Td>
-                <Td className="text-ink-soft">{m.email}</Td>
-                <Td>
+                <Td className="hidden text-ink-soft sm:table-cell">{m.email}</Td>
+                <Td className="max-sm:px-2!">
                   {canManage ? (
                     <div className="flex flex-col gap-1">
                       <Select
@@ -81,7 +98,7 @@ export function MemberTable({
                           remove.reset();
                           changeRole.mutate({ workspaceId, userId: m.userId, role: e.target.value as Role });
                         }}
-                        className="w-36"
+                        className="w-full min-w-28 sm:w-36"
                       >
                         {ROLES.map((r) => (
                           <option key={r} value={r}>
@@ -95,25 +112,10 @@ export function MemberTable({
                     <RoleBadge role={m.role} />
                   )}
                 </Td>
-                <Td numeric className="text-ink-soft">
+                <Td numeric className="hidden text-ink-soft sm:table-cell">
                   {formatDate(m.joinedAt)}
                 </Td>
-                {canManage && (
-                  <Td className="text-right">
-                    <Button
-                      variant="quiet"
-                      size="sm"
-                      disabled={lastOwner}
-                      title={lastOwner ? LAST_OWNER_TITLE : undefined}
-                      onClick={() => {
-                        changeRole.reset();
-                        setRemoving(m);
-                      }}
-                    >
-                      Remove
-                    </Button>
-                  </Td>
-                )}
+                {canManage && <Td className="text-right max-sm:px-2!">{removeButton(m, lastOwner)}</Td>}
               </Tr>
             );
           })}

@@ -1,12 +1,20 @@
 import { useMemo } from 'react';
-import { compareContentSchema } from '@shared/api/notebook';
+import type { CompareContent } from '@shared/api/compare';
 import type { CellViewProps } from '../components/cell-view-props';
 import { modelLabel } from '../model/model-label';
-import { CompareCell } from './compare-cell';
+import { CompareView } from './compare-view';
 
 export function CompareCellView(p: CellViewProps) {
-  const parsed = compareContentSchema.safeParse(p.content);
-  const selected = parsed.success ? parsed.data.modelCellIds : [];
-  const models = useMemo(() => p.cells.filter((c) => c.kind === 'model').map((c, i) => ({ id: c.id, label: modelLabel(c, i) })), [p.cells]);
-  return <CompareCell models={models} selected={selected} readOnly={p.readOnly} onChange={(ids) => p.setContent({ modelCellIds: ids })} />;
+  const models = useMemo(() => p.cells.filter((c) => c.kind === 'model').map((c, i) => ({ id: c.id, label: modelLabel(c, i), source: c.source })), [p.cells]);
+  return (
+    <CompareView
+      cellId={p.cell.id}
+      access={p.access}
+      readOnly={p.readOnly}
+      content={p.content}
+      setContent={(c: CompareContent) => p.setContent(c)}
+      models={models}
+      runSignal={p.runSignal}
+    />
+  );
 }

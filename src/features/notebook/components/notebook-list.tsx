@@ -29,7 +29,8 @@ export function NotebookList({ notebooks, canEdit }: { notebooks: Notebook[]; ca
           <tr>
             <Th>Title</Th>
             <Th numeric>Last change</Th>
-            <Th numeric>Created</Th>
+            {/* On a phone the creation date gives way, so that Rename and Delete stay on screen. */}
+            <Th numeric className="hidden sm:table-cell">Created</Th>
             {canEdit && (
               <Th className="w-0">
                 <span className="sr-only">Actions</span>
@@ -51,12 +52,12 @@ export function NotebookList({ notebooks, canEdit }: { notebooks: Notebook[]; ca
               <Td numeric className="text-ink-soft">
                 {formatDateTime(n.updatedAt)}
               </Td>
-              <Td numeric className="text-ink-soft">
+              <Td numeric className="hidden text-ink-soft sm:table-cell">
                 {formatDateTime(n.createdAt)}
               </Td>
               {canEdit && (
                 <Td className="whitespace-nowrap">
-                  <div className="flex justify-end gap-1">
+                  <div className="flex flex-col items-end gap-1 sm:flex-row sm:justify-end">
                     <Button variant="quiet" size="sm" onClick={() => setRenaming(n)} aria-label={`Rename ${n.title}`}>
                       Rename
                     </Button>

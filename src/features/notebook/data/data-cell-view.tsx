@@ -5,7 +5,7 @@ import { errorMessage } from '@/lib/api-client';
 import { datasetQuery } from '../api/get-dataset';
 import { uploadDataset } from '../api/upload-dataset';
 import type { CellViewProps } from '../components/cell-view-props';
-import { DataPreview } from './data-preview';
+import { DataPages } from './data-pages';
 import { DataUpload } from './data-upload';
 import { buttonClass } from '@/components/ui/button';
 
@@ -44,7 +44,7 @@ export function DataCellView(p: CellViewProps) {
         <p className="mt-[0.2rem] text-[0.75rem] font-semibold text-ink">Could not load the table: {errorMessage(preview.error)}</p>
       ) : (
         <>
-          <DataPreview dataset={preview.data.dataset} rows={preview.data.rows} />
+          <DataPages access={p.access} dataset={preview.data.dataset} firstRows={preview.data.rows} />
           {!p.readOnly &&
             (replacing ? (
               <DataUpload busy={busy} error={error} onUpload={upload} />

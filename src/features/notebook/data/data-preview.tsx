@@ -1,6 +1,6 @@
-import { useMemo, useState } from 'react';
+import { useMemo, useState, type ReactNode } from 'react';
 import type { Dataset, PreviewValue } from '@shared/api/notebook';
-import { formatDataValue } from '@/lib/estimates';
+import { columnDecimals, formatDataFixed } from '@/lib/estimates';
 import { columnNameWarning, isModelName } from '@shared/data';
 
 export type SortDir = 'asc' | 'desc';
@@ -29,12 +29,16 @@ export interface DataPreviewProps {
   // share-link readers get no workspace id
   dataset: Omit<Dataset, 'workspaceId'>;
   rows: PreviewValue[][];
+  /** Paging controls shown under the table instead of the "first rows" note (data-pages.tsx). */
+  pager?: ReactNode;
 }
 
 /** Preview of a dataset: column types and missing counts, a sortable table, the row count. */
-export function DataPreview({ dataset, rows }: DataPreviewProps) {
+export function DataPreview({ dataset, rows, pager }: DataPreviewProps) {
   const [sort, setSort] = useState<{ col: number; dir: SortDir } | null>(null);
   const sorted = useMemo(() => (sort ? sortRows(rows, sort.col, sort.dir) : rows), [rows, sort]);
+  // One count of decimals per number column, so trailing zeros are kept beside values that need them.
+  const decimals = useMemo(() => dataset.columns.map((c, j) => (c.type === 'numeric' ? columnDecimals(rows.map((r) => r[j]).filter((v): v is number => typeof v === 'number')) : null)), [dataset.columns, rows]);
   const missingTotal = dataset.columns.reduce((s, c) => s + c.missing, 0);
   // Stored anyway; a model cannot name these columns until they are renamed in the file.
   const unusable = dataset.columns.filter((c) => !isModelName(c.name));
@@ -85,7 +89,7 @@ export function DataPreview({ dataset, rows }: DataPreviewProps) {
                   const col = dataset.columns[j];
                   return (
                     <td key={j} className={col?.type === 'category' ? 'font-mono tabular-nums' : 'font-mono tabular-nums text-right whitespace-nowrap'} style={col?.type === 'category' ? { textAlign: 'left' } : undefined}>
-                      {v === null ? <span style={{ color: 'var(--color-ink-soft)' }}>·</span> : typeof v === 'number' ? (col?.type === 'integer' ? String(v) : formatDataValue(v, 4)) : v}
+                      {v === null ? <span style={{ color: 'var(--color-ink-soft)' }}>·</span> : typeof v === 'number' ? (col?.type === 'integer' ? String(v) : formatDataFixed(v, decimals[j] ?? null)) : v}
                     </td>
                   );
                 })}
@@ -94,11 +98,11 @@ export function DataPreview({ dataset, rows }: DataPreviewProps) {
           </tbody>
         </table>
       </div>
-      {rows.length < dataset.rows && (
+      {pager ?? (rows.length < dataset.rows && (
         <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft">
           Showing the first {rows.length} of {dataset.rows} rows{sort ? ' (sorting applies to the rows shown)' : ''}.
         </p>
-      )}
+      ))}
     </div>
   );
 }

@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import type { RunDraws } from '@shared/api/notebook';
+import type { PlotDraws as RunDraws } from '@shared/draws-binary';
 import type { QuantitySummary } from '@shared/fit';
 import { pairSpec } from './pair-spec';
 import { thinIndices } from '@/lib/plot/thin';
@@ -9,14 +9,17 @@ import { PlotFrame } from '../components/plot-frame';
 import { RegionFigure, TriangleFigure } from './region-figure';
 import { MixingView } from './mixing-view';
 import { LadderView } from './ladder-view';
+import { BandView, buildBand } from './band-view';
 import { compactControlClass } from '@/components/ui/input';
+import { useQuantityLabel } from '../quantity-labels';
 
-export const PLOT_KINDS = ['region', 'mixing', 'ladder', 'pair'] as const;
+export const PLOT_KINDS = ['region', 'mixing', 'ladder', 'band', 'pair'] as const;
 export type PlotKind = (typeof PLOT_KINDS)[number];
 const PLOT_WORDS: Record<PlotKind, string> = {
   region: 'Feasible region',
   mixing: 'Chain agreement',
   ladder: 'Order',
+  band: 'Curve',
   pair: 'Two quantities',
 };
 
@@ -31,12 +34,14 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
   const ladders = useMemo(() => orderedChains(draws.region), [draws.region]);
   const byName = useMemo(() => new Map(quantities.map((q) => [q.name, q])), [quantities]);
   const ladderRungs = ladders.map((path) => path.map((k) => byName.get(draws.names[k])).filter((q): q is QuantitySummary => !!q)).filter((r) => r.length >= 3);
-  const kinds = PLOT_KINDS.filter((k) => (k !== 'region' || hasRegion) && (k !== 'ladder' || ladderRungs.length > 0));
+  const kinds = PLOT_KINDS.filter((k) => (k !== 'region' || hasRegion) && (k !== 'ladder' || ladderRungs.length > 0) && (k !== 'band' || ladders.length > 0));
   const [kind, setKind] = useState<PlotKind>(kinds[0]);
   const [q, setQ] = useState(0);
   const [ladder, setLadder] = useState(0);
   const [pair, setPair] = useState<[number, number]>([0, Math.min(1, draws.names.length - 1)]);
   const chains = draws.chains.length;
+  // Figures name elements of unknowns gathered by a category column by their level, as the result rows do.
+  const label = useQuantityLabel();
   const triples = useMemo(() => shareTriples(draws.region), [draws.region]);
   /** Region view: -1 for two unknowns, otherwise the index of a triple of shares. */
   const [regionMode, setRegionMode] = useState(triples.length > 0 ? 0 : -1);
@@ -46,13 +51,13 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
     if (kind === 'region') {
       if (triangle) {
         const v = buildTriangleView(draws, triangle.members, triangle.total);
-        const names = triangle.members.map((k) => draws.names[k]) as [string, string, string];
+        const names = triangle.members.map((k) => label(draws.names[k])) as [string, string, string];
         return { available: v.available, clipped: v.clipped, node: <TriangleFigure names={names} polygon={v.polygon} draws={v.draws} point={v.point} /> };
       }
       const [i, j] = pair;
       if (i === j || i >= draws.unknownCount || j >= draws.unknownCount) return null;
       const v = buildRegionView(draws, i, j);
-      return { available: v.available, clipped: v.clipped, node: <RegionFigure xName={draws.names[i]} yName={draws.names[j]} box={v.box} polygon={v.polygon} draws={v.draws} point={v.point} /> };
+      return { available: v.available, clipped: v.clipped, node: <RegionFigure xName={label(draws.names[i])} yName={label(draws.names[j])} box={v.box} polygon={v.polygon} draws={v.draws} point={v.point} /> };
     }
     if (kind === 'mixing') {
       const series = draws.chains.map((c) => ({ chain: c.chain, values: c.values[q] ?? [] }));
@@ -61,6 +66,10 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
     if (kind === 'ladder') {
       const rungs = ladderRungs[Math.min(ladder, ladderRungs.length - 1)];
       return rungs ? { available: true, clipped: false, node: <LadderView rungs={rungs} /> } : null;
+    }
+    if (kind === 'band') {
+      const path = ladders[Math.min(ladder, ladders.length - 1)];
+      return path ? { available: true, clipped: false, node: <BandView band={buildBand(draws, path)} /> } : null;
     }
     const [i, j] = pair;
     if (i === j) return null;
@@ -73,7 +82,7 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
       return [...keep].sort((a, b) => a - b).map((t) => ({ x: c.values[i][t], y: c.values[j][t], chain: c.chain, divergent: c.divergent[t] ?? 0 }));
     });
     return { available: true, clipped: false, node: <PlotFrame spec={pairSpec(draws.names[i], draws.names[j], rows, chains)} label="Two quantities plot" /> };
-  }, [kind, triangle, pair, q, ladder, draws, chains, byName]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [kind, triangle, pair, q, ladder, draws, chains, byName, ladders, label]); // eslint-disable-line react-hooks/exhaustive-deps
 
   const pairChoices = kind === 'region' ? draws.names.slice(0, draws.unknownCount) : draws.names;
 
@@ -119,6 +128,14 @@ export function FitPlots({ draws, quantities = [] }: { draws: RunDraws; quantiti
             <span className="truncate text-[0.8rem] text-ink-soft">quantity</span>
             <select className={compactControlClass} style={{ width: 'auto' }} value={q} onChange={(e) => setQ(Number(e.target.value))} aria-label="Quantity">
               {draws.names.map((n, k) => <option key={n} value={k}>{n}</option>)}
+            </select>
+          </label>
+        )}
+        {kind === 'band' && ladders.length > 1 && (
+          <label className="flex items-center gap-2">
+            <span className="truncate text-[0.8rem] text-ink-soft">order</span>
+            <select className={compactControlClass} style={{ width: 'auto' }} value={ladder} onChange={(e) => setLadder(Number(e.target.value))} aria-label="Ordering">
+              {ladders.map((r, k) => <option key={k} value={k}>{r.map((x) => draws.names[x]).join(' ≤ ')}</option>)}
             </select>
           </label>
         )}

@@ -1,8 +1,11 @@
-import type { Run, RunDraws } from '@shared/api/notebook';
+import type { Run } from '@shared/api/notebook';
+import type { PlotDraws as RunDraws } from '@shared/draws-binary';
 import { formatEstimate, formatSeconds } from '@/lib/estimates';
 import { VerdictBanner } from './verdict-banner';
 import { QuantityRows } from './quantity-rows';
 import { FitPlots } from './fit-plots';
+import { ChecksView } from './checks-view';
+import { PriorRunHeading } from './prior-run-label';
 import { buttonClass } from '@/components/ui/button';
 
 export interface FitResultsProps {
@@ -20,8 +23,9 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
   const d = s.diagnostics;
   return (
     <div className="flex flex-col gap-4" data-testid="fit-results">
+      <PriorRunHeading run={run} />
       <VerdictBanner verdict={s.verdict} />
-      <QuantityRows quantities={s.quantities} chains={s.settings.chains} draws={s.settings.draws} />
+      <QuantityRows quantities={s.quantities} chains={s.settings.chains} draws={s.settings.draws} distribution={run.settings.priorOnly ? 'prior' : 'posterior'} />
       <p className="mt-[0.2rem] text-[0.72rem] text-ink-soft" data-testid="run-diagnostics">
         {s.settings.chains} chains × {s.settings.draws} draws after {s.settings.warmup} warm-up · sampler {d.samplerUsed} ({d.samplerReason}) ·
         divergences <span className={d.divergences > 0 ? 'bg-alarm-soft font-bold text-alarm' : ''}>{d.divergences}</span>
@@ -41,6 +45,7 @@ export function FitResults({ run, draws, drawsError, exports }: FitResultsProps)
         </div>
       )}
       {draws ? <FitPlots draws={draws} quantities={s.quantities} /> : drawsError ? <p className="truncate text-[0.8rem] text-ink-soft">Plots unavailable: {drawsError}</p> : <p className="truncate text-[0.8rem] text-ink-soft" style={{ minHeight: 300 }}>Loading draws for the plots…</p>}
+      {s.checks && <ChecksView checks={s.checks} />}
     </div>
   );
 }

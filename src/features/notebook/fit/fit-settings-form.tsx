@@ -1,5 +1,6 @@
 import { useEffect, useId, useState, type FormEvent } from 'react';
 import { FIT_LIMITS, SAMPLERS, fitSettingsSchema, type FitSettings } from '@shared/fit';
+import { CheckSettingsFields, checkCandidate, checkFieldError, toCheckDraft, type CheckDraft } from './check-settings';
 import { buttonClass } from '@/components/ui/button';
 import { compactControlClass } from '@/components/ui/input';
 import { Field } from '@/components/ui/field';
@@ -35,7 +36,7 @@ const SAMPLER_SENTENCES: Record<(typeof SAMPLERS)[number], string> = {
   'reflect-hmc': 'Plain HMC whose trajectories bounce off the constraint faces.',
 };
 
-type Draft = Record<'chains' | 'warmup' | 'draws' | 'seed', string> & { sampler: FitSettings['sampler'] };
+type Draft = Record<'chains' | 'warmup' | 'draws' | 'seed', string> & { sampler: FitSettings['sampler']; checks?: CheckDraft };
 
 const toDraft = (s: FitSettings): Draft => ({
   chains: String(s.chains),
@@ -43,18 +44,24 @@ const toDraft = (s: FitSettings): Draft => ({
   draws: String(s.draws),
   seed: String(s.seed),
   sampler: s.sampler,
+  checks: toCheckDraft(s),
 });
 
 /** Parse the form's text fields with the shared schema; field messages keyed by field name. */
-export function parseFitDraft(d: Draft): { ok: true; settings: FitSettings } | { ok: false; errors: Partial<Record<keyof Draft, string>> } {
+export function parseFitDraft(d: Draft): { ok: true; settings: FitSettings } | { ok: false; errors: Partial<Record<keyof Draft | 'replicates' | 'checkStat', string>> } {
   const num = (s: string) => (s.trim() === '' || !/^-?\d+(\.\d+)?$/.test(s.trim()) ? NaN : Number(s));
-  const candidate = { chains: num(d.chains), warmup: num(d.warmup), draws: num(d.draws), seed: num(d.seed), sampler: d.sampler };
+  const candidate = { chains: num(d.chains), warmup: num(d.warmup), draws: num(d.draws), seed: num(d.seed), sampler: d.sampler, ...(d.checks ? checkCandidate(d.checks) : {}) };
   const r = fitSettingsSchema.safeParse(candidate);
   if (r.success) return { ok: true, settings: r.data };
-  const errors: Partial<Record<keyof Draft, string>> = {};
+  const errors: Partial<Record<keyof Draft | 'replicates' | 'checkStat', string>> = {};
   for (const issue of r.error.issues) {
     const key = issue.path[0] as keyof Draft;
     if (errors[key]) continue;
+    const checkError = d.checks ? checkFieldError(key as string, d.checks) : null;
+    if (checkError) {
+      errors[key] = checkError;
+      continue;
+    }
     const raw = (d as Record<string, string>)[key as string];
     if (Number.isNaN((candidate as Record<string, unknown>)[key as string])) errors[key] = raw.trim() === '' ? 'Required' : `"${raw}" is not a whole number`;
     else if (issue.code === 'too_small') errors[key] = `At least ${String(issue.minimum)}`;
@@ -84,7 +91,7 @@ const FIELDS = [
 /** The fit cell's settings: defaults and limits shown, validated with the shared schema. */
 export function FitSettingsForm({ value, readOnly, running, onChange, onRun, onCancel }: FitSettingsFormProps) {
   const [draft, setDraft] = useState<Draft>(() => toDraft(value));
-  const [errors, setErrors] = useState<Partial<Record<keyof Draft, string>>>({});
+  const [errors, setErrors] = useState<Partial<Record<keyof Draft | 'replicates' | 'checkStat', string>>>({});
   const uid = useId();
 
   // Follow outside changes (another person's save) unless the draft differs on purpose.
@@ -164,6 +171,7 @@ export function FitSettingsForm({ value, readOnly, running, onChange, onRun, onC
           ))}
         </select>
       </Field>
+      <CheckSettingsFields draft={draft.checks ?? toCheckDraft(value)} errors={errors} disabled={disabled} onChange={(checks) => update({ checks })} />
       {!readOnly && (
         <div className="flex items-center gap-2">
           <button type="submit" className={buttonClass('slack', 'xs')} disabled={running || Object.keys(errors).length > 0}>

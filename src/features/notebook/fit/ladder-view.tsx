@@ -1,5 +1,6 @@
 import type { QuantitySummary } from '@shared/fit';
 import { formatEstimate } from '@/lib/estimates';
+import { useQuantityLabel } from '../quantity-labels';
 
 /**
  * Quantities the constraints put in order (θ₁ ≤ θ₂ ≤ …), as rungs of a ladder, lowest at the bottom:
@@ -7,9 +8,11 @@ import { formatEstimate } from '@/lib/estimates';
  * the order line, and between rungs the "≤" the model imposes.
  */
 export function LadderView({ rungs }: { rungs: QuantitySummary[] }) {
+  const label = useQuantityLabel();
   const W = 520;
   const ROW = 30;
-  const PAD = { l: 86, r: 16, t: 12, b: 28 };
+  // Room for the longest name at 11 px monospace (about 6.7 px a character).
+  const PAD = { l: Math.max(86, 14 + 6.7 * Math.max(...rungs.map((q) => label(q.name).length))), r: 16, t: 12, b: 28 };
   const H = PAD.t + rungs.length * ROW + PAD.b;
   let lo = Math.min(...rungs.map((q) => q.q5));
   let hi = Math.max(...rungs.map((q) => q.q95));
@@ -22,11 +25,11 @@ export function LadderView({ rungs }: { rungs: QuantitySummary[] }) {
   const order = rungs.map((q, i) => `${i ? 'L' : 'M'}${x(q.q50).toFixed(1)},${y(i).toFixed(1)}`).join(' ');
   return (
     <figure style={{ margin: 0 }} aria-label="Ordered quantities" data-testid="plot">
-      <svg viewBox={`0 0 ${W} ${H}`} className="block h-auto w-full max-w-[40rem]" role="img" aria-label={`Ladder of ${rungs.map((q) => q.name).join(' ≤ ')}`} data-testid="ladder-view">
+      <svg viewBox={`0 0 ${W} ${H}`} className="block h-auto w-full max-w-[40rem]" role="img" aria-label={`Ladder of ${rungs.map((q) => label(q.name)).join(' ≤ ')}`} data-testid="ladder-view">
         {rungs.map((q, i) => (
           <g key={q.name} data-testid="ladder-rung">
             <line x1={PAD.l} x2={W - PAD.r} y1={y(i)} y2={y(i)} stroke="var(--color-rule)" />
-            <text x={PAD.l - 8} y={y(i) + 4} textAnchor="end" className="fill-ink font-mono text-[11px]">{q.name}</text>
+            <text x={PAD.l - 8} y={y(i) + 4} textAnchor="end" className="fill-ink font-mono text-[11px]">{label(q.name)}</text>
             <line x1={x(q.q5)} x2={x(q.q95)} y1={y(i)} y2={y(i)} stroke="var(--color-ink-soft)" strokeWidth="6" strokeLinecap="round" opacity="0.5" />
             {i > 0 && (
               <text x={PAD.l - 8} y={y(i) + ROW / 2 + 4} textAnchor="end" className="fill-ink-soft font-mono text-[10px] tabular-nums" style={{ fill: 'var(--color-slack)' }}>

@@ -17,7 +17,7 @@ const WINDOWS = 16;
  * stretch, darker where the chains' medians lie further apart than each chain's own medians wobble
  * from stretch to stretch. Pale strip, overlapping bands: the chains tell the same story.
  */
-export function MixingView({ name, chains, thin, summary }: { name: string; chains: { chain: number; values: number[] }[]; thin: number; summary?: QuantitySummary }) {
+export function MixingView({ name, chains, thin, summary }: { name: string; chains: { chain: number; values: ArrayLike<number> }[]; thin: number; summary?: QuantitySummary }) {
   const data = useMemo(() => {
     const values = chains.map((c) => c.values);
     const windows = chainWindows(values, WINDOWS, thin);

@@ -25,7 +25,7 @@ export interface ChainWindow {
 }
 
 /** Each chain's draws cut into `windows` consecutive stretches, with their quartiles. */
-export function chainWindows(chains: readonly (readonly number[])[], windows: number, thin = 1): ChainWindow[][] {
+export function chainWindows(chains: readonly ArrayLike<number>[], windows: number, thin = 1): ChainWindow[][] {
   return chains.map((values) => {
     const n = values.length;
     const k = Math.max(1, Math.min(windows, n));
@@ -33,7 +33,7 @@ export function chainWindows(chains: readonly (readonly number[])[], windows: nu
     for (let w = 0; w < k; w++) {
       const a = Math.floor((w * n) / k);
       const b = Math.floor(((w + 1) * n) / k);
-      const part = Float64Array.from(values.slice(a, b)).sort();
+      const part = Float64Array.from({ length: b - a }, (_, t) => values[a + t]).sort();
       out.push({ from: a * thin + 1, to: b * thin, q25: quantileSorted(part, 0.25), q50: quantileSorted(part, 0.5), q75: quantileSorted(part, 0.75) });
     }
     return out;
@@ -80,8 +80,8 @@ export function agreementStrip(windows: ChainWindow[][]): number[] {
 }
 
 /** Interquartile range of all chains pooled. */
-export function pooledIqr(chains: readonly (readonly number[])[]): number {
-  const all = Float64Array.from(chains.flat()).sort();
+export function pooledIqr(chains: readonly ArrayLike<number>[]): number {
+  const all = Float64Array.from(chains.flatMap((c) => Array.from(c))).sort();
   return quantileSorted(all, 0.75) - quantileSorted(all, 0.25);
 }
 

@@ -10,9 +10,22 @@ export interface QuantityRowsProps {
   chains: number;
   /** Kept draws per chain. */
   draws: number;
+  /** 'prior' for a run with the likelihood left out: the rows then describe the prior. */
+  distribution?: 'posterior' | 'prior';
 }
 
 /** Why a quantity's own mixing figures fail, in words (empty when they pass). */
+/**
+ * On a phone (≤ 520 px) the mixing table is laid out as one block per quantity: its name across the
+ * top, then its six figures in three columns, each under its own label (from data-label), so no
+ * column is cut off or hidden behind a sideways scroll.
+ */
+const PHONE_TABLE =
+  'max-[520px]:block max-[520px]:[&_thead]:hidden max-[520px]:[&_tbody]:block max-[520px]:[&_tr]:grid max-[520px]:[&_tr]:grid-cols-3 ' +
+  'max-[520px]:[&_tr]:border-b max-[520px]:[&_tr]:border-rule-strong max-[520px]:[&_th]:border-b-0 max-[520px]:[&_td]:border-b-0 max-[520px]:[&_td]:text-left ' +
+  'max-[520px]:[&_td]:before:block max-[520px]:[&_td]:before:whitespace-normal max-[520px]:[&_td]:before:font-sans max-[520px]:[&_td]:before:text-[0.65rem] ' +
+  'max-[520px]:[&_td]:before:text-ink-soft max-[520px]:[&_td]:before:content-[attr(data-label)]';
+
 export function mixingProblems(q: QuantitySummary, chains: number): string[] {
   const out: string[] = [];
   if (rhatFails(q.rhat)) out.push(`chains disagree (R̂ ${formatRhat(q.rhat)} > ${DIAGNOSTIC_THRESHOLDS.rhatRunLonger})`);
@@ -60,7 +73,7 @@ function IntervalMark({ q, axis }: { q: QuantitySummary; axis: [number, number] 
  * the numbers, and a trust mark from that quantity's own R̂ and ESS (the shared thresholds). The
  * mixing figures themselves sit behind a fold.
  */
-export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
+export function QuantityRows({ quantities, chains, draws, distribution = 'posterior' }: QuantityRowsProps) {
   const axes = familyAxes(quantities);
   const nameLabel = useQuantityLabel();
   const total = chains * draws;
@@ -77,7 +90,7 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
       <div className="grid grid-cols-[1.4rem_minmax(5rem,9rem)_minmax(8rem,1fr)_minmax(7rem,12rem)] items-center gap-[0.6rem] border-b border-rule py-[0.15rem] text-[0.85rem] max-[520px]:grid-cols-[1.4rem_minmax(0,1fr)_minmax(0,1fr)] max-[520px]:gap-y-[0.1rem] max-[520px]:[grid-template-areas:'mark_name_nums'_'fig_fig_fig'] max-[520px]:[&>:nth-child(1)]:[grid-area:mark] max-[520px]:[&>:nth-child(2)]:[grid-area:name] max-[520px]:[&>:nth-child(3)]:[grid-area:fig] max-[520px]:[&>:nth-child(4)]:[grid-area:nums] text-[0.68rem] text-ink-soft border-b-rule-strong" aria-hidden>
         <span />
         <span>quantity</span>
-        <span className="max-[520px]:hidden">90 % of the posterior · median │ · mean ○</span>
+        <span className="max-[520px]:hidden">90 % of the {distribution} · median │ · mean ○</span>
         <span className="flex flex-wrap justify-end gap-x-[0.6rem] tabular-nums">median · 90 % interval</span>
       </div>
       {groups.map(([label, list]) =>
@@ -97,7 +110,7 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
                   >
                     {ok ? '✓' : '!'}
                   </span>
-                  <span data-testid="quantity-name" className="font-mono tabular-nums truncate" title={nameLabel(q.name)}>{nameLabel(q.name)}</span>
+                  <span data-testid="quantity-name" className="font-mono tabular-nums truncate max-[520px]:whitespace-normal max-[520px]:[overflow-wrap:anywhere]" title={nameLabel(q.name)}>{nameLabel(q.name)}</span>
                   <span>
                     <IntervalMark q={q} axis={axes.get(`${q.kind}:${familyOf(q.name)}`)!} />
                   </span>
@@ -116,7 +129,7 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
       <details className="[&>summary]:cursor-pointer [&>summary]:py-[0.3rem] [&>summary]:text-[0.8rem] [&>summary]:text-ink-soft" data-testid="mixing-figures">
         <summary>How well the chains mixed, quantity by quantity</summary>
         <div className="overflow-x-auto">
-          <table className="w-full border-collapse text-[0.82rem] [&_th]:border-b [&_th]:border-rule-strong [&_th]:px-[0.6rem] [&_th]:py-[0.3rem] [&_th]:text-right [&_th]:font-medium [&_th]:whitespace-nowrap [&_th]:text-ink-soft [&_td]:border-b [&_td]:border-rule [&_td]:px-[0.6rem] [&_td]:py-1 [&_th:first-child]:text-left [&_td:first-child]:text-left [&_tbody_tr:hover_td]:bg-slack/5" style={{ marginTop: '0.4rem' }}>
+          <table className={`w-full border-collapse text-[0.82rem] [&_th]:border-b [&_th]:border-rule-strong [&_th]:px-[0.6rem] [&_th]:py-[0.3rem] [&_th]:text-right [&_th]:font-medium [&_th]:whitespace-nowrap [&_th]:text-ink-soft [&_td]:border-b [&_td]:border-rule [&_td]:px-[0.6rem] [&_td]:py-1 [&_th:first-child]:text-left [&_td:first-child]:text-left [&_tbody_tr:hover_td]:bg-slack/5 ${PHONE_TABLE}`} style={{ marginTop: '0.4rem' }} data-testid="mixing-table">
             <thead>
               <tr>
                 <th scope="col">quantity</th>
@@ -135,13 +148,13 @@ export function QuantityRows({ quantities, chains, draws }: QuantityRowsProps) {
                 const tf = essFails(q.essTail, chains);
                 return (
                   <tr key={q.name}>
-                    <th scope="row" className="font-mono tabular-nums" style={{ textAlign: 'left', fontWeight: 500 }}>{nameLabel(q.name)}</th>
-                    <td className={`font-mono tabular-nums text-right whitespace-nowrap${rf ? ' bg-alarm-soft font-bold text-alarm' : ''}`}>{formatRhat(q.rhat)}</td>
-                    <td className={`font-mono tabular-nums text-right whitespace-nowrap${bf ? ' bg-alarm-soft font-bold text-alarm' : ''}`}>{formatEss(q.essBulk)}{essNote(q.essBulk)}</td>
-                    <td className={`font-mono tabular-nums text-right whitespace-nowrap${tf ? ' bg-alarm-soft font-bold text-alarm' : ''}`}>{formatEss(q.essTail)}{essNote(q.essTail)}</td>
-                    <td className="font-mono tabular-nums text-right whitespace-nowrap">{formatEstimate(q.mcseMean, 2)}</td>
-                    <td className="font-mono tabular-nums text-right whitespace-nowrap">{formatEstimate(q.mean)}</td>
-                    <td className="font-mono tabular-nums text-right whitespace-nowrap">{formatEstimate(q.sd)}</td>
+                    <th scope="row" className="font-mono tabular-nums max-[520px]:col-span-3 max-[520px]:[overflow-wrap:anywhere]" style={{ textAlign: 'left', fontWeight: 500 }}>{nameLabel(q.name)}</th>
+                    <td data-label="chains agree (R̂)" className={`font-mono tabular-nums text-right whitespace-nowrap${rf ? ' bg-alarm-soft font-bold text-alarm' : ''}`}>{formatRhat(q.rhat)}</td>
+                    <td data-label="independent draws, middle" className={`font-mono tabular-nums text-right whitespace-nowrap${bf ? ' bg-alarm-soft font-bold text-alarm' : ''}`}>{formatEss(q.essBulk)}{essNote(q.essBulk)}</td>
+                    <td data-label="independent draws, tails" className={`font-mono tabular-nums text-right whitespace-nowrap${tf ? ' bg-alarm-soft font-bold text-alarm' : ''}`}>{formatEss(q.essTail)}{essNote(q.essTail)}</td>
+                    <td data-label="MC error of the mean" className="font-mono tabular-nums text-right whitespace-nowrap">{formatEstimate(q.mcseMean, 2)}</td>
+                    <td data-label="mean" className="font-mono tabular-nums text-right whitespace-nowrap">{formatEstimate(q.mean)}</td>
+                    <td data-label="sd" className="font-mono tabular-nums text-right whitespace-nowrap">{formatEstimate(q.sd)}</td>
                   </tr>
                 );
               })}

@@ -4,7 +4,8 @@
  * draw lies inside the projection by construction. Shares that sum to a constant in groups of three
  * are also shown in their own coordinates, as a triangle.
  */
-import type { RegionProjection, RegionSystem, RunDraws } from '@shared/api/notebook';
+import type { RegionProjection, RegionSystem } from '@shared/api/notebook';
+import type { PlotDraws as RunDraws } from '@shared/draws-binary';
 import { boxAround, type Box, type Point } from './region';
 import { thinIndices } from '@/lib/plot/thin';
 

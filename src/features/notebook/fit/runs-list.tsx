@@ -1,6 +1,7 @@
 import type { Run } from '@shared/api/notebook';
 import { formatSeconds } from '@/lib/estimates';
 import { formatDateTime } from '@/lib/format';
+import { PriorRunBadge, isPriorRun } from './prior-run-label';
 import { buttonClass } from '@/components/ui/button';
 
 const STATUS_WORDS: Record<Run['status'], string> = {
@@ -29,6 +30,7 @@ export function RunsList({ runs, openId, onOpen }: { runs: Run[]; openId: string
               </button>
               <span className="font-mono tabular-nums text-right whitespace-nowrap">{formatDateTime(r.createdAt)}</span>
               <span>{STATUS_WORDS[r.status]}</span>
+              {isPriorRun(r) && <PriorRunBadge />}
               <span className="truncate text-[0.8rem] text-ink-soft">
                 {r.settings.chains}×{r.settings.draws} draws · seed {r.settings.seed}
                 {r.summary ? ` · ${formatSeconds(r.summary.seconds)}` : ''}

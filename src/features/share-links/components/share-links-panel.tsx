@@ -119,8 +119,8 @@ export function ShareLinksPanel({ workspaceId, notebookId }: { workspaceId: stri
           <THead>
             <tr>
               <Th>Status</Th>
-              <Th>Created by</Th>
-              <Th numeric>Created</Th>
+              <Th className="hidden sm:table-cell">Created by</Th>
+              <Th numeric className="hidden sm:table-cell">Created</Th>
               <Th numeric>Expires</Th>
               <Th className="w-0">
                 <span className="sr-only">Actions</span>
@@ -132,9 +132,13 @@ export function ShareLinksPanel({ workspaceId, notebookId }: { workspaceId: stri
               <Tr key={l.id}>
                 <Td>
                   <LinkStatus link={l} />
+                  {/* On a phone the creator and the creation date move here, so Revoke stays on screen. */}
+                  <span className="block text-xs text-ink-soft sm:hidden">
+                    by {l.createdBy.name}, {formatDateTime(l.createdAt)}
+                  </span>
                 </Td>
-                <Td>{l.createdBy.name}</Td>
-                <Td numeric className="text-ink-soft">
+                <Td className="hidden sm:table-cell">{l.createdBy.name}</Td>
+                <Td numeric className="hidden text-ink-soft sm:table-cell">
                   {formatDateTime(l.createdAt)}
                 </Td>
                 <Td numeric className="text-ink-soft">

@@ -20,12 +20,12 @@ export function WorkspaceShareLinks({ workspaceId, links }: { workspaceId: strin
       <Table caption="Share links of this workspace">
         <THead>
           <tr>
-            <Th>Notebook</Th>
-            <Th>Created by</Th>
-            <Th>Status</Th>
-            <Th numeric>Created</Th>
-            <Th numeric>Expires</Th>
-            <Th className="w-0">
+            <Th className="max-sm:px-2!">Notebook</Th>
+            <Th className="hidden sm:table-cell">Created by</Th>
+            <Th className="max-sm:px-2!">Status</Th>
+            <Th numeric className="hidden sm:table-cell">Created</Th>
+            <Th className="max-sm:px-2!" numeric>Expires</Th>
+            <Th className="max-sm:px-2! w-0">
               <span className="sr-only">Actions</span>
             </Th>
           </tr>
@@ -33,18 +33,24 @@ export function WorkspaceShareLinks({ workspaceId, links }: { workspaceId: strin
         <TBody>
           {links.map((l) => (
             <Tr key={l.id}>
-              <Td className="font-medium">{l.notebookTitle}</Td>
-              <Td>{l.createdBy.name}</Td>
-              <Td>
+              <Td className="max-sm:px-2! font-medium">
+                {l.notebookTitle}
+                {/* On a phone the creator and the creation date move here, so the actions stay on screen. */}
+                <span className="block text-xs font-normal text-ink-soft sm:hidden">
+                  by {l.createdBy.name}, {formatDateTime(l.createdAt)}
+                </span>
+              </Td>
+              <Td className="hidden sm:table-cell">{l.createdBy.name}</Td>
+              <Td className="max-sm:px-2!">
                 <LinkStatus link={l} />
               </Td>
-              <Td numeric className="text-ink-soft">
+              <Td numeric className="hidden text-ink-soft sm:table-cell">
                 {formatDateTime(l.createdAt)}
               </Td>
-              <Td numeric className="text-ink-soft">
+              <Td numeric className="max-sm:px-2! text-ink-soft">
                 {l.revokedAt ? `revoked ${formatDateTime(l.revokedAt)}` : l.expiresAt ? formatDateTime(l.expiresAt) : 'never'}
               </Td>
-              <Td className="text-right">
+              <Td className="max-sm:px-2! text-right">
                 {l.active && (
                   <Button
                     variant="quiet"

@@ -134,11 +134,12 @@ describe('data preview', () => {
     render(<DataPreview dataset={DATASET} rows={ROWS} />);
     const yieldCol = () => screen.getAllByRole('row').slice(1).map((r) => r.querySelectorAll('td')[2].textContent);
     fireEvent.click(screen.getByTitle('Sort by yield'));
-    expect(yieldCol()).toEqual(['1.25', '2', '3.5', '·']);
+    // One count of decimals for the whole column: 2.00 and 3.50 beside 1.25.
+    expect(yieldCol()).toEqual(['1.25', '2.00', '3.50', '·']);
     fireEvent.click(screen.getByTitle('Sort by yield'));
-    expect(yieldCol()).toEqual(['3.5', '2', '1.25', '·']);
+    expect(yieldCol()).toEqual(['3.50', '2.00', '1.25', '·']);
     fireEvent.click(screen.getByTitle('Sort by yield'));
-    expect(yieldCol()).toEqual(['3.5', '·', '1.25', '2']);
+    expect(yieldCol()).toEqual(['3.50', '·', '1.25', '2.00']);
   });
 
   it('warns about a column name a model cannot use, naming one it could, and still shows the table', () => {
@@ -332,7 +333,6 @@ describe('comments', () => {
 });
 
 import { ModelSidePanel } from '../../../../src/features/notebook/model/model-side-panel';
-import { CompareCell } from '../../../../src/features/notebook/compare/compare-cell';
 import { DataUpload, tableNameFromFile } from '../../../../src/features/notebook/data/data-upload';
 
 describe('model side panel', () => {
@@ -366,18 +366,6 @@ describe('model side panel', () => {
     );
     expect(screen.getByTestId('region-status').querySelector('[data-tone="warning"]')).toBeTruthy();
     expect(screen.getByText('line 3 and line 4 cannot both hold')).toBeTruthy();
-  });
-});
-
-describe('compare cell', () => {
-  it('says honestly that evidence is not available and shows no numbers', () => {
-    const onChange = vi.fn();
-    render(<CompareCell models={[{ id: 'm1', label: 'Model (monotone)' }, { id: 'm2', label: 'Model (free)' }]} selected={['m1']} readOnly={false} onChange={onChange} />);
-    const cell = screen.getByTestId('compare-cell');
-    expect(cell.textContent).toContain('Evidence not available yet');
-    expect(cell.textContent).not.toMatch(/\d/);
-    fireEvent.click(screen.getByLabelText('Model (free)'));
-    expect(onChange).toHaveBeenCalledWith(['m1', 'm2']);
   });
 });
 

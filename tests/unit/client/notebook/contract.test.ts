@@ -99,10 +99,36 @@ describe('notebook file', () => {
       ['b1', 'notes', false], ['b2', 'data', true], ['b3', 'model', false], ['b4', 'fit', false], ['b5', 'fit', false], ['b6', 'compare', false],
     ]);
     expect(r.file.cells.map((c) => c.content)).toEqual([
-      null, { datasetId: 't1' }, null, { modelCellId: 'b3', settings }, { modelCellId: null, settings }, { modelCellIds: ['b3'] },
+      null, { datasetId: 't1' }, null, { modelCellId: 'b3', settings }, { modelCellId: null, settings },
+      // A compare cell carries its tests, reference, prior odds, replicates and seed (defaults here).
+      { modelCellIds: ['b3'], hypotheses: [], reference: null, priorOdds: [], replicates: 4, seed: 20261201 },
     ]);
     expect(r.file.cells[2].source).toBe('table plots\nunknown a');
     expect(r.file.datasets).toEqual([{ key: 't1', name: 'plots', csv: 'a,b\n1,2\n' }]);
+  });
+
+  it('a compare block keeps its tested lines, reference and prior odds through export and import', () => {
+    const cells = [
+      { id: 'm1', kind: 'model' as const, source: 'unknown a, b\nconstrain a <= b', content: null, collapsed: false },
+      {
+        id: 'x1', kind: 'compare' as const, source: '', collapsed: false,
+        content: { modelCellIds: ['m1'], hypotheses: [{ modelCellId: 'm1', lines: [2] }], reference: { modelCellId: 'm1', without: [2] }, priorOdds: [{ key: { modelCellId: 'm1', without: [] }, odds: 2 }], replicates: 6, seed: 5 },
+      },
+    ];
+    const f = buildNotebookFile('Tests', cells, [], new Date('2026-12-01T12:00:00Z'));
+    expect(f.blocks[1]).toMatchObject({ model_refs: ['b1'], tests: [{ model_ref: 'b1', lines: [2] }], reference: { model_ref: 'b1', without_lines: [2] }, prior_odds: [{ model_ref: 'b1', without_lines: [], odds: 2 }], replicates: 6, seed: 5 });
+    const back = readNotebookFile(JSON.parse(JSON.stringify(f)));
+    expect(back.ok).toBe(true);
+    if (!back.ok) return;
+    const ids: Record<string, string> = { b1: 'newmodel' };
+    expect(remapContent('compare', back.file.cells[1].content, (k) => ids[k], () => undefined)).toEqual({
+      modelCellIds: ['newmodel'], hypotheses: [{ modelCellId: 'newmodel', lines: [2] }], reference: { modelCellId: 'newmodel', without: [2] },
+      priorOdds: [{ key: { modelCellId: 'newmodel', without: [] }, odds: 2 }], replicates: 6, seed: 5,
+    });
+    // A test naming a block that is not a model is refused.
+    const bad = JSON.parse(JSON.stringify(f));
+    bad.blocks[1].tests[0].model_ref = 'b2';
+    expect(readNotebookFile(bad).ok).toBe(false);
   });
 
   it('import still reads version 1, to the same contents up to the file-local keys', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatEss, formatEstimate, formatRhat, formatSeconds } from '../../../../src/lib/estimates';
+import { columnDecimals, formatDataFixed, formatEss, formatEstimate, formatRhat, formatSeconds } from '../../../../src/lib/estimates';
 import { essFails, rhatFails } from '../../../../shared/diagnostics';
 import { judgeRun } from '../../../../server/engine/diagnostics/verdict';
 
@@ -26,6 +26,22 @@ describe('formatting', () => {
     expect(formatSeconds(0.25)).toBe('250 ms');
     expect(formatSeconds(12.34)).toBe('12.3 s');
     expect(formatSeconds(125)).toBe('2 min 5 s');
+  });
+});
+
+describe('data columns with one count of decimals', () => {
+  it('keeps the trailing zeros of 29.70 beside 29.02 (values of the demo outlet table)', () => {
+    const col = [29.02, 29.7, 31.67, 30.1, 34.5];
+    const d = columnDecimals(col);
+    expect(d).toBe(2);
+    expect(col.map((x) => formatDataFixed(x, d))).toEqual(['29.02', '29.70', '31.67', '30.10', '34.50']);
+  });
+
+  it('whole numbers stay whole, a minus is a true minus, exponent form leaves each value its own form', () => {
+    expect(columnDecimals([7, 10, 12])).toBe(0);
+    expect(formatDataFixed(-3.2, columnDecimals([-3.2, 1.25]))).toBe('−3.20');
+    expect(columnDecimals([0.00001, 2.5])).toBeNull();
+    expect(formatDataFixed(2.5, null)).toBe('2.5');
   });
 });
 

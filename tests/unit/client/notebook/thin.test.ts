@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { pooledRanks, rankHistogram, thin, thinIndices } from '../../../../src/lib/plot/thin';
+import { thin, thinIndices } from '../../../../src/lib/plot/thin';
 
 describe('thinIndices', () => {
   it('keeps everything when under the limit', () => {
@@ -20,24 +20,5 @@ describe('thinIndices', () => {
   });
   it('thin picks the values at those indices', () => {
     expect(thin([10, 11, 12, 13, 14], 3)).toEqual([10, 12, 14]);
-  });
-});
-
-describe('ranks', () => {
-  it('ranks pooled draws with average ranks for ties', () => {
-    expect(pooledRanks([[3, 1], [2, 3]])).toEqual([[3.5, 1], [2, 3.5]]);
-  });
-  it('gives a flat histogram when the chains interleave perfectly', () => {
-    // Chain 1 holds the odd ranks, chain 2 the even ranks of 1..40: every bin of width 2 gets one of each.
-    const a = Array.from({ length: 20 }, (_, k) => 2 * k);
-    const b = Array.from({ length: 20 }, (_, k) => 2 * k + 1);
-    const h = rankHistogram([a, b], 20);
-    expect(h.every((r) => r.count === 1)).toBe(true);
-  });
-  it('piles a shifted chain into the top bins', () => {
-    const a = Array.from({ length: 50 }, (_, k) => k);
-    const b = Array.from({ length: 50 }, (_, k) => 100 + k);
-    const h = rankHistogram([a, b], 4);
-    expect(h.filter((r) => r.chain === 2).map((r) => r.count)).toEqual([0, 0, 25, 25]);
   });
 });
