@@ -76,7 +76,7 @@ db_start() {
   "$MARIADBD" --no-defaults --datadir="$dir/data" --socket="$dir/mysqld.sock" --port="$port" \
     --bind-address=127.0.0.1 --pid-file="$dir/mariadbd.pid" --log-error="$dir/mariadbd.err" \
     --character-set-server=utf8mb4 --collation-server=utf8mb4_unicode_ci \
-    --skip-log-bin --innodb-buffer-pool-size=64M "${user_opt[@]}" "${DB_EXTRA_OPTS[@]}" \
+    --skip-log-bin --innodb-buffer-pool-size=64M --max-allowed-packet=256M "${user_opt[@]}" "${DB_EXTRA_OPTS[@]}" \
     </dev/null >/dev/null 2>&1 9>&- &
   DB_SERVER_PID=$!
   local i

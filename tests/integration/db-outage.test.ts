@@ -106,7 +106,8 @@ describe('a database restart under a running fit', () => {
     expect(up.status).toBe(201);
     await owner.post(`${base}/cells`, { kind: 'data', content: { datasetId: up.body.dataset.id } });
     const model = (await owner.post(`${base}/cells`, { kind: 'model', source })).body.cell;
-    const settings = { chains: 4, warmup: 1500, draws: 3000, seed: 90210, sampler: 'auto' as const };
+    // RHMC explicitly: slow enough per chain that the database can go away while chains still run.
+    const settings = { chains: 4, warmup: 1500, draws: 3000, seed: 90210, sampler: 'rhmc' as const };
     const fit = (await owner.post(`${base}/cells`, { kind: 'fit', content: { modelCellId: model.id, settings } })).body.cell;
     const created = await owner.post(`${base}/cells/${fit.id}/runs`, {});
     expect(created.status).toBe(201);
