@@ -335,6 +335,8 @@ describe('the other pages on a phone (390 px wide)', () => {
         expect(await panel.innerText()).toContain('share');
         const fit = page.locator('section[data-kind="fit"]').first();
         await fit.getByTestId('quantity-row').first().waitFor();
+        // Plots load as their fit cell comes near the viewport.
+        await fit.scrollIntoViewIfNeeded();
         await fit.getByTestId('triangle-figure').waitFor();
         await model.getByRole('button', { name: /^Comments on this model cell/ }).click();
         await page.getByTestId('comment-thread').filter({ hasText: 'same lab' }).waitFor();

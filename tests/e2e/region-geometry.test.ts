@@ -135,6 +135,8 @@ function outside({ polygon, draws }: Drawn, tol = 0.05): [number, number][] {
 }
 
 async function openRegionTab(fit: Locator) {
+  // Plots load as their fit cell comes near the viewport.
+  await fit.scrollIntoViewIfNeeded();
   await fit.getByRole('tab', { name: 'Feasible region' }).click();
 }
 

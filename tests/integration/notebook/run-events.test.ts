@@ -52,7 +52,8 @@ async function readEvents(client: TestClient, path: string, until: (all: RunEven
 describe('run events', () => {
   it('push queue place, chain progress and the finished run to members; finished runs only to share-link readers', async () => {
     const model = (await w.editor.post(`${w.base}/cells`, { kind: 'model', source: 'unknown a\nterm ld_normal(a, 0, 1)\nconstrain a >= 0\n' })).body.cell;
-    const settings = { chains: 2, warmup: 2000, draws: 5000, seed: 9, sampler: 'hitrun' };
+    // RHMC: a few seconds per chain, so the notebook's poller (about once a second) sees it running.
+    const settings = { chains: 2, warmup: 2000, draws: 5000, seed: 9, sampler: 'rhmc' };
     const fit = (await w.editor.post(`${w.base}/cells`, { kind: 'fit', content: { modelCellId: model.id, settings } })).body.cell;
     const queued = await w.editor.post(`${w.base}/cells/${fit.id}/runs`, {});
     expect(queued.status).toBe(201);

@@ -138,16 +138,19 @@ describe('workspace page', () => {
 });
 
 describe('notebook page', () => {
+  const notebookDetail = (role: Role) => ({
+    notebook: { id: 'n1', workspaceId: 'w1', title: 'Coffee blend shares', createdAt: ISO, updatedAt: ISO },
+    cells: [],
+    role,
+    workspaceName: 'Roastery',
+  });
+  // The screen opens with the one-request page read; the detail alone answers later refetches.
   const detail = (role: Role) => ({
-    'GET /api/workspaces/w1/notebooks/n1': {
+    'GET /api/workspaces/w1/notebooks/n1/page': {
       status: 200,
-      body: {
-        notebook: { id: 'n1', workspaceId: 'w1', title: 'Coffee blend shares', createdAt: ISO, updatedAt: ISO },
-        cells: [],
-        role,
-        workspaceName: 'Roastery',
-      },
+      body: { detail: notebookDetail(role), datasets: [], modelChecks: [], cellRuns: [], comments: [] },
     },
+    'GET /api/workspaces/w1/notebooks/n1': { status: 200, body: notebookDetail(role) },
   });
 
   it('lets editors manage share links; viewers only read', async () => {
