@@ -150,9 +150,10 @@ async function flow() {
     const fits = page.locator('section[data-kind="fit"]');
     for (let k = 0; k < (await fits.count()); k++) {
       await fits.nth(k).scrollIntoViewIfNeeded();
-      await fits.nth(k).getByTestId('plot').locator('svg').first().waitFor({ timeout: 30_000 });
+      await fits.nth(k).locator('[data-testid="fit-plots"] [data-testid="plot"] svg').first().waitFor({ timeout: 30_000 });
     }
-    expect(await page.locator('[data-testid="fit-plots"] [data-testid="plot"] svg').count()).toBe(5); // with the one-mean fit of the demo comparison
+    // One results figure per finished fit, with the one-mean fit of the demo comparison.
+    await expect.poll(() => page.locator('[data-testid="fit-plots"] [data-testid="plot"] svg').count(), { timeout: 30_000 }).toBe(5);
     const reviewedFit = page.locator('section[data-kind="fit"]').last();
     await reviewedFit.getByRole('button', { name: /^Comments on this fit cell/ }).click();
     await page.getByLabel('Comment on this cell…').fill('Is a spread prior of 2 too wide for this panel?');
