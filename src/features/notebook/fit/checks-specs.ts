@@ -11,29 +11,9 @@
 import type { LooSummary, Overlay, StatCheckSummary } from '@shared/checks';
 import { FONT_MONO, FONT_UI, PALETTE } from '@/lib/plot/palette';
 import type { Spec } from '../components/plot-frame';
+import { baseSpec } from '@/lib/plot/base-spec';
 
-const base = (width: number, height: number): Spec => ({
-  $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-  width,
-  height,
-  background: 'transparent',
-  config: {
-    font: FONT_UI,
-    view: { stroke: null },
-    axis: {
-      labelFont: FONT_MONO,
-      labelFontSize: 10,
-      labelColor: PALETTE.inkSoft,
-      titleFont: FONT_UI,
-      titleFontWeight: 500,
-      titleColor: PALETTE.ink,
-      gridColor: PALETTE.rule,
-      gridOpacity: 0.6,
-      domainColor: PALETTE.rule,
-      tickColor: PALETTE.rule,
-    },
-  },
-});
+const base = baseSpec;
 
 export interface OverlayBin {
   lo: number;

@@ -5,30 +5,10 @@
 import type { Box, Point, Segment } from './region';
 import { CHAIN_COLOURS, FONT_MONO, FONT_UI, PALETTE } from '@/lib/plot/palette';
 import type { Spec } from '../components/plot-frame';
+import { baseSpec } from '@/lib/plot/base-spec';
 
-const base = (width: number, height: number): Spec => ({
-  $schema: 'https://vega.github.io/schema/vega-lite/v6.json',
-  width,
-  height,
-  background: 'transparent',
-  config: {
-    font: FONT_UI,
-    view: { stroke: null },
-    axis: {
-      labelFont: FONT_MONO,
-      labelFontSize: 10,
-      labelColor: PALETTE.inkSoft,
-      titleFont: FONT_UI,
-      titleFontWeight: 500,
-      titleColor: PALETTE.ink,
-      gridColor: PALETTE.rule,
-      gridOpacity: 0.6,
-      domainColor: PALETTE.rule,
-      tickColor: PALETTE.rule,
-    },
-    legend: { labelFont: FONT_UI, titleFont: FONT_UI, orient: 'top', direction: 'horizontal' },
-  },
-});
+const base = (width: number, height: number): Spec =>
+  baseSpec(width, height, { legend: { labelFont: FONT_UI, titleFont: FONT_UI, orient: 'top', direction: 'horizontal' } });
 
 const chainScale = (chains: number) => ({
   domain: Array.from({ length: chains }, (_, k) => k + 1),
