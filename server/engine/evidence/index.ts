@@ -193,12 +193,11 @@ function gaussianPlan(p: PreparedTarget): GaussianPlan | null {
   return { frame: withRounding(frame, Float64Array.from(hc.L)), centre, offset };
 }
 
-export function computeEvidence(p: PreparedTarget, opts: EvidenceOptions = {}): EvidenceResult {
-  const started = performance.now();
+/** Replicates, seed, draws per stage and annealing settings of one evidence computation in n dimensions. */
+function annealRun(n: number, opts: EvidenceOptions): { R: number; seed: number; N: number; cfg: AnnealSettings } {
   const R = opts.replicates ?? EVIDENCE_DEFAULTS.replicates;
   if (!Number.isInteger(R) || R < 2 || R > 64) throw new Error('replicates must be a whole number from 2 to 64.');
   const seed = opts.seed ?? EVIDENCE_DEFAULTS.seed;
-  const n = p.n;
   const N = opts.drawsPerStage ?? EVIDENCE_DEFAULTS.drawsPerStage;
   const cfg: AnnealSettings = {
     drawsPerStage: N,
@@ -210,6 +209,13 @@ export function computeEvidence(p: PreparedTarget, opts: EvidenceOptions = {}): 
     signal: opts.signal,
     ...opts.tuning,
   };
+  return { R, seed, N, cfg };
+}
+
+export function computeEvidence(p: PreparedTarget, opts: EvidenceOptions = {}): EvidenceResult {
+  const started = performance.now();
+  const n = p.n;
+  const { R, seed, N, cfg } = annealRun(n, opts);
   const flat = isFlat(p);
   const bounded = p.bounded && p.m > 0;
   if (flat && !bounded) {
@@ -322,20 +328,7 @@ export function computeVolume(p: PreparedTarget, opts: EvidenceOptions = {}): Ev
  */
 export function computeOracleVolume(n: number, oracle: BodyOracle, opts: EvidenceOptions = {}): EvidenceResult {
   const started = performance.now();
-  const R = opts.replicates ?? EVIDENCE_DEFAULTS.replicates;
-  if (!Number.isInteger(R) || R < 2 || R > 64) throw new Error('replicates must be a whole number from 2 to 64.');
-  const seed = opts.seed ?? EVIDENCE_DEFAULTS.seed;
-  const N = opts.drawsPerStage ?? EVIDENCE_DEFAULTS.drawsPerStage;
-  const cfg: AnnealSettings = {
-    drawsPerStage: N,
-    walkers: Math.max(4, Math.min(40, Math.floor(N / 8))),
-    thin: Math.max(4, 2 * n),
-    burn: Math.max(20, 5 * n),
-    essTarget: opts.essTarget ?? EVIDENCE_DEFAULTS.essTarget,
-    maxStages: 3000,
-    signal: opts.signal,
-    ...opts.tuning,
-  };
+  const { R, seed, N, cfg } = annealRun(n, opts);
   const f = oracleFrame(n, oracle);
   const logs: number[] = [];
   const totals: StageLog = { stages: 0, draws: 0, moves: 0, densityEvaluations: 0 };
