@@ -381,18 +381,7 @@ export class RunWorker {
         }
       });
     } catch (e) {
-      const why = stopped as StopReason | null;
-      if (why === 'lost' || why === 'abandon') {
-        this.log(`run ${run.id}: summary stopped (${why === 'lost' ? 'cancelled or lease lost' : 'worker stopping'})`);
-        return;
-      }
-      const message = e instanceof Error ? e.message : String(e);
-      try {
-        await this.write(`failing run ${run.id}`, () => failUnitRun(this.db, claim, this.id, message, this.clock.now()));
-      } catch (e2) {
-        this.log(`run ${run.id}: could not record its failure: ${describe(e2)}`);
-      }
-      this.log(`run ${run.id} failed: ${message}`);
+      await this.endWholeUnit(claim, 'summary', stopped as StopReason | null, e instanceof Error ? e.message : String(e));
     }
   }
 
@@ -420,18 +409,27 @@ export class RunWorker {
       });
     } catch (e) {
       const why = stopped as StopReason | null;
-      if (why === 'lost' || why === 'abandon') {
-        this.log(`run ${run.id}: job stopped (${why === 'lost' ? 'cancelled or lease lost' : 'worker stopping'})`);
-        return;
-      }
       const message = why === 'wall' ? `The job ran longer than the limit of ${this.wallSeconds} s and was stopped.` : e instanceof Error ? e.message : String(e);
-      try {
-        await this.write(`failing run ${run.id}`, () => failUnitRun(this.db, claim, this.id, message, this.clock.now()));
-      } catch (e2) {
-        this.log(`run ${run.id}: could not record its failure: ${describe(e2)}`);
-      }
-      this.log(`run ${run.id} failed: ${message}`);
+      await this.endWholeUnit(claim, 'job', why, message);
     }
+  }
+
+  /**
+   * A summary or job unit that ended early: stopped (cancelled, lease lost, worker stopping) leaves
+   * the run to whoever holds it now; anything else fails the run with `message`.
+   */
+  private async endWholeUnit(claim: Claim, what: 'summary' | 'job', why: StopReason | null, message: string): Promise<void> {
+    const { run } = claim;
+    if (why === 'lost' || why === 'abandon') {
+      this.log(`run ${run.id}: ${what} stopped (${why === 'lost' ? 'cancelled or lease lost' : 'worker stopping'})`);
+      return;
+    }
+    try {
+      await this.write(`failing run ${run.id}`, () => failUnitRun(this.db, claim, this.id, message, this.clock.now()));
+    } catch (e2) {
+      this.log(`run ${run.id}: could not record its failure: ${describe(e2)}`);
+    }
+    this.log(`run ${run.id} failed: ${message}`);
   }
 
   /** A chain encoded on the compute pool (as the engine gave it if the pool fails: it is encoded while stored then). */
