@@ -149,8 +149,14 @@ async function flow() {
     // drawing before pointing at anything below them.
     const fits = page.locator('section[data-kind="fit"]');
     for (let k = 0; k < (await fits.count()); k++) {
-      await fits.nth(k).scrollIntoViewIfNeeded();
-      await fits.nth(k).locator('[data-testid="fit-plots"] [data-testid="plot"] svg').first().waitFor({ timeout: 30_000 });
+      // Cells above may still grow as their own plots arrive: bring this one into view again until its figure is there.
+      const figure = fits.nth(k).locator('[data-testid="fit-plots"] [data-testid="plot"] svg').first();
+      await expect
+        .poll(async () => {
+          await fits.nth(k).scrollIntoViewIfNeeded();
+          return figure.isVisible();
+        }, { timeout: 30_000 })
+        .toBe(true);
     }
     // One results figure per finished fit, with the one-mean fit of the demo comparison.
     await expect.poll(() => page.locator('[data-testid="fit-plots"] [data-testid="plot"] svg').count(), { timeout: 30_000 }).toBe(5);

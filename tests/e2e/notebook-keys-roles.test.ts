@@ -335,9 +335,15 @@ describe('the other pages on a phone (390 px wide)', () => {
         expect(await panel.innerText()).toContain('share');
         const fit = page.locator('section[data-kind="fit"]').first();
         await fit.getByTestId('quantity-row').first().waitFor();
-        // Plots load as their fit cell comes near the viewport.
-        await fit.scrollIntoViewIfNeeded();
-        await fit.getByTestId('triangle-figure').waitFor();
+        // Plots load as their fit cell comes near the viewport; cells above may still grow as
+        // their own plots arrive, so bring it into view again until its figure is there.
+        const triangle = fit.getByTestId('triangle-figure');
+        await expect
+          .poll(async () => {
+            await fit.scrollIntoViewIfNeeded();
+            return triangle.isVisible();
+          }, { timeout: 30_000 })
+          .toBe(true);
         await model.getByRole('button', { name: /^Comments on this model cell/ }).click();
         await page.getByTestId('comment-thread').filter({ hasText: 'same lab' }).waitFor();
         await expectNoSidewaysScroll('notebook with the comments open, as a reviewer');

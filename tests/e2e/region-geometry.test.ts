@@ -135,9 +135,16 @@ function outside({ polygon, draws }: Drawn, tol = 0.05): [number, number][] {
 }
 
 async function openRegionTab(fit: Locator) {
-  // Plots load as their fit cell comes near the viewport.
-  await fit.scrollIntoViewIfNeeded();
-  await fit.getByRole('tab', { name: 'Feasible region' }).click();
+  // Plots load as their fit cell comes near the viewport; cells above may still grow as their own
+  // plots arrive, so bring it into view again until its tabs are there.
+  const tab = fit.getByRole('tab', { name: 'Feasible region' });
+  await expect
+    .poll(async () => {
+      await fit.scrollIntoViewIfNeeded();
+      return tab.isVisible();
+    }, { timeout: 30_000 })
+    .toBe(true);
+  await tab.click();
 }
 
 /** Every pair (i < j) of the first `n` unknowns through the "across"/"up" choices. */
