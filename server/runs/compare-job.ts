@@ -27,7 +27,7 @@ import { datasetMetaColumns, loadDataTables, notebookTables } from '../notebook/
 import { tablesNamed } from '../notebook/model';
 import type { ChainStats, RunRow } from './queue';
 import { activeRunCount, cancelRun, queuePositions } from './queue';
-import { workerLost } from './read';
+import { cellRunRows, workerLost } from './read';
 import type { CompareThreadInput, CompareThreadMessage, StoredFitRows } from './compare-thread';
 import { registerWholeRunJob } from './jobs';
 import { unitsFor, unitsOf, type UnitRow } from './units';
@@ -210,13 +210,7 @@ export async function findCompareRun(exec: Exec, workspaceId: string, runId: str
 
 /** The compare jobs of a compare cell, newest first. */
 export async function cellCompareRuns(exec: Exec, workspaceId: string, notebookId: string, cellId: string, now = new Date(), limit = 20): Promise<CompareRun[]> {
-  const rows = await exec
-    .select({ r: runs, name: users.name })
-    .from(runs)
-    .leftJoin(users, eq(users.id, runs.requestedBy))
-    .where(and(eq(runs.workspaceId, workspaceId), eq(runs.notebookId, notebookId), eq(runs.cellId, cellId)))
-    .orderBy(desc(runs.createdAt), desc(runs.id))
-    .limit(limit);
+  const rows = await cellRunRows(exec, workspaceId, notebookId, cellId, limit);
   return withResults(exec, rows.filter((x) => isCompareSpec(x.r.spec)), now);
 }
 

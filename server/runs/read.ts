@@ -103,14 +103,19 @@ export async function findRun(exec: Exec, workspaceId: string, runId: string, no
   return { ...run, row: x.r };
 }
 
-export async function cellRuns(exec: Exec, workspaceId: string, notebookId: string, cellId: string, now = new Date(), limit = 50): Promise<Run[]> {
-  const rows = await exec
+/** A cell's run rows (fits and comparisons alike) with their requesters' names, newest first. */
+export function cellRunRows(exec: Exec, workspaceId: string, notebookId: string, cellId: string, limit: number) {
+  return exec
     .select({ r: runs, name: users.name })
     .from(runs)
     .leftJoin(users, eq(users.id, runs.requestedBy))
     .where(and(eq(runs.workspaceId, workspaceId), eq(runs.notebookId, notebookId), eq(runs.cellId, cellId)))
     .orderBy(desc(runs.createdAt), desc(runs.id))
     .limit(limit);
+}
+
+export async function cellRuns(exec: Exec, workspaceId: string, notebookId: string, cellId: string, now = new Date(), limit = 50): Promise<Run[]> {
+  const rows = await cellRunRows(exec, workspaceId, notebookId, cellId, limit);
   return withSummaries(exec, rows.filter((x) => !isCompareSpec(x.r.spec)), now);
 }
 
