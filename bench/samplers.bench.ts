@@ -9,7 +9,9 @@
  * Per engine and problem: a short calibration chain (not counted) gives the seconds per iteration;
  * the chains then get iterations = budget / (chains × seconds per iteration), half warm-up, at
  * least 5 warm-up iterations and 10 kept draws each, so an engine whose
- * iterations are slow overruns the budget (its ESS/s stays honest: seconds are measured). ESS is the minimum over the unknowns' coordinates of the bulk and tail
+ * iterations are slow overruns the budget (its ESS/s stays honest: seconds are measured); chains
+ * that used less than half the budget are run again at the length their measured cost per iteration
+ * gives (the calibration chain overstates it for engines whose first iterations are the slowest). ESS is the minimum over the unknowns' coordinates of the bulk and tail
  * ESS (server/engine/diagnostics); ESS/s divides it by the chains' wall time (warm-up included).
  * `auto` is timed from its pilots to its last draw: the pilots are sized for a fit of as many
  * iterations as the cheapest shortlisted engine does in the budget, and its chains run as many
@@ -38,6 +40,8 @@ const BUDGET = Number(process.env.BENCH_BUDGET ?? (QUICK ? 0.4 : 8));
 const MIN_WARMUP = 5;
 const MIN_DRAWS = 10;
 const CALIBRATION = QUICK ? 1 : 6;
+/** An engine's chains are lengthened at most this many times after a run that used < half the budget. */
+const RESIZE_MAX = 20;
 const CHAINS = QUICK ? 2 : 4;
 const SEED = 20261203;
 /** Development filters (comma-separated): BENCH_PROBLEMS=P4,P5 and BENCH_ENGINES=rhmc,reflect-hmc. */
@@ -143,8 +147,21 @@ async function benchProblem(id: string): Promise<ProblemResult> {
         process.stderr.write(`    over the quick budget (${f3(spi)} s per iteration)\n`);
         continue;
       }
-      const { outs, seconds } = runChainsTimed(p, engine, starts, warmup, draws);
-      const r = summarise(p, engine, outs, draws, warmup, seconds);
+      let size = sizeFor(spi, BUDGET);
+      let run = runChainsTimed(p, engine, starts, warmup, draws);
+      // The short calibration chain overstates the cost per iteration of an engine whose first
+      // iterations are its slowest (step-size search, early warm-up): when the chains used less than
+      // half the budget, they are run again at the length the measured cost per iteration gives
+      // (at most RESIZE_MAX times longer), so every engine's estimate rests on about the same time.
+      if (run.seconds < 0.5 * BUDGET) {
+        const measured = run.seconds / (CHAINS * (warmup + draws));
+        const spi2 = Math.max(measured, spi / RESIZE_MAX);
+        perIteration.set(engine, spi2);
+        size = sizeFor(spi2, BUDGET);
+        run = runChainsTimed(p, engine, starts, size.warmup, size.draws);
+      }
+      const { outs, seconds } = run;
+      const r = summarise(p, engine, outs, size.draws, size.warmup, seconds);
       engines.push(r);
       process.stderr.write(`    ESS/s ${f3(r.essPerSecond)}, ESS/draw ${f3(r.essPerDraw)}, ${f3(seconds)} s\n`);
     } catch (e) {

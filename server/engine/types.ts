@@ -90,6 +90,8 @@ export interface ChainOptions {
   onProgress?: (phase: 'warmup' | 'sampling', iteration: number) => void;
   /** Checked between iterations; a cancelled chain throws an Error named 'AbortError'. */
   signal?: AbortSignal;
+  /** Called once, just before the first kept iteration (after warm-up). */
+  onWarmupEnd?: () => void;
 }
 
 export interface ChainOutput {
@@ -134,6 +136,10 @@ export interface ChainOutput {
   work?: number;
   /** Log-density (with gradient) evaluations of the whole chain, warm-up included. */
   evaluations?: number;
+  /** Of those, the evaluations made during warm-up (sampleChain). */
+  warmupEvaluations?: number;
+  /** Of `work`, the part done during warm-up (engines that count their work). */
+  warmupWork?: number;
 }
 
 /** One chain's kept output plus the derived quantities evaluated per draw. */

@@ -47,10 +47,15 @@ export function runLoop(p: PreparedTarget, opts: ChainOptions, check: DrawCheck,
   const energy = eng.hasEnergy ? new Float64Array(opts.draws) : undefined;
   const theta = new Float64Array(dim);
   const total = opts.warmup + opts.draws;
+  let warmupWork = 0;
   for (let it = 0; it < total; it++) {
     if (opts.signal?.aborted) throw abortError();
     const warm = it < opts.warmup;
-    if (it === opts.warmup) eng.endWarmup?.();
+    if (it === opts.warmup) {
+      opts.onWarmupEnd?.();
+      warmupWork = eng.work();
+      eng.endWarmup?.();
+    }
     const r = eng.iterate(warm, it);
     if (!warm) {
       const k = it - opts.warmup;
@@ -63,8 +68,12 @@ export function runLoop(p: PreparedTarget, opts: ChainOptions, check: DrawCheck,
     }
     if (opts.onProgress && (it % 20 === 0 || it === total - 1)) opts.onProgress(warm ? 'warmup' : 'sampling', it);
   }
-  if (opts.warmup === total) eng.endWarmup?.();
-  return { draws, divergent, rejected, acceptStat, ...(energy ? { energy } : {}), stepSize: eng.stepSize(), work: eng.work() };
+  if (opts.warmup === total) {
+    opts.onWarmupEnd?.();
+    warmupWork = eng.work();
+    eng.endWarmup?.();
+  }
+  return { draws, divergent, rejected, acceptStat, ...(energy ? { energy } : {}), stepSize: eng.stepSize(), work: eng.work(), warmupWork };
 }
 
 /** Slacks b − A z into s; false when one is not strictly positive. */

@@ -144,6 +144,7 @@ export function hitRunChain(
       throw e;
     }
     const warm = it < opts.warmup;
+    if (it === opts.warmup) opts.onWarmupEnd?.();
     for (let k = 0; k < moves; k++) hitRunStep(p, st, rng, warm);
     if (warm && st.jumpCount > 0 && (it + 1) % 10 === 0) {
       // Slice width: a few typical jumps ("Slice sampling", 2003, §4.1, suggests a typical slice size).
@@ -157,12 +158,14 @@ export function hitRunChain(
     }
     if (opts.onProgress && (it % 20 === 0 || it === total - 1)) opts.onProgress(warm ? 'warmup' : 'sampling', it);
   }
+  // Per move: A d, the chord and the slack update (≈ 2 nnz + 4 m), the direction (n² rounded).
+  const perIteration = moves * (2 * p.rows.val.length + 4 * p.m + 4 * n + (rounded ? n * n : 0));
   return {
     draws,
     divergent: new Uint8Array(opts.draws),
     acceptStat: new Float64Array(opts.draws).fill(1),
     stepSize: NaN,
-    // Per move: A d, the chord and the slack update (≈ 2 nnz + 4 m), the direction (n² rounded).
-    work: total * moves * (2 * p.rows.val.length + 4 * p.m + 4 * n + (rounded ? n * n : 0)),
+    work: total * perIteration,
+    warmupWork: opts.warmup * perIteration,
   };
 }

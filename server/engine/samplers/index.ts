@@ -88,9 +88,17 @@ export function sampleChain(p0: PreparedTarget, sampler: SamplerName, start: Flo
     },
   };
   const p: PreparedTarget = { ...p0, target, logDensity: (z, g) => (p0.N ? (evaluations++, p0.logDensity(z, g)) : target.logDensity(z, g)) };
-  const out = sampleWith(p, sampler, start, opts);
+  let warmupEvaluations = evaluations;
+  const out = sampleWith(p, sampler, start, {
+    ...opts,
+    onWarmupEnd: () => {
+      warmupEvaluations = evaluations;
+      opts.onWarmupEnd?.();
+    },
+  });
   if (p.flat !== undefined) p0.flat = p.flat;
   out.evaluations = evaluations;
+  out.warmupEvaluations = opts.draws > 0 ? warmupEvaluations : evaluations;
   return out;
 }
 

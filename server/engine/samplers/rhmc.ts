@@ -634,6 +634,7 @@ export function leapfrogChain(
     if (opts.signal?.aborted) throw abortError();
     const warm = it < opts.warmup;
     if (it === opts.warmup) {
+      opts.onWarmupEnd?.();
       eps = opts.warmup > 0 ? settings.finalStepScale * da.final() : eps;
       factAtSampling = integ.factorizations;
       stepsAtSampling = integ.steps;

@@ -448,6 +448,37 @@ export class TransformMap {
   }
 }
 
+/**
+ * Initial inverse metric from the diagonal of −∇²ℓ at x by central differences of the gradient
+ * (2k evaluations): 1/curvature where it is positive and finite; elsewhere (a flat or locally
+ * non-concave direction) the geometric mean of the others, or 1. Clamped to [1e-10, 1e4]. Starting
+ * the metric at the local curvature rather than the identity is common practice for short
+ * warm-ups (the inverse Hessian's diagonal as a first guess of the posterior's scales).
+ */
+export function curvatureInverseMetric(logDensity: (x: Float64Array, g: Float64Array) => number, x0: Float64Array): Float64Array {
+  const k = x0.length;
+  const x = Float64Array.from(x0);
+  const g1 = new Float64Array(k);
+  const g2 = new Float64Array(k);
+  const out = new Float64Array(k).fill(NaN);
+  for (let q = 0; q < k; q++) {
+    const h = 1e-4 * (1 + Math.abs(x0[q]));
+    x[q] = x0[q] + h;
+    const l1 = logDensity(x, g1);
+    x[q] = x0[q] - h;
+    const l2 = logDensity(x, g2);
+    x[q] = x0[q];
+    const c = -(g1[q] - g2[q]) / (2 * h);
+    if (Number.isFinite(l1) && Number.isFinite(l2) && Number.isFinite(c) && c > 0) out[q] = Math.min(1e4, Math.max(1e-10, 1 / c));
+  }
+  let logSum = 0;
+  let count = 0;
+  for (let q = 0; q < k; q++) if (Number.isFinite(out[q])) (logSum += Math.log(out[q])), count++;
+  const fill = count > 0 ? Math.exp(logSum / count) : 1;
+  for (let q = 0; q < k; q++) if (!Number.isFinite(out[q])) out[q] = fill;
+  return out;
+}
+
 export function transformHmcChain(p: PreparedTarget, start: Float64Array, opts: ChainOptions, rng: Rng, check: DrawCheck): ChainOutput {
   const shape = detectTransformShape(p.target);
   if (!shape.ok) throw new Error(shape.reason);
@@ -475,25 +506,29 @@ export function transformHmcChain(p: PreparedTarget, start: Float64Array, opts: 
       for (let q = 0; q < n; q++) z[q] += N[j * n + q] * dj;
     }
   };
+  const logDensity = (y: Float64Array, gy: Float64Array): number => {
+    evals++;
+    const lj = map.forward(y, theta);
+    const l = p.target.logDensity(theta, gTheta);
+    if (!Number.isFinite(l) || !Number.isFinite(lj)) return -Infinity;
+    map.backward(y, gTheta, gy);
+    return l + lj;
+  };
   return euclideanHmcChain(
     p,
     {
       k,
       x0: y0,
-      logDensity: (y, gy) => {
-        evals++;
-        const lj = map.forward(y, theta);
-        const l = p.target.logDensity(theta, gTheta);
-        if (!Number.isFinite(l) || !Number.isFinite(lj)) return -Infinity;
-        map.backward(y, gTheta, gy);
-        return l + lj;
-      },
+      logDensity,
       drift: (y, pm, invM, t) => {
         for (let q = 0; q < k; q++) y[q] += t * invM[q] * pm[q];
         return true;
       },
       toZ,
-      invMetric0: new Float64Array(k).fill(1),
+      // Initial scales from the curvature at the start (the unconstrained density has no faces, so
+      // the offsets need no limit): a data-heavy posterior is far narrower than 1 in every
+      // coordinate, and a short warm-up cannot wait for the windows to find that out.
+      invMetric0: curvatureInverseMetric(logDensity, y0),
       driftWork: () => evals * 12 * d,
     },
     opts,

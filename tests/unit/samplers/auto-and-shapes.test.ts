@@ -122,7 +122,8 @@ describe('automatic choice', () => {
     // x ~ N(0, 1) truncated to x ≥ 1, y ~ N(0, 1) truncated to y ≥ 0.5: mean φ(a)/(1 − Φ(a))
     // ("Continuous Univariate Distributions", vol. 1, 2nd ed., Wiley 1994, ch. 13, truncated normal).
     const spec = { kind: 'program' as const, source: 'unknown x, y\nterm ld_normal(x, 0, 1) + ld_normal(y, 0, 1)\nconstrain x >= 1\nconstrain y >= 0.5', tables: {} };
-    const r = await runFit(spec, { chains: 4, warmup: 500, draws: 500, seed: 11 }, { parallel: false });
+    // 4 × (1,000 + 1,000) iterations: long enough for RHMC's pilot next to the transform engine's.
+    const r = await runFit(spec, { chains: 4, warmup: 1000, draws: 1000, seed: 11 }, { parallel: false });
     expect(r.summary.diagnostics.samplerReason).toMatch(/Pilot chains/);
     expect(r.summary.diagnostics.samplerReason).toMatch(/overdispersed/);
     for (const [name, a] of [['x', 1], ['y', 0.5]] as const) {
@@ -146,9 +147,9 @@ describe('automatic choice', () => {
   }, 60_000);
 
   it('a fit too short for pilots starts its chains from the widened Gaussian approximation at the bulk point: truncated normal means within 4 MCSE', async () => {
-    // Same targets and handbook means as above; 8 chains × (50 + 50) leaves no room for pilots.
+    // Same targets and handbook means as above; 4 chains × (50 + 50) leaves no room for pilots.
     const spec = { kind: 'program' as const, source: 'unknown x, y\nterm ld_normal(x, 0, 1) + ld_normal(y, 0, 1)\nconstrain x >= 1\nconstrain y >= 0.5', tables: {} };
-    const r = await runFit(spec, { chains: 8, warmup: 50, draws: 50, seed: 12 }, { parallel: false });
+    const r = await runFit(spec, { chains: 4, warmup: 50, draws: 50, seed: 12 }, { parallel: false });
     expect(r.summary.diagnostics.samplerReason).toMatch(/too short for pilots/);
     expect(r.summary.diagnostics.samplerReason).toMatch(/Gaussian approximation/);
     for (const [name, a] of [['x', 1], ['y', 0.5]] as const) {
