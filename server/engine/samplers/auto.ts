@@ -4,11 +4,11 @@
  * unit of modelled work (docs/engine.md §9.2).
  *
  * - Rules (no pilots): no inequalities → reflective HMC (plain HMC); a flat density on a box →
- *   coordinate hit-and-run; a flat density on a product of bounds, simplices and orderings →
- *   transform-based HMC.
- * - Candidates otherwise: flat on a general polytope → rounded hit-and-run and reflective HMC; a
- *   varying density on a product of bounds, simplices and orderings → transform-based HMC and RHMC;
- *   a varying density on a general polytope → RHMC and reflective HMC.
+ *   coordinate hit-and-run; any density on a product of bounds, simplices and orderings (flat on a
+ *   box excepted) → transform-based HMC.
+ * - Candidates otherwise (a general polytope): a flat density → rounded hit-and-run and reflective
+ *   HMC; a varying density → RHMC and reflective HMC (reflective first when RHMC's metric would be
+ *   factorised densely).
  * - Pilots: start at the bulk point (mode.ts bulkApproximation; the analytic centre for a flat
  *   density). A probe of PROBE_ITERATIONS iterations measures each candidate's modelled work per
  *   iteration; then one pilot chain per candidate, seeded with the fit's seed and a chain index of
@@ -78,12 +78,14 @@ export function shortlistEngines(p: PreparedTarget): Shortlist {
   // A varying density: the gradient-based engines (the walks' slice moves cost many evaluations
   // per draw and were never ahead on a varying density in the benchmark, bench/results/samplers.md).
   if (shape.ok) {
-    // A product of standard shapes: the transforms remove the faces, and where the mass presses on
-    // them RHMC's barrier metric bends away; reflective HMC was behind both on every such problem of
-    // the benchmark (P3, P4, P5, P8 in bench/results/samplers.md), so it is not piloted here.
+    // A product of standard shapes: the exact transforms remove the faces, and with its metric
+    // started at the curvature transform-based HMC was ahead of RHMC or within 0.8× of it on every
+    // such problem of the benchmark (P3, P4, P5, P8; reflective HMC far behind both), while pilots
+    // between the two cost up to a fifth of a short fit and their scores misranked them
+    // (bench/results/samplers.md, docs/engine.md §9.2). So it is taken by rule, without pilots.
     return {
-      candidates: ['transform-hmc', 'rhmc'],
-      why: `the region is a product of standard shapes (${shape.plan.description}) and the density varies`,
+      candidates: ['transform-hmc'],
+      why: `the region is a product of standard shapes (${shape.plan.description}) and the density varies; their exact transforms give HMC a smooth density without faces`,
     };
   }
   // A general polytope. Order matters only when the fit is too short for pilots (the first
@@ -115,7 +117,7 @@ export const PROBE_ITERATIONS = 6;
 /** Share of the fit's work (at the cheapest candidate's cost per iteration) spent on all pilots. */
 export const PILOT_SHARE = 0.08;
 export const PILOT_MIN = 30;
-export const PILOT_MAX = 300;
+export const PILOT_MAX = 200;
 
 /**
  * Pilot iterations per candidate: together the pilots may cost PILOT_SHARE of what the whole fit

@@ -121,9 +121,11 @@ describe('automatic choice', () => {
   it('pilots from the bulk point, chains from the chosen pilot\'s overdispersed draws: truncated normal means match the handbook within 4 MCSE', async () => {
     // x ~ N(0, 1) truncated to x ≥ 1, y ~ N(0, 1) truncated to y ≥ 0.5: mean φ(a)/(1 − Φ(a))
     // ("Continuous Univariate Distributions", vol. 1, 2nd ed., Wiley 1994, ch. 13, truncated normal).
-    const spec = { kind: 'program' as const, source: 'unknown x, y\nterm ld_normal(x, 0, 1) + ld_normal(y, 0, 1)\nconstrain x >= 1\nconstrain y >= 0.5', tables: {} };
-    // 4 × (1,000 + 1,000) iterations: long enough for RHMC's pilot next to the transform engine's.
-    const r = await runFit(spec, { chains: 4, warmup: 1000, draws: 1000, seed: 11 }, { parallel: false });
+    // The row x + 2y ≤ 30 makes the region a general polytope (so the choice pilots its candidates)
+    // and moves the means by less than 1e-20: P(x + 2y > 30) ≤ P(x > 10) + P(y > 10) < 1e-20 for these truncated normals (from the normal tail).
+    const spec = { kind: 'program' as const, source: 'unknown x, y\nterm ld_normal(x, 0, 1) + ld_normal(y, 0, 1)\nconstrain x >= 1\nconstrain y >= 0.5\nconstrain x + 2 * y <= 30', tables: {} };
+    // 4 × (2,500 + 2,500) iterations: long enough for RHMC's pilot next to the reflective engine's.
+    const r = await runFit(spec, { chains: 4, warmup: 2500, draws: 2500, seed: 11 }, { parallel: false });
     expect(r.summary.diagnostics.samplerReason).toMatch(/Pilot chains/);
     expect(r.summary.diagnostics.samplerReason).toMatch(/overdispersed/);
     for (const [name, a] of [['x', 1], ['y', 0.5]] as const) {
@@ -148,7 +150,7 @@ describe('automatic choice', () => {
 
   it('a fit too short for pilots starts its chains from the widened Gaussian approximation at the bulk point: truncated normal means within 4 MCSE', async () => {
     // Same targets and handbook means as above; 4 chains × (50 + 50) leaves no room for pilots.
-    const spec = { kind: 'program' as const, source: 'unknown x, y\nterm ld_normal(x, 0, 1) + ld_normal(y, 0, 1)\nconstrain x >= 1\nconstrain y >= 0.5', tables: {} };
+    const spec = { kind: 'program' as const, source: 'unknown x, y\nterm ld_normal(x, 0, 1) + ld_normal(y, 0, 1)\nconstrain x >= 1\nconstrain y >= 0.5\nconstrain x + 2 * y <= 30', tables: {} };
     const r = await runFit(spec, { chains: 4, warmup: 50, draws: 50, seed: 12 }, { parallel: false });
     expect(r.summary.diagnostics.samplerReason).toMatch(/too short for pilots/);
     expect(r.summary.diagnostics.samplerReason).toMatch(/Gaussian approximation/);
