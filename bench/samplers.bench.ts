@@ -265,8 +265,12 @@ export async function run() {
   const problems: ProblemResult[] = [];
   for (const id of Object.keys(PROBLEMS)) if (!ONLY_PROBLEMS || ONLY_PROBLEMS.includes(id)) problems.push(await benchProblem(id));
   const md = path.join(here, 'results', 'samplers.md');
-  if (!existsSync(md)) writeFileSync(md, MD_HEAD);
-  appendFileSync(md, markdown(problems, date));
+  // A development run restricted to some problems or engines is not history: printed, not appended.
+  if (ONLY_PROBLEMS || ONLY_ENGINES) process.stderr.write(markdown(problems, date));
+  else {
+    if (!existsSync(md)) writeFileSync(md, MD_HEAD);
+    appendFileSync(md, markdown(problems, date));
+  }
   const metrics: Record<string, number | string> = { mode: QUICK ? 'quick' : 'full', budgetSeconds: BUDGET, chains: CHAINS };
   for (const p of problems) {
     metrics[`${p.id}.autoRatio`] = p.autoRatio ?? NaN;
