@@ -83,16 +83,21 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
     })
     .filter((x): x is string => !!x);
   const datasets = useQueries({ queries: dataIds.map((id) => datasetQuery(access, id)) });
-  const tables: Record<string, SchemaSourceTable> = {};
-  // Level names of category columns, for labelling the elements of unknowns they gather.
-  const levels: Record<string, Record<string, readonly string[]>> = {};
-  for (const q of datasets) {
-    if (!q.data) continue;
-    const d = q.data.dataset;
-    levels[d.name] = Object.fromEntries(d.columns.filter((c) => c.levels).map((c) => [c.name, c.levels!]));
-    tables[d.name] = { rows: d.rows, columns: Object.fromEntries(d.columns.map((c) => [c.name, c])) };
-  }
-  const schema = dataSchemaOf(tables);
+  // Rebuilt only when a table's answer changes: every model editor reconfigures itself when the
+  // schema object changes, and the fit cells key their labels on it.
+  const datasetsKey = datasets.map((q) => `${q.data?.dataset.id ?? ''}@${q.dataUpdatedAt}`).join('|');
+  const { schema, levels } = useMemo(() => {
+    const tables: Record<string, SchemaSourceTable> = {};
+    // Level names of category columns, for labelling the elements of unknowns they gather.
+    const levels: Record<string, Record<string, readonly string[]>> = {};
+    for (const q of datasets) {
+      if (!q.data) continue;
+      const d = q.data.dataset;
+      levels[d.name] = Object.fromEntries(d.columns.filter((c) => c.levels).map((c) => [c.name, c.levels!]));
+      tables[d.name] = { rows: d.rows, columns: Object.fromEntries(d.columns.map((c) => [c.name, c])) };
+    }
+    return { schema: dataSchemaOf(tables), levels };
+  }, [datasetsKey]); // eslint-disable-line react-hooks/exhaustive-deps
 
   const add = (kind: NbCellKind, position: number) => {
     setActionError(null);
