@@ -4,7 +4,7 @@ import '@fontsource/jetbrains-mono/400.css';
 import '@fontsource/jetbrains-mono/600.css';
 import '@fontsource/jetbrains-mono/400-italic.css';
 import type { CheckResult, DataSchema } from '@shared/lang';
-import { useEffect, useRef } from 'react';
+import { useEffect, useLayoutEffect, useRef } from 'react';
 import { modelExtensions, readOnlyExtension, schemaExtension, type ModelCompartments } from '../extensions';
 
 /** Marks changes that come from the `value` prop, so they are not echoed back through onChange. */
@@ -60,7 +60,9 @@ export function ModelEditor(props: ModelEditorProps) {
   const compartments = useRef<ModelCompartments | null>(null);
   if (compartments.current === null) compartments.current = { schema: new Compartment(), readOnly: new Compartment() };
 
-  useEffect(() => {
+  // Built before the browser paints the commit that adds the editor, so the text shows in the same
+  // frame as the rest of the cell.
+  useLayoutEffect(() => {
     const c = compartments.current!;
     const p = latest.current;
     const view = new EditorView({
