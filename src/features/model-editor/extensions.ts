@@ -11,7 +11,6 @@ import {
   highlightActiveLineGutter,
   keymap,
   lineNumbers,
-  tooltips,
 } from '@codemirror/view';
 import type { CheckResult, DataSchema } from '@shared/lang';
 import { modelCompletionSource } from './completion';
@@ -85,9 +84,6 @@ export function modelExtensions(
     modelLinter(options.onCheck, options.lintDelay),
     modelHover,
     modelTheme,
-    // Completion, hover and lint tooltips live at the end of the page, so no container of the
-    // editor can clip them (a notebook cell contains its layout and paint: see cell-frame.tsx).
-    ...(typeof document === 'undefined' ? [] : [tooltips({ parent: document.body })]),
     EditorState.tabSize.of(2),
     EditorView.contentAttributes.of({ 'aria-label': options.label ?? 'Model', spellcheck: 'false', autocorrect: 'off', autocapitalize: 'off' }),
     keymap.of([...closeBracketsKeymap, ...completionKeymap, ...lintKeymap, ...historyKeymap, ...defaultKeymap, indentWithTab]),

@@ -22,12 +22,6 @@ export interface CellFrameProps {
 /**
  * One cell: a sheet whose head names its kind in words (never a number), with its tools on the
  * right. The sheet itself is focusable so the keyboard can move between cells.
- *
- * The body is `content-visibility: auto`: the browser skips the style, layout and painting of a
- * cell far from the viewport (a notebook of 50 cells opens with the work of the few in view) and
- * keeps the height it last had (`contain-intrinsic-size: auto`) so the page does not jump. The body
- * contains its paint, so anything that must float over other cells (the editor's tooltips) is
- * placed at the end of the page instead.
  */
 export function CellFrame(props: CellFrameProps) {
   const { id, kind, subtitle, collapsed, active, openComments, status, tools, onToggleCollapse, onFocusCell, children } = props;
@@ -72,7 +66,7 @@ export function CellFrame(props: CellFrameProps) {
           {tools}
         </div>
       </header>
-      {!collapsed && <div className="min-w-0 [content-visibility:auto] [contain-intrinsic-size:auto_16rem] p-[0.9rem] max-[520px]:px-[0.6rem] max-[520px]:py-3 [&_select]:max-w-full [&_select]:min-w-0 [&_select]:flex-[0_1_auto] [&_select]:text-ellipsis [&_label]:max-w-full [&_label]:min-w-0 [&_label>span]:flex-none [&_figure]:max-w-full [&_figure]:overflow-x-auto">{children}</div>}
+      {!collapsed && <div data-cell-body className="min-w-0 p-[0.9rem] max-[520px]:px-[0.6rem] max-[520px]:py-3 [&_select]:max-w-full [&_select]:min-w-0 [&_select]:flex-[0_1_auto] [&_select]:text-ellipsis [&_label]:max-w-full [&_label]:min-w-0 [&_label>span]:flex-none [&_figure]:max-w-full [&_figure]:overflow-x-auto">{children}</div>}
     </section>
   );
 }

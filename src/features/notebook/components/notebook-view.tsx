@@ -33,6 +33,7 @@ import { useResolveComment } from '../api/resolve-comment';
 import { nbKeys } from '../api/keys';
 import { preloadCharts } from './plot-frame';
 import { buttonClass } from '@/components/ui/button';
+import { nextQuietMoment } from '@/lib/quiet-moment';
 
 export interface NotebookViewProps {
   access: NotebookAccess;
@@ -56,6 +57,20 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
     // Fetch the charting code alongside the runs' draws rather than after them.
     if (hasFitCell) void preloadCharts().catch(() => undefined);
   }, [hasFitCell]);
+  // While the notebook opens, cells far from the viewport skip style, layout and paint
+  // (data-opening, app.css): the first screen is drawn with the work of the cells in view. At the
+  // page's first quiet moment every cell is rendered as usual (set on the element, not as state,
+  // so the cells do not render again).
+  const root = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    let live = true;
+    void nextQuietMoment().then(() => {
+      if (live) root.current?.removeAttribute('data-opening');
+    });
+    return () => {
+      live = false;
+    };
+  }, []);
   const [activeId, setActiveId] = useState<string | null>(cells[0]?.id ?? null);
   const [runSignals, setRunSignals] = useState<Record<string, number>>({});
   const [editingNotes, setEditingNotes] = useState<Record<string, boolean>>({});
@@ -153,7 +168,7 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
   }, [commentList]);
 
   return (
-    <div className="text-ink flex flex-col gap-3">
+    <div ref={root} data-opening="" className="text-ink flex flex-col gap-3">
       {member && <NotebookToolbar access={access} />}
       {!canEdit && member && (
         <div className="rounded-[3px] border border-rule-strong bg-sheet px-[0.9rem] py-[0.55rem] text-[0.85rem]" role="status" data-testid="read-only-banner">

@@ -1,4 +1,5 @@
 import { lazy, Suspense, Component, useEffect, useState, type ReactNode } from 'react';
+import { nextQuietMoment } from '@/lib/quiet-moment';
 
 /** A Vega-Lite specification, as the views build them. */
 export type Spec = Record<string, unknown>;
@@ -19,18 +20,12 @@ let chartModules: Promise<[typeof import('react-vega'), typeof import('vega-inte
  * drawing take a few hundred ms of the main thread). Once open, the gate stays open: a plot chosen
  * later draws at once.
  */
-let chartsGateOpen = typeof window === 'undefined' || typeof requestIdleCallback === 'undefined';
+let chartsGateOpen = typeof requestIdleCallback === 'undefined';
 let chartsGate: Promise<void> | null = null;
 
 function whenChartsMayDraw(): Promise<void> {
-  chartsGate ??= new Promise<void>((resolve) => {
-    const open = () => {
-      chartsGateOpen = true;
-      resolve();
-    };
-    if (chartsGateOpen) open();
-    // The timeout bounds the wait on a page that never goes quiet.
-    else requestIdleCallback(open, { timeout: 1500 });
+  chartsGate ??= nextQuietMoment().then(() => {
+    chartsGateOpen = true;
   });
   return chartsGate;
 }
