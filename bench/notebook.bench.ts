@@ -220,7 +220,13 @@ async function seedNotebook(db: Db): Promise<Seeded> {
   await addCell('notes', '## Next\n\nCompare the orchard models once their fits have run, and write up the blend shares.\n', null);
 
   const all = await db.select({ kind: cells.kind }).from(cells).where(where);
-  const done = await db.select({ id: runs.id }).from(runs).where(and(eq(runs.notebookId, t.notebookId), eq(runs.status, 'done')));
+  // Fit cells with a finished run (each shows one summary table and one plot panel); a finished
+  // comparison is a run too, of a compare cell, which has neither.
+  const done = await db
+    .selectDistinct({ cellId: runs.cellId })
+    .from(runs)
+    .innerJoin(cells, eq(cells.id, runs.cellId))
+    .where(and(eq(runs.notebookId, t.notebookId), eq(runs.status, 'done'), eq(cells.kind, 'fit')));
   if (all.length !== CELLS) throw new Error(`seeded ${all.length} cells, not ${CELLS}`);
   return {
     ...t,

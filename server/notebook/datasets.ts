@@ -119,6 +119,13 @@ export async function findDataset(exec: Exec, workspaceId: string, datasetId: st
   return row;
 }
 
+/** Datasets of a workspace by id, in one read (ids not found are absent). */
+export async function datasetMetas(exec: Exec, workspaceId: string, ids: string[]): Promise<Map<string, DatasetMeta>> {
+  if (ids.length === 0) return new Map();
+  const rows = await exec.select(metaColumns).from(datasets).where(and(eq(datasets.workspaceId, workspaceId), inArray(datasets.id, [...new Set(ids)])));
+  return new Map(rows.map((r) => [r.id, r]));
+}
+
 /** Datasets shown by the data cells of a notebook, by table name (a later cell wins a name clash). */
 export async function notebookTables(exec: Exec, workspaceId: string, notebookId: string): Promise<Map<string, DatasetMeta>> {
   const dataCells = await exec

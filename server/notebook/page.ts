@@ -5,14 +5,14 @@
  */
 import { createHash } from 'node:crypto';
 import type { NotebookPageResponse } from '../../shared/api/notebook-page';
-import { dataContentSchema, type CompileResponse } from '../../shared/api/notebook';
+import { dataContentSchema, datasetIdOf, type CellContent, type CompileResponse } from '../../shared/api/notebook';
 import type { Exec } from '../lib/audit';
 import { findNotebook, notebookCells, toNotebook } from '../routes/notebooks';
 import { loadComments, toComment } from '../routes/comments';
-import { datasetPreview, findDataset, loadDataTables, notebookTables, toDataset, type DatasetMeta } from './datasets';
+import { datasetMetas, datasetPreview, loadDataTables, toDataset, type DatasetMeta } from './datasets';
 import { checkModelOffThread } from './checks';
 import { tablesNamed } from './model';
-import { cellRuns } from '../runs/read';
+import { cellsRuns } from '../runs/read';
 
 const CHECK_CACHE = 256;
 const checks = new Map<string, Promise<CompileResponse>>();
@@ -38,9 +38,18 @@ function cachedCheck(exec: Exec, source: string, bound: Map<string, DatasetMeta>
 }
 
 export async function notebookPage(exec: Exec, ws: { id: string; role: NotebookPageResponse['detail']['role']; name: string }, notebookId: string, now: Date): Promise<NotebookPageResponse> {
-  const nb = await findNotebook(exec, ws.id, notebookId);
-  const cells = await notebookCells(exec, ws.id, nb.id);
-  const bound = await notebookTables(exec, ws.id, nb.id);
+  // A handful of reads whatever the notebook's size: the notebook and its cells together, then the
+  // data cells' tables in one read, every fit cell's runs in one (with one read of their
+  // summaries), the comments; table previews and model checks come from their caches.
+  const [nb, cells] = await Promise.all([findNotebook(exec, ws.id, notebookId), notebookCells(exec, ws.id, notebookId)]);
+  const dataCellIds = cells.filter((c) => c.kind === 'data').map((c) => datasetIdOf(c.content as CellContent));
+  const metas = await datasetMetas(exec, ws.id, dataCellIds.filter((x): x is string => typeof x === 'string'));
+  // The tables the notebook binds by name, as notebookTables reads them (a later cell wins a name clash).
+  const bound = new Map<string, DatasetMeta>();
+  for (const id of dataCellIds) {
+    const d = id ? metas.get(id) : undefined;
+    if (d) bound.set(d.name, d);
+  }
   const datasetIds = [
     ...new Set(
       cells
@@ -52,11 +61,12 @@ export async function notebookPage(exec: Exec, ws: { id: string; role: NotebookP
   const [datasets, modelChecks, runs, comments] = await Promise.all([
     Promise.all(
       datasetIds.map(async (id) => {
+        const d = metas.get(id);
+        if (!d) return []; // a deleted dataset: the cell asks for it and shows why
         try {
-          const d = await findDataset(exec, ws.id, id);
           return [{ dataset: toDataset(d), rows: await datasetPreview(exec, d) }];
         } catch {
-          return []; // a deleted dataset: the cell asks for it and shows why
+          return [];
         }
       }),
     ).then((xs) => xs.flat()),
@@ -71,7 +81,13 @@ export async function notebookPage(exec: Exec, ws: { id: string; role: NotebookP
           }
         }),
     ).then((xs) => xs.flat()),
-    Promise.all(cells.filter((c) => c.kind === 'fit').map(async (c) => ({ cellId: c.id, runs: await cellRuns(exec, ws.id, nb.id, c.id, now) }))),
+    cellsRuns(
+      exec,
+      ws.id,
+      nb.id,
+      cells.filter((c) => c.kind === 'fit').map((c) => c.id),
+      now,
+    ),
     loadComments(exec, ws.id, nb.id),
   ]);
   return {

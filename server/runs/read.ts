@@ -119,6 +119,30 @@ export async function cellRuns(exec: Exec, workspaceId: string, notebookId: stri
   return withSummaries(exec, rows.filter((x) => !isCompareSpec(x.r.spec)), now);
 }
 
+/**
+ * The runs of several cells of one notebook (as cellRuns answers each, in the order of `cellIds`):
+ * one read of their rows and one of their summaries, for the notebook screen's one request.
+ */
+export async function cellsRuns(exec: Exec, workspaceId: string, notebookId: string, cellIds: string[], now = new Date(), limit = 50): Promise<{ cellId: string; runs: Run[] }[]> {
+  if (cellIds.length === 0) return [];
+  const rows = await exec
+    .select({ r: runs, name: users.name })
+    .from(runs)
+    .leftJoin(users, eq(users.id, runs.requestedBy))
+    .where(and(eq(runs.workspaceId, workspaceId), eq(runs.notebookId, notebookId), inArray(runs.cellId, cellIds)))
+    .orderBy(desc(runs.createdAt), desc(runs.id));
+  const byCell = new Map<string, typeof rows>(cellIds.map((id) => [id, []]));
+  for (const x of rows) {
+    const list = x.r.cellId === null ? undefined : byCell.get(x.r.cellId);
+    if (list && list.length < limit) list.push(x);
+  }
+  const kept = cellIds.flatMap((id) => byCell.get(id)!.filter((x) => !isCompareSpec(x.r.spec)));
+  const all = await withSummaries(exec, kept, now);
+  const out = new Map<string, Run[]>(cellIds.map((id) => [id, []]));
+  for (const run of all) out.get(run.cellId ?? '')?.push(run);
+  return cellIds.map((cellId) => ({ cellId, runs: out.get(cellId)! }));
+}
+
 /** Stored chains as the compute tasks take them (raw bytes; decoding happens on the thread). */
 async function storedChainInputs(exec: Exec, workspaceId: string, runId: string): Promise<{ names: string[]; unknownNames: string[]; chains: StoredChainInput[] }> {
   const rows = await exec

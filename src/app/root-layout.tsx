@@ -1,4 +1,5 @@
-import { Outlet, ScrollRestoration } from 'react-router-dom';
+import { Outlet } from 'react-router-dom';
+import { ScrollMemory } from './scroll-memory';
 import { NavigationProgress } from '@/components/layout/app-shell';
 
 export function RootLayout() {
@@ -6,7 +7,7 @@ export function RootLayout() {
     <>
       <NavigationProgress />
       <Outlet />
-      <ScrollRestoration />
+      <ScrollMemory />
     </>
   );
 }

@@ -1,9 +1,10 @@
 import type { ComponentType } from 'react';
 import type { QueryClient } from '@tanstack/react-query';
-import { createBrowserRouter, redirect, type LoaderFunctionArgs, type RouteObject } from 'react-router-dom';
+import { createBrowserRouter, matchPath, redirect, type LoaderFunctionArgs, type RouteObject } from 'react-router-dom';
 import { AppShell } from '@/components/layout/app-shell';
 import { LoadingBlock } from '@/components/ui/spinner';
 import { meQueryOptions } from '@/features/auth/api/get-me';
+import { notebookQueryOptions } from '@/features/notebook/api/get-notebook';
 import { RouteError } from '@/routes/route-error';
 import { safeNext, withNext } from '@/lib/safe-next';
 import { RootLayout } from './root-layout';
@@ -32,6 +33,19 @@ const guestOnly = (qc: QueryClient) => async ({ request }: LoaderFunctionArgs) =
   if (me) throw redirect(safeNext(new URL(request.url).searchParams.get('next')));
   return null;
 };
+
+const NOTEBOOK_PATH = '/w/:workspaceId/n/:notebookId';
+
+/**
+ * Opening a notebook by its address: ask for the notebook screen's one request (getNotebookPage) at
+ * once, beside the session check and the route's code, instead of after both. The route's loader
+ * then finds the request under way. The page route checks access itself: signed out it answers 401
+ * (the session check sends the person to sign in either way), not a member 404 (the route's answer).
+ */
+export function prefetchFirstScreen(qc: QueryClient, pathname: string): void {
+  const m = matchPath(NOTEBOOK_PATH, pathname);
+  if (m?.params.workspaceId && m.params.notebookId) void qc.prefetchQuery(notebookQueryOptions(m.params.workspaceId, m.params.notebookId));
+}
 
 export function createRoutes(qc: QueryClient): RouteObject[] {
   const lazy = (load: () => Promise<RouteModule>) => lazyRoute(qc, load);
@@ -67,7 +81,7 @@ export function createRoutes(qc: QueryClient): RouteObject[] {
                 { path: 'activity', lazy: lazy(() => import('@/routes/workspace-activity')) },
               ],
             },
-            { path: '/w/:workspaceId/n/:notebookId', lazy: lazy(() => import('@/routes/notebook')) },
+            { path: NOTEBOOK_PATH, lazy: lazy(() => import('@/routes/notebook')) },
           ],
         },
         { path: '*', lazy: lazy(() => import('@/routes/not-found')) },
@@ -77,5 +91,6 @@ export function createRoutes(qc: QueryClient): RouteObject[] {
 }
 
 export function createAppRouter(qc: QueryClient) {
+  prefetchFirstScreen(qc, window.location.pathname);
   return createBrowserRouter(createRoutes(qc));
 }

@@ -27,6 +27,11 @@ describe('GET …/notebooks/:id/page', () => {
     const settings = { chains: 2, warmup: 100, draws: 100, seed: 3, sampler: 'auto' };
     const fit = (await w.editor.post(`${w.base}/cells`, { kind: 'fit', content: { modelCellId: model.id, settings } })).body.cell;
     expect((await w.editor.post(`${w.base}/cells/${fit.id}/runs`, {})).status).toBe(201);
+    // A second table and a second fit cell that has not run: each part lists them in cell order.
+    const up2 = await postFile(w.editor, `/api/workspaces/${w.ws}/datasets`, { name: 'beans.csv', text: 'grams\n18\n19\n17\n' }, { name: 'beans' });
+    expect(up2.status).toBe(201);
+    await w.editor.post(`${w.base}/cells`, { kind: 'data', content: { datasetId: up2.body.dataset.id } });
+    const fit2 = (await w.editor.post(`${w.base}/cells`, { kind: 'fit', content: { modelCellId: model.id, settings } })).body.cell;
     const worker = new RunWorker({ db: w.server.db.db, parallel: false, log: () => {} });
     while (await worker.runOnce()) {
       /* the fit's chains and summary */
@@ -37,14 +42,21 @@ describe('GET …/notebooks/:id/page', () => {
     expect(page.status).toBe(200);
     const b = page.body;
     expect(b.detail).toEqual((await w.viewer.get(w.base)).body);
-    expect(b.datasets).toEqual([(await w.viewer.get(`/api/workspaces/${w.ws}/datasets/${up.body.dataset.id}`)).body]);
+    expect(b.datasets).toEqual([
+      (await w.viewer.get(`/api/workspaces/${w.ws}/datasets/${up.body.dataset.id}`)).body,
+      (await w.viewer.get(`/api/workspaces/${w.ws}/datasets/${up2.body.dataset.id}`)).body,
+    ]);
     // A summary, not the table: the preview rows only.
     expect(b.datasets[0].dataset.rows).toBe(600);
     expect(b.datasets[0].rows.length).toBe(DATASET_PREVIEW_ROWS);
     const check = (await w.viewer.post(`/api/workspaces/${w.ws}/compile`, { source, notebookId: w.nb, region: true })).body;
     expect(b.modelChecks).toEqual([{ cellId: model.id, source, check }]);
     const runs = (await w.viewer.get(`${w.base}/cells/${fit.id}/runs`)).body.runs;
-    expect(b.cellRuns).toEqual([{ cellId: fit.id, runs }]);
+    expect(b.cellRuns).toEqual([
+      { cellId: fit.id, runs },
+      { cellId: fit2.id, runs: (await w.viewer.get(`${w.base}/cells/${fit2.id}/runs`)).body.runs },
+    ]);
+    expect(b.cellRuns[1].runs).toEqual([]);
     expect(b.cellRuns[0].runs[0].status).toBe('done');
     expect(b.cellRuns[0].runs[0].summary.quantities[0].name).toBe('rate');
     expect(b.comments).toEqual((await w.viewer.get(`${w.base}/comments`)).body.comments);

@@ -4,7 +4,7 @@ import '@fontsource/jetbrains-mono/400.css';
 import '@fontsource/jetbrains-mono/600.css';
 import '@fontsource/jetbrains-mono/400-italic.css';
 import type { CheckResult, DataSchema } from '@shared/lang';
-import { useEffect, useRef } from 'react';
+import { useEffect, useLayoutEffect, useRef } from 'react';
 import { modelExtensions, readOnlyExtension, schemaExtension, type ModelCompartments } from '../extensions';
 
 /** Marks changes that come from the `value` prop, so they are not echoed back through onChange. */
@@ -31,6 +31,26 @@ export interface ModelEditorProps {
   onView?: (view: EditorView | null) => void;
 }
 
+/**
+ * Editors mounted in the same commit (a notebook opening with a dozen model cells) are put into the
+ * page together at the end of it. A view reads the document's selection while it is built, which
+ * makes the browser lay out the page first when the page has changed; built outside the page and
+ * placed one after another, each editor would pay for a layout of everything the previous one
+ * added. Built outside and placed together, the layout happens once.
+ */
+let pending: (() => void)[] = [];
+
+function placeSoon(place: () => void): void {
+  pending.push(place);
+  if (pending.length === 1) queueMicrotask(placePending);
+}
+
+function placePending(): void {
+  const jobs = pending;
+  pending = [];
+  for (const place of jobs) place();
+}
+
 /** The model-cell editor: highlighting, completion, live diagnostics and Mod-Enter to run. */
 export function ModelEditor(props: ModelEditorProps) {
   const host = useRef<HTMLDivElement>(null);
@@ -40,11 +60,12 @@ export function ModelEditor(props: ModelEditorProps) {
   const compartments = useRef<ModelCompartments | null>(null);
   if (compartments.current === null) compartments.current = { schema: new Compartment(), readOnly: new Compartment() };
 
-  useEffect(() => {
+  // Built before the browser paints the commit that adds the editor, so the text shows in the same
+  // frame as the rest of the cell.
+  useLayoutEffect(() => {
     const c = compartments.current!;
     const p = latest.current;
     const view = new EditorView({
-      parent: host.current!,
       state: EditorState.create({
         doc: p.value,
         extensions: [
@@ -68,19 +89,34 @@ export function ModelEditor(props: ModelEditorProps) {
     });
     viewRef.current = view;
     p.onView?.(view);
+    // Built outside the page; placed with the other editors of this commit (see placeSoon).
+    let destroyed = false;
+    placeSoon(() => {
+      if (!destroyed) host.current?.appendChild(view.dom);
+    });
     return () => {
+      destroyed = true;
       latest.current.onView?.(null);
       view.destroy();
       viewRef.current = null;
     };
   }, []);
 
+  // The view is built with the schema and read-only flag of its first render: reconfigure only
+  // when they change afterwards.
+  const applied = useRef({ schema: props.schema, readOnly: props.readOnly ?? false });
+
   useEffect(() => {
+    if (applied.current.schema === props.schema) return;
+    applied.current.schema = props.schema;
     viewRef.current?.dispatch({ effects: compartments.current!.schema.reconfigure(schemaExtension(props.schema)) });
   }, [props.schema]);
 
   useEffect(() => {
-    viewRef.current?.dispatch({ effects: compartments.current!.readOnly.reconfigure(readOnlyExtension(props.readOnly ?? false)) });
+    const readOnly = props.readOnly ?? false;
+    if (applied.current.readOnly === readOnly) return;
+    applied.current.readOnly = readOnly;
+    viewRef.current?.dispatch({ effects: compartments.current!.readOnly.reconfigure(readOnlyExtension(readOnly)) });
   }, [props.readOnly]);
 
   useEffect(() => {

@@ -66,7 +66,7 @@ export function CellFrame(props: CellFrameProps) {
           {tools}
         </div>
       </header>
-      {!collapsed && <div className="min-w-0 p-[0.9rem] max-[520px]:px-[0.6rem] max-[520px]:py-3 [&_select]:max-w-full [&_select]:min-w-0 [&_select]:flex-[0_1_auto] [&_select]:text-ellipsis [&_label]:max-w-full [&_label]:min-w-0 [&_label>span]:flex-none [&_figure]:max-w-full [&_figure]:overflow-x-auto">{children}</div>}
+      {!collapsed && <div data-cell-body className="min-w-0 p-[0.9rem] max-[520px]:px-[0.6rem] max-[520px]:py-3 [&_select]:max-w-full [&_select]:min-w-0 [&_select]:flex-[0_1_auto] [&_select]:text-ellipsis [&_label]:max-w-full [&_label]:min-w-0 [&_label>span]:flex-none [&_figure]:max-w-full [&_figure]:overflow-x-auto">{children}</div>}
     </section>
   );
 }

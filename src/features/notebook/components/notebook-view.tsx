@@ -33,6 +33,7 @@ import { useResolveComment } from '../api/resolve-comment';
 import { nbKeys } from '../api/keys';
 import { preloadCharts } from './plot-frame';
 import { buttonClass } from '@/components/ui/button';
+import { nextQuietMoment } from '@/lib/quiet-moment';
 
 export interface NotebookViewProps {
   access: NotebookAccess;
@@ -56,6 +57,20 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
     // Fetch the charting code alongside the runs' draws rather than after them.
     if (hasFitCell) void preloadCharts().catch(() => undefined);
   }, [hasFitCell]);
+  // While the notebook opens, cells far from the viewport skip style, layout and paint
+  // (data-opening, app.css): the first screen is drawn with the work of the cells in view. At the
+  // page's first quiet moment every cell is rendered as usual (set on the element, not as state,
+  // so the cells do not render again).
+  const root = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    let live = true;
+    void nextQuietMoment().then(() => {
+      if (live) root.current?.removeAttribute('data-opening');
+    });
+    return () => {
+      live = false;
+    };
+  }, []);
   const [activeId, setActiveId] = useState<string | null>(cells[0]?.id ?? null);
   const [runSignals, setRunSignals] = useState<Record<string, number>>({});
   const [editingNotes, setEditingNotes] = useState<Record<string, boolean>>({});
@@ -83,16 +98,21 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
     })
     .filter((x): x is string => !!x);
   const datasets = useQueries({ queries: dataIds.map((id) => datasetQuery(access, id)) });
-  const tables: Record<string, SchemaSourceTable> = {};
-  // Level names of category columns, for labelling the elements of unknowns they gather.
-  const levels: Record<string, Record<string, readonly string[]>> = {};
-  for (const q of datasets) {
-    if (!q.data) continue;
-    const d = q.data.dataset;
-    levels[d.name] = Object.fromEntries(d.columns.filter((c) => c.levels).map((c) => [c.name, c.levels!]));
-    tables[d.name] = { rows: d.rows, columns: Object.fromEntries(d.columns.map((c) => [c.name, c])) };
-  }
-  const schema = dataSchemaOf(tables);
+  // Rebuilt only when a table's answer changes: every model editor reconfigures itself when the
+  // schema object changes, and the fit cells key their labels on it.
+  const datasetsKey = datasets.map((q) => `${q.data?.dataset.id ?? ''}@${q.dataUpdatedAt}`).join('|');
+  const { schema, levels } = useMemo(() => {
+    const tables: Record<string, SchemaSourceTable> = {};
+    // Level names of category columns, for labelling the elements of unknowns they gather.
+    const levels: Record<string, Record<string, readonly string[]>> = {};
+    for (const q of datasets) {
+      if (!q.data) continue;
+      const d = q.data.dataset;
+      levels[d.name] = Object.fromEntries(d.columns.filter((c) => c.levels).map((c) => [c.name, c.levels!]));
+      tables[d.name] = { rows: d.rows, columns: Object.fromEntries(d.columns.map((c) => [c.name, c])) };
+    }
+    return { schema: dataSchemaOf(tables), levels };
+  }, [datasetsKey]); // eslint-disable-line react-hooks/exhaustive-deps
 
   const add = (kind: NbCellKind, position: number) => {
     setActionError(null);
@@ -148,7 +168,7 @@ export function NotebookView({ access, cells: rawCells, canEdit, canComment }: N
   }, [commentList]);
 
   return (
-    <div className="text-ink flex flex-col gap-3">
+    <div ref={root} data-opening="" className="text-ink flex flex-col gap-3">
       {member && <NotebookToolbar access={access} />}
       {!canEdit && member && (
         <div className="rounded-[3px] border border-rule-strong bg-sheet px-[0.9rem] py-[0.55rem] text-[0.85rem]" role="status" data-testid="read-only-banner">
