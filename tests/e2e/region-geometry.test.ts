@@ -162,7 +162,18 @@ async function checkEveryPair(fit: Locator, n: number, name: string) {
       expect(outside({ polygon: drawn.polygon, draws: [[-1e4, -1e4], c as [number, number]] })).toEqual([[-1e4, -1e4]]);
     }
   }
-  await fit.screenshot({ path: await screenshotPath(`region-${name}.png`) });
+  // The screenshot waits for the cell to hold still; on a busy machine cells above it can still be
+  // growing as their plots arrive, so wait first until its box stays put for a moment.
+  await expect
+    .poll(async () => {
+      await fit.scrollIntoViewIfNeeded();
+      const a = await fit.boundingBox();
+      await page.waitForTimeout(250);
+      const b = await fit.boundingBox();
+      return JSON.stringify(a) === JSON.stringify(b);
+    }, { timeout: 30_000 })
+    .toBe(true);
+  await fit.screenshot({ path: await screenshotPath(`region-${name}.png`), timeout: 30_000 });
 }
 
 describe('every draw lies inside the drawn region', () => {
