@@ -143,7 +143,7 @@ function compileLogDensity(check: CheckResult, tables: DataTables): { fn: ModelT
       .slice()
       .reverse()
       .flat(),
-    'return lp === lp ? lp : -Infinity;',
+    'return lp === lp ? lp : NINF_;',
   ];
   const { fn, source } = build(gen, 'theta, grad', body);
   return { fn: fn as unknown as ModelTarget['logDensity'], source };

@@ -8,7 +8,7 @@ import { RUNTIME } from '../../../server/engine/compile/runtime';
 import { CompileError } from '../../../server/engine/compile/index';
 import { category, compile, numeric, table } from './helpers';
 
-const JS_WORDS = new Set(['use', 'strict', 'const', 'let', 'for', 'return', 'function', 'compiled', 'new', 'Float64Array', 'Math', 'exp', 'log', 'sqrt', 'pow', 'fill', 'theta', 'grad', 'out', 'R', 'C', 'P', 'Q', 'lp', 'Infinity']);
+const JS_WORDS = new Set(['use', 'strict', 'const', 'let', 'for', 'return', 'function', 'compiled', 'new', 'Float64Array', 'Math', 'exp', 'log', 'sqrt', 'pow', 'fill', 'theta', 'grad', 'out', 'R', 'C', 'P', 'Q', 'lp', 'Infinity', 'NaN', 'NAN_', 'INF_', 'NINF_']);
 const GENERATED = /^(?:K|v|a|V|A|s|j|i|x|g|e|y|b|q|d|c|r|z|ls|iv)\d+(?:[a-z]|\d)*$/;
 
 function identifiers(src: string): string[] {
