@@ -207,18 +207,22 @@ export function keptWorkPerIteration(p: PreparedTarget, engine: SamplerName, out
   if (draws < 1 || out.warmupEvaluations === undefined) return total / Math.max(1, warmup + draws);
   const evals = (out.evaluations ?? 0) - out.warmupEvaluations;
   let la: number;
-  if (out.work === undefined) la = evals * (engine === 'rhmc' || engine === 'rhmc-gl' ? rhmcStepWork(p, engine === 'rhmc-gl') : 0);
+  if (out.work === undefined) la = evals * uncountedStepWork(p, engine);
   else if (out.warmupWork !== undefined) la = out.work - out.warmupWork;
   else la = (out.work * draws) / Math.max(1, warmup + draws);
   return (evals * evalCost + la) / draws;
 }
 
+/**
+ * Linear-algebra work per evaluation of an engine that does not count its own: RHMC, one
+ * evaluation per integrator step, each step's linear algebra modelled from the metric's structure.
+ */
+function uncountedStepWork(p: PreparedTarget, engine: SamplerName): number {
+  return engine === 'rhmc' || engine === 'rhmc-gl' ? rhmcStepWork(p, engine === 'rhmc-gl') : 0;
+}
+
 function linearAlgebraWork(p: PreparedTarget, engine: SamplerName, out: ChainOutput): number {
-  if (out.work !== undefined) return out.work;
-  // RHMC does not count its own work: one evaluation per integrator step, each step's linear
-  // algebra modelled from the metric's structure.
-  const perStep = engine === 'rhmc' || engine === 'rhmc-gl' ? rhmcStepWork(p, engine === 'rhmc-gl') : 0;
-  return (out.evaluations ?? 0) * perStep;
+  return out.work ?? (out.evaluations ?? 0) * uncountedStepWork(p, engine);
 }
 
 /**

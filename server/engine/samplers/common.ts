@@ -48,14 +48,15 @@ export function runLoop(p: PreparedTarget, opts: ChainOptions, check: DrawCheck,
   const theta = new Float64Array(dim);
   const total = opts.warmup + opts.draws;
   let warmupWork = 0;
+  const endWarmup = () => {
+    opts.onWarmupEnd?.();
+    warmupWork = eng.work();
+    eng.endWarmup?.();
+  };
   for (let it = 0; it < total; it++) {
     if (opts.signal?.aborted) throw abortError();
     const warm = it < opts.warmup;
-    if (it === opts.warmup) {
-      opts.onWarmupEnd?.();
-      warmupWork = eng.work();
-      eng.endWarmup?.();
-    }
+    if (it === opts.warmup) endWarmup();
     const r = eng.iterate(warm, it);
     if (!warm) {
       const k = it - opts.warmup;
@@ -68,12 +69,35 @@ export function runLoop(p: PreparedTarget, opts: ChainOptions, check: DrawCheck,
     }
     if (opts.onProgress && (it % 20 === 0 || it === total - 1)) opts.onProgress(warm ? 'warmup' : 'sampling', it);
   }
-  if (opts.warmup === total) {
-    opts.onWarmupEnd?.();
-    warmupWork = eng.work();
-    eng.endWarmup?.();
-  }
+  if (opts.warmup === total) endWarmup();
   return { draws, divergent, rejected, acceptStat, ...(energy ? { energy } : {}), stepSize: eng.stepSize(), work: eng.work(), warmupWork };
+}
+
+/**
+ * −∂²ℓ/∂x_j² at x for every j, by central differences of the gradient with offset step(j); NaN where
+ * either evaluation or the difference is not finite. x is restored.
+ */
+export function curvatureByDifferences(
+  logDensity: (x: Float64Array, g: Float64Array) => number,
+  x: Float64Array,
+  step: (j: number) => number,
+  out: Float64Array,
+): Float64Array {
+  const n = x.length;
+  const g1 = new Float64Array(n);
+  const g2 = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    const x0 = x[j];
+    const h = step(j);
+    x[j] = x0 + h;
+    const l1 = logDensity(x, g1);
+    x[j] = x0 - h;
+    const l2 = logDensity(x, g2);
+    x[j] = x0;
+    const c = -(g1[j] - g2[j]) / (2 * h);
+    out[j] = Number.isFinite(l1) && Number.isFinite(l2) && Number.isFinite(c) ? c : NaN;
+  }
+  return out;
 }
 
 /** Slacks b − A z into s; false when one is not strictly positive. */

@@ -8,6 +8,7 @@ import { Rng } from '../rng';
 import { bulkApproximation } from '../mode';
 import { eliminatedTarget } from '../geometry/elimination';
 import type { Cholesky } from '../linalg/cholesky';
+import { RowMatrix } from '../linalg/sparse';
 import { hitRunChain } from './hitrun';
 import { rhmcChain } from './rhmc';
 import { ballWalkChain } from './ball-walk';
@@ -26,30 +27,14 @@ export function makeDrawCheck(p: PreparedTarget): (z: Float64Array, out: Float64
   const { inequalities: I, equalities: E, dim } = p.target;
   // The rows' nonzeros, gathered once: constraint rows are mostly sparse (bounds, orderings,
   // differences), so a draw is checked in O(nonzeros) instead of O(rows × dimension).
-  const sparse = (A: Float64Array, rows: number) => {
-    const start = new Int32Array(rows + 1);
-    const cols: number[] = [];
-    const vals: number[] = [];
-    for (let i = 0; i < rows; i++) {
-      for (let j = 0; j < dim; j++) {
-        const a = A[i * dim + j];
-        if (a !== 0) {
-          cols.push(j);
-          vals.push(a);
-        }
-      }
-      start[i + 1] = cols.length;
-    }
-    return { start, cols: Int32Array.from(cols), vals: Float64Array.from(vals) };
-  };
-  const SI = sparse(I.A, I.rows);
-  const SE = sparse(E.A, E.rows);
+  const SI = new RowMatrix(I.A, I.rows, dim);
+  const SE = new RowMatrix(E.A, E.rows, dim);
   /** Row i of S at x: its value and the sum of the magnitudes of its terms. */
-  const row = (S: ReturnType<typeof sparse>, i: number, x: Float64Array): [number, number] => {
+  const row = (S: RowMatrix, i: number, x: Float64Array): [number, number] => {
     let s = 0;
     let mag = 0;
-    for (let q = S.start[i]; q < S.start[i + 1]; q++) {
-      const t = S.vals[q] * x[S.cols[q]];
+    for (let q = S.ptr[i]; q < S.ptr[i + 1]; q++) {
+      const t = S.val[q] * x[S.idx[q]];
       s += t;
       mag += Math.abs(t);
     }

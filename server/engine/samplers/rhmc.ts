@@ -56,6 +56,7 @@ import { Cholesky } from '../linalg/cholesky';
 import type { RowMatrix } from '../linalg/sparse';
 import { rowLeverages } from '../linalg/metric';
 import { DualAveraging, warmupBuffers, windowEnds } from './adapt';
+import { curvatureByDifferences } from './common';
 import { DEFAULT_MIDPOINT, midpointChain } from './rhmc-midpoint';
 
 /**
@@ -458,24 +459,13 @@ export function curvatureDiagonal(p: PreparedTarget, z: Float64Array, scale: Flo
   const s = new Float64Array(p.m);
   p.rows.mul(z, s);
   for (let i = 0; i < p.m; i++) s[i] = p.b[i] - s[i];
-  const zz = Float64Array.from(z);
-  const g1 = new Float64Array(n);
-  const g2 = new Float64Array(n);
   // column view of A for the slack limit
   const colMax = new Float64Array(n).fill(Infinity);
   const { ptr, idx, val } = p.rows;
   for (let i = 0; i < p.m; i++)
     for (let q = ptr[i]; q < ptr[i + 1]; q++) colMax[idx[q]] = Math.min(colMax[idx[q]], (0.25 * s[i]) / Math.abs(val[q]));
-  for (let j = 0; j < n; j++) {
-    const h = Math.min(1e-4 * scale[j], colMax[j]);
-    zz[j] = z[j] + h;
-    const l1 = p.logDensity(zz, g1);
-    zz[j] = z[j] - h;
-    const l2 = p.logDensity(zz, g2);
-    zz[j] = z[j];
-    const c = -(g1[j] - g2[j]) / (2 * h);
-    out[j] = Number.isFinite(c) && Number.isFinite(l1) && Number.isFinite(l2) && c > 0 ? c : 0;
-  }
+  curvatureByDifferences((x, g) => p.logDensity(x, g), Float64Array.from(z), (j) => Math.min(1e-4 * scale[j], colMax[j]), out);
+  for (let j = 0; j < n; j++) if (!(out[j] > 0)) out[j] = 0;
   return out;
 }
 

@@ -25,7 +25,7 @@
 import type { ChainOptions, ChainOutput, ModelTarget } from '../types';
 import type { PreparedTarget } from '../geometry';
 import type { Rng } from '../rng';
-import type { DrawCheck } from './common';
+import { curvatureByDifferences, type DrawCheck } from './common';
 import { euclideanHmcChain } from './hmc-core';
 
 type Block =
@@ -457,20 +457,8 @@ export class TransformMap {
  */
 export function curvatureInverseMetric(logDensity: (x: Float64Array, g: Float64Array) => number, x0: Float64Array): Float64Array {
   const k = x0.length;
-  const x = Float64Array.from(x0);
-  const g1 = new Float64Array(k);
-  const g2 = new Float64Array(k);
-  const out = new Float64Array(k).fill(NaN);
-  for (let q = 0; q < k; q++) {
-    const h = 1e-4 * (1 + Math.abs(x0[q]));
-    x[q] = x0[q] + h;
-    const l1 = logDensity(x, g1);
-    x[q] = x0[q] - h;
-    const l2 = logDensity(x, g2);
-    x[q] = x0[q];
-    const c = -(g1[q] - g2[q]) / (2 * h);
-    if (Number.isFinite(l1) && Number.isFinite(l2) && Number.isFinite(c) && c > 0) out[q] = Math.min(1e4, Math.max(1e-10, 1 / c));
-  }
+  const out = curvatureByDifferences(logDensity, Float64Array.from(x0), (q) => 1e-4 * (1 + Math.abs(x0[q])), new Float64Array(k));
+  for (let q = 0; q < k; q++) out[q] = out[q] > 0 ? Math.min(1e4, Math.max(1e-10, 1 / out[q])) : NaN;
   let logSum = 0;
   let count = 0;
   for (let q = 0; q < k; q++) if (Number.isFinite(out[q])) (logSum += Math.log(out[q])), count++;
