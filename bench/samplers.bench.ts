@@ -157,20 +157,19 @@ async function benchProblem(id: string): Promise<ProblemResult> {
     try {
       const spi = calibrate(p, engine, starts[0]);
       perIteration.set(engine, spi);
-      const { warmup, draws } = sizeFor(spi, BUDGET);
-      if (QUICK && spi * CHAINS * (warmup + draws) > 3 * BUDGET) {
+      let size = sizeFor(spi, BUDGET);
+      if (QUICK && spi * CHAINS * (size.warmup + size.draws) > 3 * BUDGET) {
         engines.push({ engine, applicable: true, note: `over the quick budget (${f3(spi)} s per iteration)` });
         process.stderr.write(`    over the quick budget (${f3(spi)} s per iteration)\n`);
         continue;
       }
-      let size = sizeFor(spi, BUDGET);
-      let run = runChainsTimed(p, engine, starts, warmup, draws);
+      let run = runChainsTimed(p, engine, starts, size.warmup, size.draws);
       // The short calibration chain overstates the cost per iteration of an engine whose first
       // iterations are its slowest (step-size search, early warm-up): when the chains used less than
       // half the budget, they are run again at the length the measured cost per iteration gives
       // (at most RESIZE_MAX times longer), so every engine's estimate rests on about the same time.
       if (run.seconds < 0.5 * BUDGET) {
-        const measured = run.seconds / (CHAINS * (warmup + draws));
+        const measured = run.seconds / (CHAINS * (size.warmup + size.draws));
         const spi2 = Math.max(measured, spi / RESIZE_MAX);
         perIteration.set(engine, spi2);
         size = sizeFor(spi2, BUDGET);
@@ -241,13 +240,14 @@ function markdown(problems: ProblemResult[], date: string): string {
     `|---|${problems.map(() => '---').join('|')}|`,
   ];
   const names = [...ENGINES, 'auto'];
+  const bests = problems.map((p) => bestEssPerSecond(p.engines));
   for (const name of names) {
-    const cells = problems.map((p) => {
+    const cells = problems.map((p, pi) => {
       const e = p.engines.find((x) => x.engine === name);
       if (!e) return '';
       if (!e.applicable) return 'n/a';
       if (e.essPerSecond === undefined) return e.note?.startsWith('over') ? 'over budget' : 'failed';
-      const best = bestEssPerSecond(p.engines);
+      const best = bests[pi];
       const v = f3(e.essPerSecond) + (e.maxRhat !== undefined && e.maxRhat <= RHAT_COUNTED ? '' : ' †');
       if (name === 'auto') return `${v} (${e.chosen}, ${f3(p.autoRatio)}×)`;
       return e.essPerSecond === best ? `**${v}**` : v;
