@@ -132,17 +132,19 @@ export async function notebookTables(exec: Exec, workspaceId: string, notebookId
     .select({ content: cells.content, position: cells.position })
     .from(cells)
     .where(and(eq(cells.workspaceId, workspaceId), eq(cells.notebookId, notebookId), eq(cells.kind, 'data')));
-  const ids = dataCells
-    .sort((a, b) => a.position - b.position)
-    .map((c) => datasetIdOf(c.content))
-    .filter((x): x is string => typeof x === 'string');
-  if (ids.length === 0) return new Map();
-  const rows = await exec.select(metaColumns).from(datasets).where(and(eq(datasets.workspaceId, workspaceId), inArray(datasets.id, ids)));
-  const byId = new Map(rows.map((r) => [r.id, r]));
+  const ids = dataCells.sort((a, b) => a.position - b.position).map((c) => datasetIdOf(c.content));
+  return boundByName(ids, await datasetMetas(exec, workspaceId, ids.filter((x): x is string => typeof x === 'string')));
+}
+
+/**
+ * The tables a notebook binds by name, from its data cells' dataset ids in cell order and those
+ * datasets (a later cell wins a name clash; a missing dataset binds nothing).
+ */
+export function boundByName(ids: (string | null | undefined)[], metas: Map<string, DatasetMeta>): Map<string, DatasetMeta> {
   const out = new Map<string, DatasetMeta>();
   for (const id of ids) {
-    const r = byId.get(id);
-    if (r) out.set(r.name, r);
+    const d = id ? metas.get(id) : undefined;
+    if (d) out.set(d.name, d);
   }
   return out;
 }

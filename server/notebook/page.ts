@@ -9,7 +9,7 @@ import { dataContentSchema, datasetIdOf, type CellContent, type CompileResponse 
 import type { Exec } from '../lib/audit';
 import { findNotebook, notebookCells, toNotebook } from '../routes/notebooks';
 import { loadComments, toComment } from '../routes/comments';
-import { datasetMetas, datasetPreview, loadDataTables, toDataset, type DatasetMeta } from './datasets';
+import { boundByName, datasetMetas, datasetPreview, loadDataTables, toDataset, type DatasetMeta } from './datasets';
 import { checkModelOffThread } from './checks';
 import { tablesNamed } from './model';
 import { cellsRuns } from '../runs/read';
@@ -44,12 +44,7 @@ export async function notebookPage(exec: Exec, ws: { id: string; role: NotebookP
   const [nb, cells] = await Promise.all([findNotebook(exec, ws.id, notebookId), notebookCells(exec, ws.id, notebookId)]);
   const dataCellIds = cells.filter((c) => c.kind === 'data').map((c) => datasetIdOf(c.content as CellContent));
   const metas = await datasetMetas(exec, ws.id, dataCellIds.filter((x): x is string => typeof x === 'string'));
-  // The tables the notebook binds by name, as notebookTables reads them (a later cell wins a name clash).
-  const bound = new Map<string, DatasetMeta>();
-  for (const id of dataCellIds) {
-    const d = id ? metas.get(id) : undefined;
-    if (d) bound.set(d.name, d);
-  }
+  const bound = boundByName(dataCellIds, metas);
   const datasetIds = [
     ...new Set(
       cells
