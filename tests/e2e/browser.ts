@@ -5,7 +5,8 @@
 import { mkdir, mkdtemp, rm } from 'node:fs/promises';
 import os from 'node:os';
 import path from 'node:path';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { expect } from 'vitest';
+import { chromium, type BrowserContext, type Locator, type Page } from 'playwright-core';
 import { REPO_ROOT } from '../helpers/server';
 
 export const CHROMIUM_FLAGS = [
@@ -40,6 +41,19 @@ export async function launchBrowser(): Promise<Browser> {
       await rm(profile, { recursive: true, force: true });
     },
   };
+}
+
+/**
+ * Brings `cell` into view until `target` is visible. Plots load as their cell comes near the
+ * viewport, and cells above may still grow as their own plots arrive, so one scroll is not enough.
+ */
+export async function scrollUntilVisible(cell: Locator, target: Locator, timeout = 30_000): Promise<void> {
+  await expect
+    .poll(async () => {
+      await cell.scrollIntoViewIfNeeded();
+      return target.isVisible();
+    }, { timeout })
+    .toBe(true);
 }
 
 /** test-results/ at the repository root (git-ignored). */

@@ -13,7 +13,7 @@ import { seedDemoNotebook } from '../../server/seed/notebook';
 import { RunWorker } from '../../server/runs/worker';
 import { startTestServer, type TestServer } from '../helpers/server';
 import { TestClient, signIn, signUp, TEST_PASSWORD } from '../helpers/http';
-import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';
+import { launchBrowser, openWatchedPage, screenshotPath, scrollUntilVisible, type Browser } from './browser';
 
 let server: TestServer;
 let browser: Browser;
@@ -150,13 +150,7 @@ async function flow() {
     const fits = page.locator('section[data-kind="fit"]');
     for (let k = 0; k < (await fits.count()); k++) {
       // Cells above may still grow as their own plots arrive: bring this one into view again until its figure is there.
-      const figure = fits.nth(k).locator('[data-testid="fit-plots"] [data-testid="plot"] svg').first();
-      await expect
-        .poll(async () => {
-          await fits.nth(k).scrollIntoViewIfNeeded();
-          return figure.isVisible();
-        }, { timeout: 30_000 })
-        .toBe(true);
+      await scrollUntilVisible(fits.nth(k), fits.nth(k).locator('[data-testid="fit-plots"] [data-testid="plot"] svg').first());
     }
     // One results figure per finished fit, with the one-mean fit of the demo comparison.
     await expect.poll(() => page.locator('[data-testid="fit-plots"] [data-testid="plot"] svg').count(), { timeout: 30_000 }).toBe(5);

@@ -10,7 +10,7 @@ import { DEMO_NOTEBOOK, DEMO_USER, seedDemo } from '../../server/seed/demo';
 import { seedDemoNotebook } from '../../server/seed/notebook';
 import { startTestServer, type TestServer } from '../helpers/server';
 import { TestClient, signIn, signUp, TEST_PASSWORD } from '../helpers/http';
-import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';
+import { launchBrowser, openWatchedPage, screenshotPath, scrollUntilVisible, type Browser } from './browser';
 
 let server: TestServer;
 let browser: Browser;
@@ -335,15 +335,7 @@ describe('the other pages on a phone (390 px wide)', () => {
         expect(await panel.innerText()).toContain('share');
         const fit = page.locator('section[data-kind="fit"]').first();
         await fit.getByTestId('quantity-row').first().waitFor();
-        // Plots load as their fit cell comes near the viewport; cells above may still grow as
-        // their own plots arrive, so bring it into view again until its figure is there.
-        const triangle = fit.getByTestId('triangle-figure');
-        await expect
-          .poll(async () => {
-            await fit.scrollIntoViewIfNeeded();
-            return triangle.isVisible();
-          }, { timeout: 30_000 })
-          .toBe(true);
+        await scrollUntilVisible(fit, fit.getByTestId('triangle-figure'));
         await model.getByRole('button', { name: /^Comments on this model cell/ }).click();
         await page.getByTestId('comment-thread').filter({ hasText: 'same lab' }).waitFor();
         await expectNoSidewaysScroll('notebook with the comments open, as a reviewer');

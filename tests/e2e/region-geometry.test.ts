@@ -16,7 +16,7 @@ import { finishRun } from '../../server/runs/queue';
 import { newId } from '../../server/lib/ids';
 import type { FitSettings } from '../../shared/fit';
 import { startTestServer, type TestServer } from '../helpers/server';
-import { launchBrowser, openWatchedPage, screenshotPath, type Browser } from './browser';
+import { launchBrowser, openWatchedPage, screenshotPath, scrollUntilVisible, type Browser } from './browser';
 
 let server: TestServer;
 let browser: Browser;
@@ -135,15 +135,8 @@ function outside({ polygon, draws }: Drawn, tol = 0.05): [number, number][] {
 }
 
 async function openRegionTab(fit: Locator) {
-  // Plots load as their fit cell comes near the viewport; cells above may still grow as their own
-  // plots arrive, so bring it into view again until its tabs are there.
   const tab = fit.getByRole('tab', { name: 'Feasible region' });
-  await expect
-    .poll(async () => {
-      await fit.scrollIntoViewIfNeeded();
-      return tab.isVisible();
-    }, { timeout: 30_000 })
-    .toBe(true);
+  await scrollUntilVisible(fit, tab);
   await tab.click();
 }
 
