@@ -373,16 +373,14 @@ describe('the results in our own figures (desktop)', () => {
       await page.goto(notebookUrl);
       const mix = page.locator('section[data-kind="fit"]').first();
       await mix.getByTestId('quantity-row').first().waitFor();
-      // Plots load as their fit cell comes into view.
-      await mix.scrollIntoViewIfNeeded();
       // Three shares summing to one open in their triangle, with every draw inside the tinted region.
-      await mix.getByTestId('triangle-figure').waitFor();
+      await scrollUntilVisible(mix, mix.getByTestId('triangle-figure'));
       await mix.screenshot({ path: await screenshotPath('desktop-mixing-fit.png') });
       await mix.getByRole('tab', { name: 'Chain agreement' }).click();
       await mix.getByTestId('mixing-view').waitFor();
       await mix.screenshot({ path: await screenshotPath('desktop-chain-agreement.png') });
       const dose = page.locator('section[data-kind="fit"]').nth(1);
-      await dose.scrollIntoViewIfNeeded();
+      await scrollUntilVisible(dose, dose.getByRole('tab', { name: 'Order' }));
       await dose.getByRole('tab', { name: 'Order' }).click();
       await dose.getByTestId('ladder-view').waitFor();
       expect(await dose.getByTestId('ladder-rung').count()).toBeGreaterThanOrEqual(3);

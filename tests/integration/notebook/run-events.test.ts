@@ -52,8 +52,9 @@ async function readEvents(client: TestClient, path: string, until: (all: RunEven
 describe('run events', () => {
   it('push queue place, chain progress and the finished run to members; finished runs only to share-link readers', async () => {
     const model = (await w.editor.post(`${w.base}/cells`, { kind: 'model', source: 'unknown a\nterm ld_normal(a, 0, 1)\nconstrain a >= 0\n' })).body.cell;
-    // RHMC: a few seconds per chain, so the notebook's poller (about once a second) sees it running.
-    const settings = { chains: 2, warmup: 2000, draws: 5000, seed: 9, sampler: 'rhmc' };
+    // RHMC: a few seconds per chain, so the notebook's poller (about once a second) sees it running
+    // (at 2,000 + 5,000 iterations a chain could finish before the first progress event).
+    const settings = { chains: 2, warmup: 2000, draws: 20000, seed: 9, sampler: 'rhmc' };
     const fit = (await w.editor.post(`${w.base}/cells`, { kind: 'fit', content: { modelCellId: model.id, settings } })).body.cell;
     const queued = await w.editor.post(`${w.base}/cells/${fit.id}/runs`, {});
     expect(queued.status).toBe(201);
@@ -79,7 +80,7 @@ describe('run events', () => {
     await worker.stop();
     const mine = events.flatMap((e) => e.runs.filter((r) => r.id === runId));
     // Running with per-chain progress before the end, then done with its summary.
-    expect(mine.some((r) => r.status === 'running' && r.progress.length > 0 && r.progress.every((p) => p.total === 7000)), JSON.stringify(mine.map((r) => [r.status, r.progress]))).toBe(true);
+    expect(mine.some((r) => r.status === 'running' && r.progress.length > 0 && r.progress.every((p) => p.total === 22000)), JSON.stringify(mine.map((r) => [r.status, r.progress]))).toBe(true);
     const done = mine[mine.length - 1];
     expect(done.status).toBe('done');
     expect(done.summary?.quantities[0].name).toBe('a');
